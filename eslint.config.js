@@ -1,0 +1,38 @@
+// Flat config: TypeScript everywhere, zero warnings in `npm run lint`.
+import js from '@eslint/js';
+import tseslint from 'typescript-eslint';
+import reactHooks from 'eslint-plugin-react-hooks';
+import globals from 'globals';
+
+export default tseslint.config(
+  { ignores: ['dist/**', 'node_modules/**', '.legwork/**', 'test-output/**', 'drizzle/**'] },
+  js.configs.recommended,
+  ...tseslint.configs.recommended,
+  {
+    languageOptions: { globals: { ...globals.node, ...globals.browser } },
+    rules: {
+      '@typescript-eslint/consistent-type-imports': 'error',
+      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
+    },
+  },
+  {
+    files: ['src/**/*.{ts,tsx}'],
+    plugins: { 'react-hooks': reactHooks },
+    rules: { ...reactHooks.configs.recommended.rules },
+  },
+  {
+    // shared/ is a leaf: pure code, no I/O, importable by the browser, the server, the worker and the CLI.
+    files: ['shared/**/*.ts'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            { group: ['node:*', 'fs', 'path', 'pg', 'express', 'drizzle-orm', 'drizzle-orm/*', 'react', 'react-dom'], message: 'shared/ is pure: no I/O or framework imports.' },
+            { group: ['../../server/*', '../../worker/*', '../../src/*', '../server/*', '../worker/*', '../src/*'], message: 'shared/ must not import from server, worker or src.' },
+          ],
+        },
+      ],
+    },
+  },
+);
