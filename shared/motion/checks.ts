@@ -1,0 +1,392 @@
+// The motion-safety budget checks (motion-spec sections 5-6): each check gives a use ratio (worst value
+// over limit) per subject, and a finding with its time span for every stretch at or over the limit.
+//
+// Ratios, per check:
+// - stroke: allowed [min + margin, max - margin]; ratio = length / upper bound above the middle,
+//   lower bound / length below it (the spec's example: 2.312 m against 2.28 m gives 1.014). value and
+//   limit are the length and the bound it approached, in m.
+// - legSpeed, legAccel: |value| / limit per leg.
+// - envelope: see envelope.ts; subject = seat, with the axis and row named on the finding.
+// - jerk, angularSpeed, angularAccel: |value| / limit per axis (platform frame) at the worst seat at
+//   each instant.
+// - wrms: weighted r.m.s. over the whole track at the worst seat / limit, per axis (Wd x, y; Wk z).
+// - msdv: MSDV_z (Wf) at the worst seat / limit, subject z.
+// - conditioning: Jacobian condition number / limit, subject "platform".
+//
+// Rider quantities are compared after a 4-pole Butterworth low-pass at 5 Hz (common practice for
+// post-processing ride accelerations, shared/reference-values.md), run forward only and started in
+// steady state; its group delay near 0 Hz is about 0.08 s, so spans can trail the pose by that much.
+// The ISO 2631-1 weightings take the unfiltered specific force: they carry their own band limits.
+import type { Budget } from '../schemas/budget';
+import { ENVELOPE_AXES, REST_G } from '../schemas/budget';
+import type { CheckName, CheckResult, ComfortSummary, Finding, Use } from '../schemas/findings';
+import { CHECK_SEVERITY } from '../schemas/findings';
+import { checkEnvelopeAxis } from './envelope';
+import type { FilterCascade } from './filters';
+import { analogLowPass2, cascadeFromAnalog, filterSignal } from './filters';
+import { msdv, rms, upsamplingFactor, vdv, vomitingShare_percent, weight } from './iso2631';
+import { derivativeInto } from './track-derivative';
+import { G0_MPS2 } from './units';
+
+/** Rider low-pass (common practice): 4-pole Butterworth at this corner, Hz. */
+export const RIDER_LOWPASS_HZ = 5;
+
+/** Actuator limits of a motion base's legs (m, m/s, m/s^2). */
+export interface LegLimits {
+  min_m: number;
+  max_m: number;
+  speedMax_mps: number;
+  accelMax_mps2: number;
+}
+
+/** Everything the checks read, on one uniform grid (time_s[i] = t0 + i / rate_hz). */
+export interface CheckInput {
+  time_s: Float64Array;
+  rate_hz: number;
+  /** Per leg: length (m), speed (m/s), acceleration (m/s^2); columns of time_s.length. */
+  legLength_m: readonly Float64Array[];
+  legSpeed_mps: readonly Float64Array[];
+  legAccel_mps2: readonly Float64Array[];
+  /** Per seat: specific force [x, y, z] in the platform frame, m/s^2 (at rest (0, 0, +g0)). */
+  seatForce_mps2: readonly (readonly [Float64Array, Float64Array, Float64Array])[];
+  /** Platform angular velocity in the platform frame [x, y, z], rad/s. */
+  omega_radps: readonly [Float64Array, Float64Array, Float64Array];
+  /** Jacobian condition number per sample, if the kinematics gave one. */
+  conditioning?: Float64Array;
+  legLimits: LegLimits;
+}
+
+/** Intermediate rider signals the pipeline reuses for spectra and charts (m/s^2, m/s^3, rad/s, rad/s^2). */
+export interface RiderSignals {
+  /** Per seat, low-passed specific force [x, y, z]. */
+  seatForceLp_mps2: [Float64Array, Float64Array, Float64Array][];
+  /** Per axis, worst |jerk| over the seats at each instant. */
+  jerkWorst_mps3: [Float64Array, Float64Array, Float64Array];
+}
+
+export interface BudgetCheck extends CheckResult {
+  rider: RiderSignals;
+  notes: string[];
+}
+
+/** 4-pole Butterworth low-pass at f_hz as two biquads (damping cos(pi/8) and cos(3pi/8)), pre-warped at f_hz. */
+export function butterworth4LowPass(f_hz: number, rate_hz: number): FilterCascade {
+  return cascadeFromAnalog(
+    [analogLowPass2(f_hz, Math.cos(Math.PI / 8)), analogLowPass2(f_hz, Math.cos((3 * Math.PI) / 8))],
+    rate_hz,
+  );
+}
+
+/** Thrown when a computed signal is not finite: a bug or an input the kinematics could not follow. */
+export class CheckInputError extends Error {
+  override name = 'CheckInputError';
+}
+
+function assertFinite(what: string, a: Float64Array, time_s: Float64Array): void {
+  for (let i = 0; i < a.length; i++) {
+    if (!Number.isFinite(a[i])) {
+      throw new CheckInputError(`${what} is not a finite number at t = ${time_s[i]} s (sample ${i})`);
+    }
+  }
+}
+
+const AXIS_INDEX = { x: 0, y: 1, z: 2 } as const;
+
+class Collector {
+  readonly findings: Finding[] = [];
+  readonly uses: Use[] = [];
+  constructor(
+    readonly time_s: Float64Array,
+    readonly rate_hz: number,
+  ) {}
+
+  /** Span of samples first..last, widened half a sample each side (it covers the samples' intervals). */
+  span(first: number, last: number): { start_s: number; end_s: number } {
+    const half = 0.5 / this.rate_hz;
+    return { start_s: (this.time_s[first] as number) - half, end_s: (this.time_s[last] as number) + half };
+  }
+
+  /**
+   * Scans ratio[0..n) for runs at or over 1; each run becomes a finding valued at its worst sample.
+   * Records the use (worst ratio) for the subject.
+   */
+  scan(
+    check: CheckName,
+    subject: string,
+    ratio: Float64Array,
+    valueAt: (i: number) => number,
+    limitAt: (i: number) => number,
+  ): void {
+    const n = this.time_s.length;
+    let worst = 0;
+    let first = -1;
+    let peak = 0;
+    for (let i = 0; i <= n; i++) {
+      const r = i < n ? (ratio[i] as number) : 0;
+      if (r > worst) worst = r;
+      if (r >= 1) {
+        if (first < 0) {
+          first = i;
+          peak = i;
+        } else if (r > (ratio[peak] as number)) peak = i;
+      } else if (first >= 0) {
+        this.findings.push({
+          check,
+          severity: CHECK_SEVERITY[check],
+          subject,
+          ...this.span(first, i - 1),
+          value: valueAt(peak),
+          limit: limitAt(peak),
+          ratio: ratio[peak] as number,
+        });
+        first = -1;
+      }
+    }
+    this.uses.push({ check, subject, ratio: worst });
+  }
+
+  /** A whole-track figure (wrms, msdv) against its limit. */
+  whole(check: CheckName, subject: string, value: number, limit: number): void {
+    const ratio = value / limit;
+    const n = this.time_s.length;
+    this.uses.push({ check, subject, ratio });
+    if (ratio >= 1 && n > 0) {
+      this.findings.push({
+        check,
+        severity: CHECK_SEVERITY[check],
+        subject,
+        ...this.span(0, n - 1),
+        value,
+        limit,
+        ratio,
+      });
+    }
+  }
+}
+
+/** Fills ratio[i] = |signal[i]| / limit. */
+function absRatio(signal: Float64Array, limit: number, ratio: Float64Array): Float64Array {
+  const inv = 1 / limit;
+  for (let i = 0; i < signal.length; i++) ratio[i] = Math.abs(signal[i] as number) * inv;
+  return ratio;
+}
+
+/** Runs every check of the budget on one uniform-grid track; pure, allocation proportional to the track. */
+export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
+  const { time_s, rate_hz } = input;
+  const n = time_s.length;
+  const out = new Collector(time_s, rate_hz);
+  const notes: string[] = [];
+  const ratio = new Float64Array(n);
+  const lim = input.legLimits;
+
+  // Actuators.
+  const lo = lim.min_m + budget.strokeMargin_m;
+  const hi = lim.max_m - budget.strokeMargin_m;
+  if (!(lo < hi)) {
+    throw new CheckInputError(
+      `stroke margin ${budget.strokeMargin_m} m leaves no stroke between ${lim.min_m} m and ${lim.max_m} m`,
+    );
+  }
+  const mid = (lo + hi) / 2;
+  input.legLength_m.forEach((len, k) => {
+    assertFinite(`leg${k + 1} length`, len, time_s);
+    for (let i = 0; i < n; i++) {
+      const l = len[i] as number;
+      // A length at or below zero cannot come from real kinematics; give it a large finite ratio.
+      ratio[i] = l >= mid ? l / hi : l > 0 ? lo / l : 1e6;
+    }
+    out.scan(
+      'stroke',
+      `leg${k + 1}`,
+      ratio,
+      (i) => len[i] as number,
+      (i) => ((len[i] as number) >= mid ? hi : lo),
+    );
+  });
+  input.legSpeed_mps.forEach((v, k) => {
+    assertFinite(`leg${k + 1} speed`, v, time_s);
+    out.scan(
+      'legSpeed',
+      `leg${k + 1}`,
+      absRatio(v, lim.speedMax_mps, ratio),
+      (i) => Math.abs(v[i] as number),
+      () => lim.speedMax_mps,
+    );
+  });
+  input.legAccel_mps2.forEach((a, k) => {
+    assertFinite(`leg${k + 1} acceleration`, a, time_s);
+    out.scan(
+      'legAccel',
+      `leg${k + 1}`,
+      absRatio(a, lim.accelMax_mps2, ratio),
+      (i) => Math.abs(a[i] as number),
+      () => lim.accelMax_mps2,
+    );
+  });
+
+  // Rider: low-passed specific force per seat, envelope per seat and axis.
+  const filterOk = rate_hz > 2 * RIDER_LOWPASS_HZ;
+  if (!filterOk) {
+    notes.push(
+      `The ${RIDER_LOWPASS_HZ} Hz rider low-pass was not applied: the track rate ${rate_hz} Hz is too low for it.`,
+    );
+  }
+  const lowPass = filterOk ? butterworth4LowPass(RIDER_LOWPASS_HZ, rate_hz) : null;
+  const smooth = (a: Float64Array) => (lowPass ? filterSignal(lowPass, a, 'steady') : a.slice());
+  const seatForceLp: [Float64Array, Float64Array, Float64Array][] = [];
+  const jerkWorst: [Float64Array, Float64Array, Float64Array] = [
+    new Float64Array(n),
+    new Float64Array(n),
+    new Float64Array(n),
+  ];
+  const scratch = new Float64Array(n);
+  const g = new Float64Array(n);
+  input.seatForce_mps2.forEach((force, s) => {
+    const seat = `seat${s + 1}`;
+    const lp = force.map((f, a) => {
+      assertFinite(`${seat} specific force ${ENVELOPE_AXES[a]}`, f, time_s);
+      return smooth(f);
+    }) as [Float64Array, Float64Array, Float64Array];
+    seatForceLp.push(lp);
+    let seatWorst = 0;
+    let seatAxis: 'x' | 'y' | 'z' = 'x';
+    for (const axis of ENVELOPE_AXES) {
+      const f = lp[AXIS_INDEX[axis]];
+      for (let i = 0; i < n; i++) g[i] = (f[i] as number) / G0_MPS2;
+      const res = checkEnvelopeAxis(g, 0, 1, n, rate_hz, budget.envelope[axis], REST_G[axis]);
+      if (res.ratio > seatWorst) {
+        seatWorst = res.ratio;
+        seatAxis = axis;
+      }
+      for (const v of res.violations) {
+        out.findings.push({
+          check: 'envelope',
+          severity: CHECK_SEVERITY.envelope,
+          subject: seat,
+          ...out.span(v.firstIndex, v.lastIndex),
+          value: v.value,
+          limit: v.limit,
+          ratio: v.ratio,
+          axis,
+          row: v.row,
+        });
+      }
+      // Jerk of the low-passed force; the worst seat at each instant.
+      derivativeInto(time_s, f, scratch);
+      const jw = jerkWorst[AXIS_INDEX[axis]];
+      for (let i = 0; i < n; i++) {
+        const j = Math.abs(scratch[i] as number);
+        if (j > (jw[i] as number)) jw[i] = j;
+      }
+    }
+    out.uses.push({ check: 'envelope', subject: seat, ratio: seatWorst, axis: seatAxis });
+  });
+
+  const c = budget.comfort;
+  for (const axis of ENVELOPE_AXES) {
+    const jw = jerkWorst[AXIS_INDEX[axis]];
+    out.scan(
+      'jerk',
+      axis,
+      absRatio(jw, c.jerkMax_mps3, ratio),
+      (i) => jw[i] as number,
+      () => c.jerkMax_mps3,
+    );
+  }
+
+  // Platform rotation (the same at every seat), low-passed like the rider's specific force.
+  const alpha = new Float64Array(n);
+  for (const axis of ENVELOPE_AXES) {
+    const raw = input.omega_radps[AXIS_INDEX[axis]];
+    assertFinite(`angular velocity ${axis}`, raw, time_s);
+    const w = smooth(raw);
+    out.scan(
+      'angularSpeed',
+      axis,
+      absRatio(w, c.angularSpeedMax_radps, ratio),
+      (i) => Math.abs(w[i] as number),
+      () => c.angularSpeedMax_radps,
+    );
+    derivativeInto(time_s, w, alpha);
+    out.scan(
+      'angularAccel',
+      axis,
+      absRatio(alpha, c.angularAccelMax_radps2, ratio),
+      (i) => Math.abs(alpha[i] as number),
+      () => c.angularAccelMax_radps2,
+    );
+  }
+
+  if (input.conditioning && c.conditioningMax !== undefined) {
+    const k = input.conditioning;
+    const kMax = c.conditioningMax;
+    assertFinite('Jacobian condition number', k, time_s);
+    for (let i = 0; i < n; i++) ratio[i] = (k[i] as number) / kMax;
+    out.scan(
+      'conditioning',
+      'platform',
+      ratio,
+      (i) => k[i] as number,
+      () => kMax,
+    );
+  }
+
+  const comfort = comfortFigures(input, rate_hz);
+  if (comfort) {
+    for (const axis of ENVELOPE_AXES) out.whole('wrms', axis, comfort.wrms_mps2[axis], c.wrmsMax_mps2);
+    out.whole('msdv', 'z', comfort.msdvZ_mps1_5, c.msdvZMax_mps1_5);
+  }
+
+  return {
+    within: out.findings.length === 0,
+    findings: out.findings,
+    uses: out.uses,
+    ...(comfort ? { comfort } : {}),
+    rider: { seatForceLp_mps2: seatForceLp, jerkWorst_mps3: jerkWorst },
+    notes,
+  };
+}
+
+/** ISO 2631-1 figures over the whole track at the worst seat per axis; undefined without seats or samples. */
+export function comfortFigures(input: CheckInput, rate_hz: number): ComfortSummary | undefined {
+  const seats = input.seatForce_mps2;
+  if (seats.length === 0 || input.time_s.length < 2) return undefined;
+  const wrms = { x: 0, y: 0, z: 0 };
+  const wrmsSeat = { x: 'seat1', y: 'seat1', z: 'seat1' };
+  const vdvs = { x: 0, y: 0, z: 0 };
+  let msdvZ = 0;
+  let msdvSeat = 'seat1';
+  seats.forEach((force, s) => {
+    const seat = `seat${s + 1}`;
+    for (const axis of ENVELOPE_AXES) {
+      const weighted = weight(force[AXIS_INDEX[axis]], rate_hz, axis === 'z' ? 'Wk' : 'Wd');
+      const r = rms(weighted);
+      if (r > wrms[axis] || s === 0) {
+        wrms[axis] = r;
+        wrmsSeat[axis] = seat;
+        vdvs[axis] = vdv(weighted, rate_hz);
+      }
+    }
+    const m = msdv(weight(force[2], rate_hz, 'Wf'), rate_hz);
+    if (m > msdvZ || s === 0) {
+      msdvZ = m;
+      msdvSeat = seat;
+    }
+  });
+  const up = upsamplingFactor('Wk', rate_hz);
+  const weightingNote =
+    up > 1
+      ? `Wk and Wd were evaluated at ${rate_hz * up} Hz (the ${rate_hz} Hz track interpolated up ${up} times) so ` +
+        `their 100 Hz band limit is kept; the track itself holds nothing above ${rate_hz / 2} Hz.`
+      : `Wk and Wd were evaluated at the track rate ${rate_hz} Hz.`;
+  return {
+    wrms_mps2: wrms,
+    wrmsSeat,
+    vdv_mps1_75: vdvs,
+    msdvZ_mps1_5: msdvZ,
+    msdvSeat,
+    vomitShare_pct: vomitingShare_percent(msdvZ),
+    weightingNote,
+  };
+}

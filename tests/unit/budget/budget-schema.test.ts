@@ -1,0 +1,103 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { DEMO_BUDGET, JsonInputError, budgetSchema, parseBudgetText } from '../../../shared/schemas/budget';
+
+const fixturePath = new URL('../../fixtures/budget-demo.json', import.meta.url);
+const demoText = readFileSync(fixturePath, 'utf8');
+
+function problemsOf(text: string): JsonInputError['problems'] {
+  try {
+    parseBudgetText(text, 'u.json');
+  } catch (e) {
+    if (e instanceof JsonInputError) return e.problems;
+    throw e;
+  }
+  throw new Error('expected the budget to be rejected');
+}
+
+describe('budget schema (motion-spec section 7 format)', () => {
+  it('accepts the demo fixture, which matches the built-in demo budget', () => {
+    expect(parseBudgetText(demoText, 'budget-demo.json')).toEqual(DEMO_BUDGET);
+  });
+
+  it('accepts the example budget printed in motion-spec section 7', () => {
+    const specExample = {
+      strokeMargin_m: 0.02,
+      envelope: {
+        x: [
+          [0, -1.0, 1.0],
+          [1.0, -0.5, 0.5],
+        ],
+        y: [[0, -0.8, 0.8]],
+        z: [[0, 0.2, 1.8]],
+      },
+      comfort: {
+        jerkMax_mps3: 25,
+        angularSpeedMax_radps: 0.7,
+        angularAccelMax_radps2: 4,
+        msdvZMax_mps1_5: 12,
+        wrmsMax_mps2: 0.8,
+      },
+    };
+    expect(budgetSchema.safeParse(specExample).success).toBe(true);
+  });
+
+  it('names the row, line and column when lower >= upper', () => {
+    const text = demoText.replace('[1.0, -0.5, 0.5]', '[1.0, 0.5, -0.5]');
+    const [p, ...rest] = problemsOf(text);
+    expect(rest).toHaveLength(0);
+    expect(p?.path).toBe('envelope.x[1]');
+    expect(p?.reason).toMatch(/lower_g .* less than upper_g/);
+    // The row sits on line 7 of the fixture; its "[" is the column reported.
+    const line = text.split('\n')[6] as string;
+    expect(p?.line).toBe(7);
+    expect(p?.column).toBe(line.indexOf('[1.0, 0.5, -0.5]') + 1);
+  });
+
+  it('rejects a negative duration and rows out of order, naming each', () => {
+    const text = demoText.replace(
+      '"y": [[0, -0.8, 0.8], [1.0, -0.4, 0.4]]',
+      '"y": [[-1, -0.8, 0.8], [2, -0.4, 0.4], [1, -0.6, 0.6]]',
+    );
+    const problems = problemsOf(text);
+    const paths = problems.map((p) => `${p.path}: ${p.reason}`);
+    expect(paths).toContainEqual(
+      expect.stringMatching(/^envelope\.y\[0\]\[0\]: duration_s must not be negative/),
+    );
+    expect(paths).toContainEqual(expect.stringMatching(/^envelope\.y\[2\]\[0\]: rows must be sorted/));
+    for (const p of problems) expect(p.line).toBe(8);
+  });
+
+  it('rejects a band that does not hold the rider at rest (z at rest = +1 g)', () => {
+    const text = demoText.replace('[0, 0.2, 1.8]', '[0, 1.2, 1.8]');
+    const [p] = problemsOf(text);
+    expect(p?.path).toBe('envelope.z[0]');
+    expect(p?.reason).toMatch(/at-rest value 1 g/);
+  });
+
+  it('names a missing comfort limit, a misspelt key and a zero limit together', () => {
+    const text = demoText
+      .replace('"jerkMax_mps3": 25,', '')
+      .replace('"wrmsMax_mps2": 0.8', '"wrmsMax_mps2": 0, "wrmsMax": 1');
+    const problems = problemsOf(text);
+    const text2 = problems.map((p) => `${p.path}: ${p.reason}`).join('\n');
+    expect(text2).toMatch(/comfort\.jerkMax_mps3: jerkMax_mps3 must be a number/);
+    expect(text2).toMatch(/comfort\.wrmsMax_mps2: wrmsMax_mps2 must be greater than 0/);
+    expect(text2).toMatch(/wrmsMax/);
+  });
+
+  it('reports a JSON syntax error with its line and column', () => {
+    const text = demoText.replace('"strokeMargin_m": 0.02,', '"strokeMargin_m": 0.02');
+    const [p] = problemsOf(text);
+    expect(p?.reason).toMatch(/not valid JSON: expected ',' or '}'/);
+    expect(p?.line).toBe(6);
+    expect(p?.column).toBe(3);
+  });
+
+  it('formats every problem as file:line:column: path: reason', () => {
+    const text = demoText.replace('"strokeMargin_m": 0.02', '"strokeMargin_m": -0.02');
+    expect(() => parseBudgetText(text, 'u.json')).toThrow(
+      /^u\.json:5:21: strokeMargin_m: strokeMargin_m must not be negative$/,
+    );
+  });
+});
