@@ -1,0 +1,525 @@
+// Incremental reader for the track CSV files of motion-spec section 3. Text is pushed in chunks so a
+// long take (600,000 rows and more) never has to sit in memory as one string; numbers land in columnar
+// Float64Arrays that grow by doubling. Every problem becomes a TrackFileError naming file, line and
+// column, so the CLI, the API and the worker can show the same message.
+
+import { G0_MPS2, RAD_PER_DEG } from './units';
+
+/** The three track kinds of motion-spec section 3. */
+export type TrackKind = 'vehicle' | 'pose' | 'legs';
+/** Which column set a track carries: vehicle motion, or pose/legs of a hexapod or a planar3 stage. */
+export type TrackLayout = 'vehicle' | 'hexapod' | 'planar3';
+
+/** Machine-readable reason of a TrackFileError. */
+export type TrackErrorCode =
+  | 'empty'
+  | 'noRows'
+  | 'notNumber'
+  | 'timeNotIncreasing'
+  | 'missingColumn'
+  | 'unknownColumn'
+  | 'unknownUnit'
+  | 'duplicateColumn'
+  | 'mixedColumns'
+  | 'fieldCount'
+  | 'tooManyRows'
+  | 'tooLarge';
+
+/** A bad track file: where (file, 1-based line, 1-based column and its name) and why. */
+export class TrackFileError extends Error {
+  readonly file: string;
+  readonly line: number;
+  readonly column: number | null;
+  readonly columnName: string | null;
+  readonly code: TrackErrorCode;
+  readonly reason: string;
+
+  constructor(
+    file: string,
+    line: number,
+    column: number | null,
+    columnName: string | null,
+    code: TrackErrorCode,
+    reason: string,
+  ) {
+    const where =
+      column === null
+        ? `${file} line ${line}`
+        : `${file} line ${line}, column ${column}${columnName ? ` (${columnName})` : ''}`;
+    super(`${where}: ${reason}`);
+    this.name = 'TrackFileError';
+    this.file = file;
+    this.line = line;
+    this.column = column;
+    this.columnName = columnName;
+    this.code = code;
+    this.reason = reason;
+  }
+}
+
+/** A parsed track in SI units: time plus columns in the canonical order of its layout. */
+export interface Track {
+  readonly kind: TrackKind;
+  readonly layout: TrackLayout;
+  readonly length: number;
+  readonly time_s: Float64Array;
+  /** SI column names, canonical order, e.g. ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad']. */
+  readonly names: readonly string[];
+  /** One array per name, same order, each `length` long. */
+  readonly columns: readonly Float64Array[];
+}
+
+/** Limits that protect the server from hostile or mistaken uploads. */
+export interface TrackReaderOptions {
+  /** Name used in messages (usually the file's base name). */
+  file: string;
+  /** Most data rows accepted; default 2,000,000 (33 min at 1 kHz). */
+  maxRows?: number;
+  /** Most characters of text accepted (bytes for the ASCII files we expect); default 256 MiB. */
+  maxBytes?: number;
+}
+
+export const DEFAULT_MAX_ROWS = 2_000_000;
+export const DEFAULT_MAX_BYTES = 256 * 1024 * 1024;
+
+type Quantity = 'time' | 'length' | 'angle' | 'accel' | 'rate';
+
+// Unit suffix -> factor to SI. The SI suffix comes first: it names the output column.
+const UNITS: Record<Quantity, ReadonlyArray<readonly [string, number]>> = {
+  time: [['s', 1]],
+  length: [
+    ['m', 1],
+    ['mm', 1e-3],
+  ],
+  angle: [
+    ['rad', 1],
+    ['deg', RAD_PER_DEG],
+  ],
+  accel: [
+    ['mps2', 1],
+    ['g', G0_MPS2],
+  ],
+  rate: [
+    ['radps', 1],
+    ['degps', RAD_PER_DEG],
+  ],
+};
+
+const QUANTITY: Record<string, Quantity> = {
+  time: 'time',
+  fx: 'accel',
+  fy: 'accel',
+  fz: 'accel',
+  wx: 'rate',
+  wy: 'rate',
+  wz: 'rate',
+  x: 'length',
+  y: 'length',
+  z: 'length',
+  roll: 'angle',
+  pitch: 'angle',
+  yaw: 'angle',
+  leg1: 'length',
+  leg2: 'length',
+  leg3: 'length',
+  leg4: 'length',
+  leg5: 'length',
+  leg6: 'length',
+};
+
+interface LayoutSpec {
+  kind: TrackKind;
+  layout: TrackLayout;
+  bases: readonly string[];
+}
+
+const LAYOUTS: readonly LayoutSpec[] = [
+  { kind: 'vehicle', layout: 'vehicle', bases: ['fx', 'fy', 'fz', 'wx', 'wy', 'wz'] },
+  { kind: 'pose', layout: 'hexapod', bases: ['x', 'y', 'z', 'roll', 'pitch', 'yaw'] },
+  { kind: 'pose', layout: 'planar3', bases: ['x', 'y', 'yaw'] },
+  { kind: 'legs', layout: 'hexapod', bases: ['leg1', 'leg2', 'leg3', 'leg4', 'leg5', 'leg6'] },
+  { kind: 'legs', layout: 'planar3', bases: ['leg1', 'leg2', 'leg3'] },
+];
+
+const KIND_OF_BASE: Record<string, TrackKind> = {
+  fx: 'vehicle',
+  fy: 'vehicle',
+  fz: 'vehicle',
+  wx: 'vehicle',
+  wy: 'vehicle',
+  wz: 'vehicle',
+  x: 'pose',
+  y: 'pose',
+  z: 'pose',
+  roll: 'pose',
+  pitch: 'pose',
+  yaw: 'pose',
+  leg1: 'legs',
+  leg2: 'legs',
+  leg3: 'legs',
+  leg4: 'legs',
+  leg5: 'legs',
+  leg6: 'legs',
+};
+
+/** The SI column name of a base name, e.g. 'roll' -> 'roll_rad'. */
+export function siColumnName(base: string): string {
+  const q = QUANTITY[base];
+  const si = q ? UNITS[q][0] : undefined;
+  if (!si) throw new Error(`unknown column base "${base}"`);
+  return `${base}_${si[0]}`;
+}
+
+/** SI column names (canonical order, without time_s) of a kind and layout. */
+export function trackColumnNames(kind: TrackKind, layout: TrackLayout): string[] {
+  const spec = LAYOUTS.find((l) => l.kind === kind && l.layout === layout);
+  if (!spec) throw new Error(`no ${kind} track for a ${layout} layout`);
+  return spec.bases.map(siColumnName);
+}
+
+/** Returns the named SI column of a track, or throws if the track has none. */
+export function trackColumn(track: Track, name: string): Float64Array {
+  const i = track.names.indexOf(name);
+  const col = i >= 0 ? track.columns[i] : undefined;
+  if (!col) throw new Error(`track has no column ${name}`);
+  return col;
+}
+
+// Strict decimal syntax: Number() alone would accept '', '0x1f', 'Infinity' and surrounding blanks.
+const NUMBER_RE = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+function unquote(field: string): string {
+  const t = field.trim();
+  return t.length >= 2 && t.charCodeAt(0) === 34 && t.charCodeAt(t.length - 1) === 34
+    ? t.slice(1, -1).trim()
+    : t;
+}
+
+function showField(raw: string): string {
+  const t = raw.length > 40 ? `${raw.slice(0, 40)}...` : raw;
+  return JSON.stringify(t);
+}
+
+/** Push-based CSV track parser: `push(text)` any number of times, then `end()` for the Track. */
+export class TrackReader {
+  private readonly file: string;
+  private readonly maxRows: number;
+  private readonly maxBytes: number;
+  private carry = '';
+  private bytes = 0;
+  private lineNo = 0;
+  private failed: TrackFileError | null = null;
+  private headerDone = false;
+  private fieldCount = 0;
+  private headerNames: string[] = [];
+  // Per file field: index into the output columns (-1 for time) and the factor to SI.
+  private target: Int32Array = new Int32Array(0);
+  private scale: Float64Array = new Float64Array(0);
+  private spec: LayoutSpec | null = null;
+  private rows = 0;
+  private capacity = 0;
+  private time: Float64Array = new Float64Array(0);
+  private cols: Float64Array[] = [];
+  private lastTime = -Infinity;
+  private lastTimeLine = 0;
+  private started = false;
+
+  constructor(options: TrackReaderOptions) {
+    this.file = options.file;
+    this.maxRows = options.maxRows ?? DEFAULT_MAX_ROWS;
+    this.maxBytes = options.maxBytes ?? DEFAULT_MAX_BYTES;
+  }
+
+  /** Feeds the next piece of the file's text (any split, even mid-line or mid-number). */
+  push(chunk: string): void {
+    if (this.failed) throw this.failed;
+    try {
+      this.bytes += chunk.length;
+      if (this.bytes > this.maxBytes) {
+        this.fail(
+          this.lineNo + 1,
+          null,
+          null,
+          'tooLarge',
+          `file too large: more than ${this.maxBytes} bytes`,
+        );
+      }
+      let text = this.carry + chunk;
+      if (!this.started && text.length > 0) {
+        this.started = true;
+        if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+      }
+      let start = 0;
+      for (;;) {
+        const nl = text.indexOf('\n', start);
+        if (nl < 0) break;
+        this.line(text, start, nl);
+        start = nl + 1;
+      }
+      this.carry = start === 0 ? text : text.slice(start);
+    } catch (e) {
+      if (e instanceof TrackFileError) this.failed = e;
+      throw e;
+    }
+  }
+
+  /** Ends the input and returns the track; throws TrackFileError if the file was bad or empty. */
+  end(): Track {
+    if (this.failed) throw this.failed;
+    try {
+      if (this.carry.length > 0) {
+        const last = this.carry;
+        this.carry = '';
+        this.line(last, 0, last.length);
+      }
+      if (!this.headerDone) this.fail(1, null, null, 'empty', 'empty file: no header row');
+      if (this.rows === 0) this.fail(this.lineNo, null, null, 'noRows', 'no data rows after the header');
+    } catch (e) {
+      if (e instanceof TrackFileError) this.failed = e;
+      throw e;
+    }
+    const spec = this.spec as LayoutSpec;
+    const n = this.rows;
+    return {
+      kind: spec.kind,
+      layout: spec.layout,
+      length: n,
+      time_s: this.time.subarray(0, n),
+      names: spec.bases.map(siColumnName),
+      columns: this.cols.map((c) => c.subarray(0, n)),
+    };
+  }
+
+  private fail(
+    line: number,
+    column: number | null,
+    columnName: string | null,
+    code: TrackErrorCode,
+    reason: string,
+  ): never {
+    throw new TrackFileError(this.file, line, column, columnName, code, reason);
+  }
+
+  private line(text: string, from: number, to: number): void {
+    this.lineNo++;
+    let end = to;
+    if (end > from && text.charCodeAt(end - 1) === 13) end--;
+    // Blank lines (often a trailing one) carry no data.
+    let blank = true;
+    for (let i = from; i < end; i++) {
+      const c = text.charCodeAt(i);
+      if (c !== 32 && c !== 9) {
+        blank = false;
+        break;
+      }
+    }
+    if (blank) return;
+    if (!this.headerDone) this.header(text.slice(from, end));
+    else this.row(text, from, end);
+  }
+
+  private header(line: string): void {
+    const names = line.split(',').map(unquote);
+    const n = names.length;
+    const baseAt = new Map<string, number>();
+    const factors = new Float64Array(n);
+    const ln = this.lineNo;
+    for (let c = 0; c < n; c++) {
+      const name = names[c] ?? '';
+      const us = name.lastIndexOf('_');
+      const base = us > 0 ? name.slice(0, us) : name;
+      const unit = us > 0 ? name.slice(us + 1) : '';
+      const q = QUANTITY[base];
+      if (!q) {
+        this.fail(ln, c + 1, name, 'unknownColumn', `unknown column ${showField(name)}`);
+      }
+      const units = UNITS[q];
+      const u = units.find((x) => x[0] === unit);
+      if (!u) {
+        const expected = units.map((x) => `${base}_${x[0]}`).join(' or ');
+        this.fail(
+          ln,
+          c + 1,
+          name,
+          'unknownUnit',
+          unit === ''
+            ? `missing unit suffix (expected ${expected})`
+            : `unknown unit "${unit}" (expected ${expected})`,
+        );
+      }
+      const prev = baseAt.get(base);
+      if (prev !== undefined) {
+        this.fail(
+          ln,
+          c + 1,
+          name,
+          'duplicateColumn',
+          `duplicate column: ${base} already given in column ${prev + 1} (${names[prev]})`,
+        );
+      }
+      baseAt.set(base, c);
+      factors[c] = u[1];
+    }
+    if (!baseAt.has('time')) {
+      this.fail(ln, null, 'time_s', 'missingColumn', 'missing column "time_s"');
+    }
+    // The first motion column decides the kind; any column of another kind is a mix-up.
+    let kind: TrackKind | null = null;
+    for (let c = 0; c < n; c++) {
+      const name = names[c] ?? '';
+      const base = name.slice(0, Math.max(name.lastIndexOf('_'), 0)) || name;
+      const k = KIND_OF_BASE[base];
+      if (!k) continue;
+      if (kind === null) kind = k;
+      else if (k !== kind) {
+        this.fail(ln, c + 1, name, 'mixedColumns', `a ${k} column in a ${kind} track`);
+      }
+    }
+    if (kind === null) {
+      this.fail(
+        ln,
+        null,
+        null,
+        'missingColumn',
+        'missing motion columns: expected a vehicle, pose or legs track',
+      );
+    }
+    let spec: LayoutSpec | undefined;
+    if (kind === 'vehicle') spec = LAYOUTS[0];
+    else if (kind === 'pose') {
+      const full = baseAt.has('z') || baseAt.has('roll') || baseAt.has('pitch');
+      spec = full ? LAYOUTS[1] : LAYOUTS[2];
+    } else {
+      const full = baseAt.has('leg4') || baseAt.has('leg5') || baseAt.has('leg6');
+      spec = full ? LAYOUTS[3] : LAYOUTS[4];
+    }
+    if (!spec) throw new Error('unreachable: layout table');
+    for (const b of spec.bases) {
+      if (!baseAt.has(b)) {
+        const q = QUANTITY[b] as Quantity;
+        const alts = UNITS[q].map((x) => `"${b}_${x[0]}"`).join(' or ');
+        this.fail(
+          ln,
+          null,
+          `${b}_${UNITS[q][0]?.[0]}`,
+          'missingColumn',
+          `missing column ${alts} for a ${spec.layout} ${spec.kind} track`,
+        );
+      }
+    }
+    if (n !== spec.bases.length + 1) {
+      // Only reachable with a column that belongs to the kind but not the layout, e.g. leg4 without leg5.
+      const extra = names.find((nm) => {
+        const b = nm.slice(0, Math.max(nm.lastIndexOf('_'), 0));
+        return b !== 'time' && !spec.bases.includes(b);
+      });
+      const c = extra === undefined ? n : names.indexOf(extra) + 1;
+      this.fail(
+        ln,
+        c,
+        extra ?? null,
+        'unknownColumn',
+        `column does not belong to a ${spec.layout} ${spec.kind} track`,
+      );
+    }
+    const target = new Int32Array(n);
+    for (let c = 0; c < n; c++) {
+      const name = names[c] ?? '';
+      const base = name.slice(0, name.lastIndexOf('_'));
+      target[c] = base === 'time' ? -1 : spec.bases.indexOf(base);
+    }
+    this.spec = spec;
+    this.headerNames = names;
+    this.fieldCount = n;
+    this.target = target;
+    this.scale = factors;
+    this.headerDone = true;
+    this.grow(1024);
+  }
+
+  private grow(capacity: number): void {
+    const t = new Float64Array(capacity);
+    t.set(this.time.subarray(0, this.rows));
+    this.time = t;
+    const m = this.spec?.bases.length ?? 0;
+    const cols: Float64Array[] = [];
+    for (let j = 0; j < m; j++) {
+      const c = new Float64Array(capacity);
+      const old = this.cols[j];
+      if (old) c.set(old.subarray(0, this.rows));
+      cols.push(c);
+    }
+    this.cols = cols;
+    this.capacity = capacity;
+  }
+
+  private row(text: string, from: number, end: number): void {
+    const ln = this.lineNo;
+    if (this.rows >= this.maxRows) {
+      this.fail(ln, null, null, 'tooManyRows', `too many rows: more than ${this.maxRows}`);
+    }
+    if (this.rows >= this.capacity) this.grow(Math.min(this.capacity * 2, Math.max(this.maxRows, 1)));
+    const r = this.rows;
+    const n = this.fieldCount;
+    let pos = from;
+    for (let c = 0; c < n; c++) {
+      let comma = text.indexOf(',', pos);
+      if (comma < 0 || comma > end) comma = -1;
+      if ((c < n - 1 && comma < 0) || (c === n - 1 && comma >= 0)) {
+        const got = text.slice(from, end).split(',').length;
+        this.fail(ln, null, null, 'fieldCount', `wrong field count: expected ${n} fields, got ${got}`);
+      }
+      const stop = comma < 0 ? end : comma;
+      let raw = text.slice(pos, stop);
+      pos = stop + 1;
+      if (!NUMBER_RE.test(raw)) {
+        const t = unquote(raw);
+        if (!NUMBER_RE.test(t)) {
+          this.fail(
+            ln,
+            c + 1,
+            this.headerNames[c] ?? null,
+            'notNumber',
+            `not a number: ${showField(raw.trim())}`,
+          );
+        }
+        raw = t;
+      }
+      const v = Number(raw) * (this.scale[c] as number);
+      if (!Number.isFinite(v)) {
+        this.fail(
+          ln,
+          c + 1,
+          this.headerNames[c] ?? null,
+          'notNumber',
+          `not a finite number: ${showField(raw)}`,
+        );
+      }
+      const j = this.target[c] as number;
+      if (j < 0) {
+        if (!(v > this.lastTime)) {
+          this.fail(
+            ln,
+            c + 1,
+            this.headerNames[c] ?? null,
+            'timeNotIncreasing',
+            `time not increasing: ${v} s after ${this.lastTime} s on line ${this.lastTimeLine}`,
+          );
+        }
+        this.lastTime = v;
+        this.lastTimeLine = ln;
+        this.time[r] = v;
+      } else {
+        (this.cols[j] as Float64Array)[r] = v;
+      }
+    }
+    this.rows = r + 1;
+  }
+}
+
+/** Parses a whole track file held in one string (SI output); throws TrackFileError on bad input. */
+export function parseTrackText(text: string, options: TrackReaderOptions): Track {
+  const reader = new TrackReader(options);
+  reader.push(text);
+  return reader.end();
+}
