@@ -43,29 +43,34 @@ describe('budget schema (motion-spec section 7 format)', () => {
   });
 
   it('names the row, line and column when lower >= upper', () => {
-    const text = demoText.replace('[1.0, -0.5, 0.5]', '[1.0, 0.5, -0.5]');
+    const text = demoText.replace(/\[1\.0,\s*-0\.5,\s*0\.5\]/, '[1.0, 0.5, -0.5]');
     const [p, ...rest] = problemsOf(text);
     expect(rest).toHaveLength(0);
     expect(p?.path).toBe('envelope.x[1]');
     expect(p?.reason).toMatch(/lower_g .* less than upper_g/);
-    // The row sits on line 7 of the fixture; its "[" is the column reported.
-    const line = text.split('\n')[6] as string;
-    expect(p?.line).toBe(7);
-    expect(p?.column).toBe(line.indexOf('[1.0, 0.5, -0.5]') + 1);
+    // Where the bad row's "[" sits, counted by hand from the text.
+    const lines = text.split('\n');
+    const lineIndex = lines.findIndex((l) => l.includes('[1.0, 0.5, -0.5]'));
+    expect(p?.line).toBe(lineIndex + 1);
+    expect(p?.column).toBe((lines[lineIndex] as string).indexOf('[1.0, 0.5, -0.5]') + 1);
   });
 
   it('rejects a negative duration and rows out of order, naming each', () => {
-    const text = demoText.replace(
-      '"y": [[0, -0.8, 0.8], [1.0, -0.4, 0.4]]',
-      '"y": [[-1, -0.8, 0.8], [2, -0.4, 0.4], [1, -0.6, 0.6]]',
-    );
+    const budget = JSON.parse(demoText) as { envelope: { y: number[][] } };
+    budget.envelope.y = [
+      [-1, -0.8, 0.8],
+      [2, -0.4, 0.4],
+      [1, -0.6, 0.6],
+    ];
+    const text = JSON.stringify(budget, null, 2);
     const problems = problemsOf(text);
     const paths = problems.map((p) => `${p.path}: ${p.reason}`);
     expect(paths).toContainEqual(
       expect.stringMatching(/^envelope\.y\[0\]\[0\]: duration_s must not be negative/),
     );
     expect(paths).toContainEqual(expect.stringMatching(/^envelope\.y\[2\]\[0\]: rows must be sorted/));
-    for (const p of problems) expect(p.line).toBe(8);
+    const lines = text.split('\n');
+    expect(problems.map((p) => lines[(p.line as number) - 1]?.trim())).toEqual(['-1,', '1,']);
   });
 
   it('rejects a band that does not hold the rider at rest (z at rest = +1 g)', () => {
@@ -90,8 +95,11 @@ describe('budget schema (motion-spec section 7 format)', () => {
     const text = demoText.replace('"strokeMargin_m": 0.02,', '"strokeMargin_m": 0.02');
     const [p] = problemsOf(text);
     expect(p?.reason).toMatch(/not valid JSON: expected ',' or '}'/);
-    expect(p?.line).toBe(6);
-    expect(p?.column).toBe(3);
+    // The parser notices the missing comma where the next key starts.
+    const lines = text.split('\n');
+    const next = lines.findIndex((l) => l.includes('"envelope"'));
+    expect(p?.line).toBe(next + 1);
+    expect(p?.column).toBe((lines[next] as string).indexOf('"envelope"') + 1);
   });
 
   it('formats every problem as file:line:column: path: reason', () => {
