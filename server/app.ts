@@ -1,0 +1,75 @@
+// The Express application. createApp never listens; server/index.ts does.
+import express from 'express';
+import type { ErrorRequestHandler } from 'express';
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { ZodError } from 'zod';
+import type { AppDeps } from './deps';
+import { HttpError } from './lib/http-error';
+import { createPassport, requireCsrf, sessionMiddleware } from './auth/session';
+import { healthRouter } from './routes/health';
+import { authRouter } from './routes/auth';
+import { invitationsRouter } from './routes/invitations';
+import { studioRouter } from './routes/studio';
+import { devMailboxRouter } from './routes/dev-mailbox';
+
+export interface LegworkApp {
+  app: express.Express;
+  /** Closes what the app opened itself (the session store). */
+  close: () => void;
+}
+
+export function createApp(deps: AppDeps): LegworkApp {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  const sessions = sessionMiddleware(deps);
+  const pass = createPassport(deps);
+
+  const api = express.Router();
+  api.use(express.json({ limit: '1mb' }));
+  api.use('/health', healthRouter(deps));
+  api.use(sessions.handler);
+  api.use(pass.initialize());
+  api.use(pass.session());
+  api.use(requireCsrf);
+  api.use('/auth', authRouter(deps, pass));
+  api.use('/invitations', invitationsRouter(deps));
+  api.use('/studios/:studioId', studioRouter(deps));
+  api.use('/dev/mailbox', devMailboxRouter(deps));
+  api.use((req, _res, next) => next(new HttpError(404, `No API route ${req.method} ${req.baseUrl}${req.path}.`)));
+  app.use('/api', api);
+
+  const staticDir = resolve(deps.env.STATIC_DIR);
+  if (existsSync(join(staticDir, 'index.html'))) {
+    app.use(express.static(staticDir, { index: false, maxAge: '1h' }));
+    // Client-side routes all load the same page.
+    app.get('/*splat', (_req, res) => res.sendFile(join(staticDir, 'index.html')));
+  }
+  app.use((_req, res) => res.status(404).json({ error: 'Not found.' }));
+
+  const onError: ErrorRequestHandler = (err, _req, res, _next) => {
+    if (err instanceof HttpError) {
+      res.status(err.status).json({ error: err.message, ...(err.issues ? { issues: err.issues } : {}) });
+      return;
+    }
+    if (err instanceof ZodError) {
+      const issues = err.issues.map((i) => ({ path: i.path.join('.'), message: i.message }));
+      res.status(400).json({ error: 'The request is not valid.', issues });
+      return;
+    }
+    const e = err as { type?: string; status?: number; message?: string };
+    if (e.type === 'entity.parse.failed') {
+      res.status(400).json({ error: `The request body is not valid JSON: ${e.message}` });
+      return;
+    }
+    if (e.type === 'entity.too.large') {
+      res.status(413).json({ error: 'The request body is too large.' });
+      return;
+    }
+    deps.log(`error: ${(err as Error).stack ?? String(err)}`);
+    res.status(500).json({ error: 'Something went wrong on the server; it has been logged.' });
+  };
+  app.use(onError);
+  return { app, close: sessions.close };
+}

@@ -1,0 +1,94 @@
+// Sessions in PostgreSQL, passport-local sign-in, and CSRF protection for cookie-authenticated writes.
+import { timingSafeEqual } from 'node:crypto';
+import type { RequestHandler } from 'express';
+import session from 'express-session';
+import connectPgSimple from 'connect-pg-simple';
+import passport from 'passport';
+import { Strategy as LocalStrategy } from 'passport-local';
+import { eq } from 'drizzle-orm';
+import type { AppDeps } from '../deps';
+import { users } from '../db/schema';
+import { verifyPassword } from './passwords';
+import { newToken } from '../lib/tokens';
+import { HttpError } from '../lib/http-error';
+
+export const SESSION_COOKIE = 'legwork.sid';
+
+/** Session middleware with the store in the `session` table (created by the migrations). */
+export function sessionMiddleware(deps: AppDeps): { handler: RequestHandler; close: () => void } {
+  const PgStore = connectPgSimple(session);
+  const store = new PgStore({ pool: deps.pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 600 });
+  const handler = session({
+    name: SESSION_COOKIE,
+    secret: deps.env.SESSION_SECRET,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: {
+      httpOnly: true,
+      sameSite: 'lax',
+      secure: deps.env.COOKIE_SECURE,
+      maxAge: 12 * 60 * 60 * 1000,
+    },
+  });
+  return { handler, close: () => store.close() };
+}
+
+/** A passport instance of our own (not the global one), so several apps can live in one test process. */
+export function createPassport(deps: AppDeps): passport.PassportStatic {
+  const p = new passport.Passport() as unknown as passport.PassportStatic;
+  p.use(
+    new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
+      (async () => {
+        const normal = email.trim().toLowerCase();
+        const [u] = await deps.db.select().from(users).where(eq(users.email, normal)).limit(1);
+        const ok = await verifyPassword(u?.passwordHash, password);
+        if (!u || !ok) return done(null, false);
+        return done(null, { id: u.id, email: u.email, name: u.name });
+      })().catch(done);
+    }),
+  );
+  p.serializeUser((user, done) => done(null, user.id));
+  p.deserializeUser((id: string, done) => {
+    deps.db
+      .select({ id: users.id, email: users.email, name: users.name })
+      .from(users)
+      .where(eq(users.id, id))
+      .limit(1)
+      .then(([u]) => done(null, u ?? false))
+      .catch(done);
+  });
+  return p;
+}
+
+/** The session's CSRF token, made on first request. */
+export function csrfToken(req: Parameters<RequestHandler>[0]): string {
+  req.session.csrfToken ??= newToken(24);
+  return req.session.csrfToken;
+}
+
+const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+/**
+ * Synchronizer-token CSRF check: every unsafe request that rides on the session cookie must carry
+ * the session's token in `x-csrf-token`. Requests with a bearer API token carry no cookie and skip it.
+ */
+export const requireCsrf: RequestHandler = (req, _res, next) => {
+  if (SAFE.has(req.method)) return next();
+  if (req.headers.authorization?.startsWith('Bearer ')) return next();
+  const sent = req.get('x-csrf-token') ?? '';
+  const expected = req.session?.csrfToken ?? '';
+  const a = Buffer.from(sent);
+  const b = Buffer.from(expected);
+  if (!expected || a.length !== b.length || !timingSafeEqual(a, b)) {
+    return next(new HttpError(403, 'Missing or wrong CSRF token: fetch /api/auth/csrf and send it as x-csrf-token.'));
+  }
+  next();
+};
+
+/** 401 unless signed in. */
+export const requireUser: RequestHandler = (req, _res, next) => {
+  if (!req.user) return next(new HttpError(401, 'Sign in first.'));
+  next();
+};

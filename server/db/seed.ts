@@ -1,0 +1,54 @@
+// The demo studio, seeded into an empty database by `npm start` (fictional names and numbers).
+import { count } from 'drizzle-orm';
+import { openDb } from './client';
+import type { Db } from './client';
+import { memberships, studios, users, venues } from './schema';
+import { hashPassword } from '../auth/passwords';
+import { DEMO_PASSWORD, DEMO_SECOND_STUDIO, DEMO_STUDIO, DEMO_USERS, DEMO_VENUES } from '../../shared/demo';
+import { demoHexapodBase, demoPlanar3Base } from '../../shared/schemas/motion-base';
+
+/** Seeds the demo scenario into `db`; returns the ids made. */
+export async function seedDemo(db: Db) {
+  const hash = await hashPassword(DEMO_PASSWORD);
+  return db.transaction(async (tx) => {
+    const [studio] = await tx.insert(studios).values(DEMO_STUDIO).returning();
+    const [second] = await tx.insert(studios).values(DEMO_SECOND_STUDIO).returning();
+    const [dome] = await tx
+      .insert(venues)
+      .values({ studioId: studio!.id, ...DEMO_VENUES.dome, base: demoHexapodBase })
+      .returning();
+    const [arcade] = await tx
+      .insert(venues)
+      .values({ studioId: studio!.id, ...DEMO_VENUES.arcade, base: demoPlanar3Base })
+      .returning();
+    const venueIds = { dome: dome!.id, arcade: arcade!.id };
+    const userIds: Record<string, string> = {};
+    for (const u of DEMO_USERS) {
+      const [row] = await tx.insert(users).values({ email: u.email, name: u.name, passwordHash: hash }).returning();
+      userIds[u.email] = row!.id;
+      await tx.insert(memberships).values({
+        studioId: studio!.id,
+        userId: row!.id,
+        roles: u.roles,
+        venueIds: (u.venues ?? []).map((k) => venueIds[k]),
+      });
+    }
+    // The admin also produces for a second studio, so the studio switcher has something to switch.
+    const admin = DEMO_USERS.find((u) => u.roles.includes('studio_admin'))!;
+    await tx.insert(memberships).values({ studioId: second!.id, userId: userIds[admin.email]!, roles: ['producer', 'studio_admin'] });
+    return { studioId: studio!.id, secondStudioId: second!.id, venueIds, userIds };
+  });
+}
+
+/** Seeds the demo studio when the database has no studio yet; true when it did. */
+export async function seedDemoIfEmpty(url: string): Promise<boolean> {
+  const { db, pool } = openDb(url, 2);
+  try {
+    const [row] = await db.select({ n: count() }).from(studios);
+    if ((row?.n ?? 0) > 0) return false;
+    await seedDemo(db);
+    return true;
+  } finally {
+    await pool.end();
+  }
+}

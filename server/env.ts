@@ -1,0 +1,52 @@
+// Configuration: every address, port, bucket and secret comes from the environment with a local
+// default, parsed once at start-up. A bad variable stops the process with a message naming it.
+import { z } from 'zod';
+
+const bool = z
+  .enum(['true', 'false', '1', '0', 'yes', 'no'])
+  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+
+export const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().min(1).max(65535).default(5480),
+  PUBLIC_URL: z.string().url().optional(),
+  DATABASE_URL: z.string().url().default('postgres://postgres@127.0.0.1:5481/legwork'),
+  SESSION_SECRET: z.string().min(16).default('legwork-local-session-secret-change-me'),
+  COOKIE_SECURE: bool.default(false),
+  S3_ENDPOINT: z.string().url().optional().default('http://127.0.0.1:5482'),
+  S3_REGION: z.string().default('us-east-1'),
+  S3_BUCKET: z.string().min(3).default('legwork-local'),
+  S3_ACCESS_KEY_ID: z.string().default('S3RVER'),
+  S3_SECRET_ACCESS_KEY: z.string().default('S3RVER'),
+  S3_FORCE_PATH_STYLE: bool.default(true),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(5483),
+  SMTP_SECURE: bool.default(false),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  MAIL_FROM: z.string().default('Legwork <no-reply@legwork.local>'),
+  /** Set only when the local SMTP capture is in use: the folder it writes messages to. */
+  MAIL_CAPTURE_DIR: z.string().optional(),
+  LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
+  LOGIN_RATE_WINDOW_S: z.coerce.number().int().min(1).default(60),
+  STATIC_DIR: z.string().default('dist'),
+  UPLOAD_MAX_BYTES: z.coerce.number().int().min(1).default(200 * 1024 * 1024),
+});
+
+export type Env = z.infer<typeof envSchema>;
+
+/** Parses process.env; throws an Error listing every bad variable. */
+export function parseEnv(source: NodeJS.ProcessEnv = process.env): Env {
+  const result = envSchema.safeParse(source);
+  if (!result.success) {
+    const lines = result.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Bad configuration in the environment:\n${lines.join('\n')}`);
+  }
+  return result.data;
+}
+
+/** The URL people use to reach the app, for links in e-mails. */
+export function publicUrl(env: Env): string {
+  return env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`;
+}

@@ -1,0 +1,281 @@
+// Runs Legwork with its local stand-ins: `start` (all services, migrate, seed, serve), `dev` (the
+// same with Vite's hot reload) and `test` (the same services in a throwaway folder, then every
+// check). Every port and folder can be moved with LEGWORK_* variables.
+import { spawn, spawnSync } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync, mkdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { randomBytes } from 'node:crypto';
+import { ensureDatabase, startPostgres } from './postgres';
+import type { PostgresHandle } from './postgres';
+import { startS3Fake } from './s3-fake';
+import { startSmtpCapture } from './smtp-capture';
+import { migrateDb } from '../db/migrate';
+import { seedDemoIfEmpty } from '../db/seed';
+import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
+import { ROLE_LABELS } from '../../shared/schemas/roles';
+
+type Mode = 'start' | 'dev' | 'test';
+const mode = (process.argv[2] ?? 'start') as Mode;
+if (!['start', 'dev', 'test'].includes(mode)) {
+  console.error(`legwork: unknown mode "${mode}" (start, dev or test)`);
+  process.exit(2);
+}
+
+const root = resolve(import.meta.dirname, '..', '..');
+const log = (s: string) => console.log(`legwork: ${s}`);
+const bin = (name: string) => join(root, 'node_modules', '.bin', name);
+
+const basePort = Number(process.env.LEGWORK_PORT_BASE ?? (mode === 'test' ? 5580 : 5480));
+const ports = {
+  app: Number(process.env.LEGWORK_APP_PORT ?? basePort),
+  pg: Number(process.env.LEGWORK_PG_PORT ?? basePort + 1),
+  s3: Number(process.env.LEGWORK_S3_PORT ?? basePort + 2),
+  smtp: Number(process.env.LEGWORK_SMTP_PORT ?? basePort + 3),
+  vite: Number(process.env.LEGWORK_VITE_PORT ?? basePort - 1),
+};
+const home =
+  mode === 'test'
+    ? mkdtempSync(join(process.env.LEGWORK_TEST_TMP ?? tmpdir(), 'legwork-test-'))
+    : resolve(process.env.LEGWORK_HOME ?? join(root, '.legwork'));
+mkdirSync(home, { recursive: true });
+
+const children: ChildProcess[] = [];
+const cleanups: (() => Promise<void> | void)[] = [];
+let shuttingDown = false;
+
+async function shutdown(code: number): Promise<never> {
+  if (shuttingDown) process.exit(code);
+  shuttingDown = true;
+  for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
+  await Promise.all(
+    children.map(
+      (c) =>
+        new Promise<void>((res) => {
+          if (c.exitCode !== null || c.signalCode !== null) return res();
+          const t = setTimeout(() => {
+            c.kill('SIGKILL');
+            res();
+          }, 10_000);
+          c.once('exit', () => {
+            clearTimeout(t);
+            res();
+          });
+        }),
+    ),
+  );
+  for (const f of cleanups.reverse()) {
+    try {
+      await f();
+    } catch (e) {
+      log(`while stopping: ${(e as Error).message}`);
+    }
+  }
+  if (mode === 'test' && !process.env.LEGWORK_KEEP_TEST_DATA) rmSync(home, { recursive: true, force: true });
+  process.exit(code);
+}
+process.on('SIGINT', () => void shutdown(mode === 'test' ? 130 : 0));
+process.on('SIGTERM', () => void shutdown(mode === 'test' ? 143 : 0));
+
+/** The secret for session cookies: from the environment, else made once and kept in the data folder. */
+function sessionSecret(): string {
+  if (process.env.SESSION_SECRET) return process.env.SESSION_SECRET;
+  const f = join(home, 'session-secret');
+  if (!existsSync(f)) writeFileSync(f, randomBytes(32).toString('hex'), { mode: 0o600 });
+  return readFileSync(f, 'utf8').trim();
+}
+
+function newestMtime(dir: string): number {
+  let newest = 0;
+  for (const e of readdirSync(dir, { withFileTypes: true })) {
+    const p = join(dir, e.name);
+    newest = Math.max(newest, e.isDirectory() ? newestMtime(p) : statSync(p).mtimeMs);
+  }
+  return newest;
+}
+
+/** Builds the client when dist/ is missing or older than its sources. */
+function ensureClientBuilt(force = false): void {
+  const index = join(root, 'dist', 'index.html');
+  const sources = Math.max(newestMtime(join(root, 'src')), newestMtime(join(root, 'shared')), statSync(join(root, 'index.html')).mtimeMs);
+  if (!force && existsSync(index) && statSync(index).mtimeMs >= sources) return;
+  log('building the client (vite build) ...');
+  const r = spawnSync(bin('vite'), ['build', '--logLevel', 'warn'], { cwd: root, stdio: 'inherit' });
+  if (r.status !== 0) throw new Error('vite build failed; see the output above.');
+}
+
+interface Services {
+  pg: PostgresHandle;
+  env: Record<string, string>;
+}
+
+async function startServices(database: string): Promise<Services> {
+  const pg = startPostgres({ home: join(home, 'postgres'), port: ports.pg, throwaway: mode === 'test', log });
+  cleanups.push(() => pg.stop());
+  await ensureDatabase(pg.adminUrl(), database);
+  const bucket = process.env.S3_BUCKET ?? 'legwork-local';
+  const s3 = await startS3Fake({ dir: join(home, 's3'), port: ports.s3, bucket });
+  cleanups.push(() => s3.stop());
+  const mailDir = join(home, 'mail');
+  const smtp = await startSmtpCapture({ dir: mailDir, port: ports.smtp });
+  cleanups.push(() => smtp.stop());
+  const env: Record<string, string> = {
+    DATABASE_URL: pg.adminUrl(database),
+    S3_ENDPOINT: s3.endpoint,
+    S3_BUCKET: bucket,
+    S3_ACCESS_KEY_ID: 'S3RVER',
+    S3_SECRET_ACCESS_KEY: 'S3RVER',
+    SMTP_HOST: '127.0.0.1',
+    SMTP_PORT: String(ports.smtp),
+    MAIL_CAPTURE_DIR: mailDir,
+    SESSION_SECRET: sessionSecret(),
+    HOST: '127.0.0.1',
+    PORT: String(ports.app),
+  };
+  log(`PostgreSQL on 127.0.0.1:${ports.pg}, S3 fake on 127.0.0.1:${ports.s3}, SMTP capture on 127.0.0.1:${ports.smtp}`);
+  return { pg, env };
+}
+
+function launch(name: string, cmd: string, args: string[], env: Record<string, string>): ChildProcess {
+  const child = spawn(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
+  children.push(child);
+  child.on('exit', (code, signal) => {
+    if (!shuttingDown) {
+      log(`${name} stopped (${signal ?? `exit ${code}`}); stopping everything`);
+      void shutdown(code || 1);
+    }
+  });
+  return child;
+}
+
+async function waitForHealth(url: string, timeout_ms = 60_000): Promise<void> {
+  const until = Date.now() + timeout_ms;
+  let last = '';
+  while (Date.now() < until) {
+    try {
+      const r = await fetch(`${url}/api/health`);
+      if (r.ok) return;
+      last = await r.text();
+    } catch (e) {
+      last = (e as Error).message;
+    }
+    await new Promise((res) => setTimeout(res, 250));
+  }
+  throw new Error(`the server did not become healthy at ${url}: ${last}`);
+}
+
+async function prepareDatabase(url: string): Promise<void> {
+  await migrateDb(url);
+  const seeded = await seedDemoIfEmpty(url);
+  if (seeded) log('seeded the demo studio');
+}
+
+function printWelcome(url: string): void {
+  const lines = [
+    '',
+    `Legwork is running at ${url}`,
+    '',
+    `Demo sign-ins (password for all: ${DEMO_PASSWORD}):`,
+    ...DEMO_USERS.map((u) => `  ${u.email.padEnd(38)} ${u.roles.map((r) => ROLE_LABELS[r]).join(', ')}`),
+    '',
+    `Mail sent by the app lands in the local mailbox: ${url}/mailbox`,
+    'Motion can injure riders and staff: Legwork supports, and never replaces, the ride manufacturer\'s',
+    'engineering, the applicable codes and a qualified person\'s sign-off.',
+    'Press Ctrl-C to stop everything.',
+    '',
+  ];
+  console.log(lines.join('\n'));
+}
+
+function step(name: string, cmd: string, args: string[], env: Record<string, string> = {}): boolean {
+  log(`── ${name}`);
+  const t0 = Date.now();
+  const r = spawnSync(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
+  const ok = r.status === 0;
+  log(`── ${name}: ${ok ? 'passed' : `FAILED (exit ${r.status ?? r.signal})`} in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
+  return ok;
+}
+
+function ensureChromium(): string {
+  const candidates = [process.env.CHROMIUM_PATH, '/usr/lib/chromium/chromium', '/usr/bin/chromium'].filter(Boolean) as string[];
+  const found = candidates.find((p) => existsSync(p));
+  if (found) return found;
+  if (process.getuid?.() !== 0) {
+    throw new Error("Chromium for the browser tests is missing. Install Debian's package: sudo apt-get install -y chromium");
+  }
+  log('installing Chromium from Debian packages for the browser tests ...');
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  for (const args of [['update'], ['install', '-y', '--no-install-recommends', 'chromium']]) {
+    const r = spawnSync('apt-get', args, { stdio: 'inherit', env });
+    if (r.status !== 0) throw new Error(`apt-get ${args.join(' ')} failed`);
+  }
+  return '/usr/lib/chromium/chromium';
+}
+
+async function main(): Promise<void> {
+  if (mode === 'start' || mode === 'dev') {
+    const { env } = await startServices('legwork');
+    await prepareDatabase(env.DATABASE_URL!);
+    const url = `http://127.0.0.1:${mode === 'dev' ? ports.vite : ports.app}`;
+    env.PUBLIC_URL = url;
+    if (mode === 'start') {
+      ensureClientBuilt();
+      launch('server', bin('tsx'), ['server/index.ts'], { ...env, NODE_ENV: 'production', STATIC_DIR: join(root, 'dist') });
+    } else {
+      launch('server', bin('tsx'), ['watch', '--clear-screen=false', 'server/index.ts'], { ...env, STATIC_DIR: join(home, 'no-static') });
+      launch('vite', bin('vite'), ['--port', String(ports.vite), '--strictPort'], { PORT: String(ports.app) });
+    }
+    launch('worker', bin('tsx'), ['worker/index.ts'], env);
+    await waitForHealth(`http://127.0.0.1:${ports.app}`);
+    printWelcome(url);
+    return;
+  }
+
+  // test
+  const results: [string, boolean][] = [];
+  const record = (name: string, ok: boolean) => results.push([name, ok]);
+  const { pg, env } = await startServices('legwork_browser');
+  const testEnv = {
+    ...env,
+    LEGWORK_TEST_PG_ADMIN_URL: pg.adminUrl(),
+    LEGWORK_SMOKE_PORT_BASE: String(basePort + 100),
+    NODE_ENV: 'test',
+  };
+  record('typecheck', step('typecheck', bin('tsc'), ['-p', 'tsconfig.json', '--noEmit']));
+  record('lint', step('lint (eslint)', bin('eslint'), ['.', '--max-warnings', '0']) && step('lint (prettier)', bin('prettier'), ['--check', '.', '--log-level', 'warn']));
+  let built = true;
+  try {
+    ensureClientBuilt(true);
+  } catch {
+    built = false;
+  }
+  record('build', built);
+  record('unit and integration tests', step('unit and integration tests', bin('vitest'), ['run', '--project', 'unit', '--project', 'integration'], testEnv));
+  if (built) {
+    let browserOk = false;
+    try {
+      const chromium = ensureChromium();
+      await prepareDatabase(env.DATABASE_URL!);
+      const url = `http://127.0.0.1:${ports.app}`;
+      launch('server', bin('tsx'), ['server/index.ts'], { ...env, PUBLIC_URL: url, STATIC_DIR: join(root, 'dist'), LOGIN_RATE_LIMIT: '1000' });
+      launch('worker', bin('tsx'), ['worker/index.ts'], env);
+      await waitForHealth(url);
+      browserOk = step('browser tests', bin('vitest'), ['run', '--project', 'browser'], { ...testEnv, LEGWORK_BASE_URL: url, CHROMIUM_PATH: chromium });
+    } catch (e) {
+      log(`browser tests could not run: ${(e as Error).message}`);
+    }
+    record('browser tests', browserOk);
+  } else {
+    record('browser tests (not run: the build failed)', false);
+  }
+  const failed = results.filter(([, ok]) => !ok);
+  log('summary:');
+  for (const [name, ok] of results) log(`  ${ok ? 'passed' : 'FAILED'}  ${name}`);
+  await shutdown(failed.length ? 1 : 0);
+}
+
+main().catch((e: Error) => {
+  console.error(`legwork: ${e.message}`);
+  void shutdown(1);
+});

@@ -1,0 +1,24 @@
+import 'express-session';
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface User {
+      id: string;
+      email: string;
+      name: string;
+    }
+    interface Request {
+      /** Set by the studio router once membership is checked. */
+      member?: { studioId: string; userId: string; roles: string[]; venueIds: string[] };
+    }
+  }
+}
+
+declare module 'express-session' {
+  interface SessionData {
+    csrfToken?: string;
+  }
+}
+
+export {};
