@@ -1,0 +1,57 @@
+import type { QueryClient } from '@tanstack/react-query';
+import { createBrowserRouter } from 'react-router-dom';
+import type { LoaderFunctionArgs } from 'react-router-dom';
+import { getMeQueryOptions } from '../features/auth/api/get-me';
+import { getStudioOverviewQueryOptions } from '../features/studios/api/get-studio-overview';
+import { getVenuesQueryOptions } from '../features/venues/api/get-venues';
+import { MailboxRoute } from './routes/mailbox';
+import {
+  AcceptInvitationRoute,
+  ForgotPasswordRoute,
+  NotFoundRoute,
+  ResetPasswordRoute,
+  SignInRoute,
+} from './routes/public-routes';
+import { RouteErrorScreen } from './routes/route-error';
+import { StudioHomeRoute } from './routes/studio-home';
+import { RootRedirect, StudioLayout } from './routes/studio-layout';
+import { AuditRoute, MembersRoute, VenuesRoute } from './routes/studio-pages';
+
+/** The app's routes; loaders only start fetches (they never throw), so pages own loading and error states. */
+export function createAppRouter(queryClient: QueryClient) {
+  const studioLoader = ({ params }: LoaderFunctionArgs) => {
+    void queryClient.prefetchQuery(getMeQueryOptions());
+    if (params.studioId) void queryClient.prefetchQuery(getStudioOverviewQueryOptions(params.studioId));
+    return null;
+  };
+  const venuesLoader = ({ params }: LoaderFunctionArgs) => {
+    if (params.studioId) void queryClient.prefetchQuery(getVenuesQueryOptions(params.studioId));
+    return null;
+  };
+
+  return createBrowserRouter([
+    {
+      errorElement: <RouteErrorScreen />,
+      children: [
+        { path: '/', element: <RootRedirect /> },
+        { path: '/sign-in', element: <SignInRoute /> },
+        { path: '/forgot-password', element: <ForgotPasswordRoute /> },
+        { path: '/reset-password', element: <ResetPasswordRoute /> },
+        { path: '/invitations/:token', element: <AcceptInvitationRoute /> },
+        { path: '/mailbox', element: <MailboxRoute /> },
+        {
+          path: '/s/:studioId',
+          element: <StudioLayout />,
+          loader: studioLoader,
+          children: [
+            { index: true, element: <StudioHomeRoute /> },
+            { path: 'venues', element: <VenuesRoute />, loader: venuesLoader },
+            { path: 'members', element: <MembersRoute />, loader: venuesLoader },
+            { path: 'audit', element: <AuditRoute /> },
+          ],
+        },
+        { path: '*', element: <NotFoundRoute /> },
+      ],
+    },
+  ]);
+}

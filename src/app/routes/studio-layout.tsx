@@ -1,0 +1,132 @@
+import { Navigate, Outlet, useLocation, useNavigate, useOutletContext, useParams } from 'react-router-dom';
+import type { Me, Membership } from '../../../shared/schemas/api';
+import { AppShell } from '../../components/layout/app-shell';
+import type { NavItem } from '../../components/layout/app-shell';
+import { PublicLayout } from '../../components/layout/public-layout';
+import { Button } from '../../components/ui/button';
+import { ErrorNotice, Loading } from '../../components/ui/status';
+import { useMe } from '../../features/auth/api/get-me';
+import { useLogout } from '../../features/auth/api/logout';
+import { StudioSwitcher } from '../../features/studios/components/studio-switcher';
+import { firstStudio } from '../../lib/landing';
+
+export interface StudioContext {
+  me: Me;
+  membership: Membership;
+}
+
+/** The signed-in user and their membership of the studio in the address, for pages inside a studio. */
+export function useStudioContext(): StudioContext {
+  return useOutletContext<StudioContext>();
+}
+
+function navFor(membership: Membership): NavItem[] {
+  const base = `/s/${membership.studioId}`;
+  const items: NavItem[] = [
+    { to: base, label: 'Home', end: true },
+    { to: `${base}/venues`, label: 'Venues' },
+  ];
+  if (membership.roles.includes('studio_admin')) {
+    items.push({ to: `${base}/members`, label: 'Members' }, { to: `${base}/audit`, label: 'Audit log' });
+  }
+  return items;
+}
+
+function Account({ me }: { me: Me }) {
+  const logout = useLogout();
+  const navigate = useNavigate();
+  return (
+    <div className="flex items-center gap-3 text-sm">
+      <span className="text-ink-100" title={me.user.email}>
+        {me.user.name}
+      </span>
+      {logout.error ? <span className="text-xs text-signal-400">{logout.error.message}</span> : null}
+      <Button
+        size="sm"
+        variant="quiet"
+        className="text-ink-100 hover:bg-ink-800 hover:text-white"
+        busy={logout.isPending}
+        onClick={() =>
+          logout.mutate(undefined, { onSuccess: () => void navigate('/sign-in', { replace: true }) })
+        }
+      >
+        Sign out
+      </Button>
+    </div>
+  );
+}
+
+/** Guards every studio page: a session is required, and the studio must be one of the user's. */
+export function StudioLayout() {
+  const { studioId = '' } = useParams();
+  const location = useLocation();
+  const navigate = useNavigate();
+  const me = useMe();
+
+  if (me.isPending) return <Loading what="Checking your session" />;
+  if (me.isError) {
+    return (
+      <PublicLayout title="Legwork is not answering">
+        <ErrorNotice error={me.error} retry={() => void me.refetch()} />
+      </PublicLayout>
+    );
+  }
+  if (me.data === null) {
+    const next = encodeURIComponent(location.pathname + location.search);
+    return <Navigate to={`/sign-in?next=${next}`} replace />;
+  }
+
+  const membership = me.data.memberships.find((m) => m.studioId === studioId);
+  const switcher = (
+    <StudioSwitcher
+      memberships={me.data.memberships}
+      currentStudioId={membership ? studioId : ''}
+      onSwitch={(id) => void navigate(`/s/${id}`)}
+    />
+  );
+
+  if (!membership) {
+    return (
+      <AppShell switcher={switcher} account={<Account me={me.data} />} nav={[]}>
+        <ErrorNotice
+          error={
+            new Error('You are not a member of this studio, or it does not exist. Choose a studio above.')
+          }
+        />
+      </AppShell>
+    );
+  }
+
+  const context: StudioContext = { me: me.data, membership };
+  return (
+    <AppShell switcher={switcher} account={<Account me={me.data} />} nav={navFor(membership)}>
+      <Outlet context={context} />
+    </AppShell>
+  );
+}
+
+/** `/`: sends a signed-in user to their first studio, anyone else to sign-in. */
+export function RootRedirect() {
+  const me = useMe();
+  if (me.isPending) return <Loading what="Checking your session" />;
+  if (me.isError) {
+    return (
+      <PublicLayout title="Legwork is not answering">
+        <ErrorNotice error={me.error} retry={() => void me.refetch()} />
+      </PublicLayout>
+    );
+  }
+  if (me.data === null) return <Navigate to="/sign-in" replace />;
+  const first = firstStudio(me.data);
+  if (!first) {
+    return (
+      <PublicLayout title="No studio yet">
+        <p className="text-sm text-ink-600">
+          You are signed in as {me.data.user.email} but belong to no studio. Ask a studio admin for an
+          invitation.
+        </p>
+      </PublicLayout>
+    );
+  }
+  return <Navigate to={`/s/${first.studioId}`} replace />;
+}
