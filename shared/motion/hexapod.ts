@@ -336,9 +336,8 @@ export interface HexapodForwardOptions {
 export interface ForwardWorkspace {
   readonly jac: Float64Array;
   readonly rhs: Float64Array;
-  readonly len: Float64Array;
+  readonly rot: Float64Array;
   readonly omega: Float64Array;
-  readonly twistJ: Float64Array;
 }
 
 /** Fresh scratch memory for hexapodForwardPose. */
@@ -346,17 +345,18 @@ export function newForwardWorkspace(): ForwardWorkspace {
   return {
     jac: new Float64Array(36),
     rhs: new Float64Array(6),
-    len: new Float64Array(6),
+    rot: new Float64Array(9),
     omega: new Float64Array(9),
-    twistJ: new Float64Array(36),
   };
 }
 
 /**
  * Newton-Raphson for one pose: refines q = [x, y, z, roll, pitch, yaw] (pose offset, m and rad; the
- * start guess, overwritten with the result) until leg lengths (m) match `legs[legOffset..+5]`. The
- * Jacobian dl/dq is the twist Jacobian times blockdiag(I, E(pitch, yaw)). Returns the iterations used,
- * -1 when the Jacobian is singular, -2 when the iterations ran out.
+ * start guess, overwritten with the result) until leg lengths (m) match `legs[legOffset..+5]` within
+ * tolerance_m. The Jacobian dl/dq is the twist Jacobian (hexapodJacobianInto) times
+ * blockdiag(I, E(pitch, yaw)); both come from the same leg vectors as the residual, one rotation per
+ * iteration. Returns the Newton steps taken, -1 when the Jacobian is singular, -2 when the iterations
+ * ran out; ws.rhs then holds minus the last residuals.
  */
 export function hexapodForwardPose(
   g: HexapodGeometry,
@@ -367,38 +367,63 @@ export function hexapodForwardPose(
   tolerance_m = 1e-12,
   maxIterations = 40,
 ): number {
-  const { jac, rhs, len, omega, twistJ } = ws;
+  const { jac, rhs, rot: r, omega } = ws;
+  const B = g.base;
+  const P = g.platform;
+  const h0 = g.neutralHeight_m;
   for (let it = 0; it <= maxIterations; it++) {
-    const x = q[0] as number;
-    const y = q[1] as number;
-    const z = q[2] as number;
-    const roll = q[3] as number;
+    const px = q[0] as number;
+    const py = q[1] as number;
+    const pz = (q[2] as number) + h0;
     const pitch = q[4] as number;
     const yaw = q[5] as number;
-    hexapodLegLengthsInto(g, x, y, z, roll, pitch, yaw, len, 0);
+    rotationInto(q[3] as number, pitch, yaw, r, 0);
     let worst = 0;
     for (let i = 0; i < 6; i++) {
-      const f = (len[i] as number) - (legs[legOffset + i] as number);
+      const qx = P[3 * i] as number;
+      const qy = P[3 * i + 1] as number;
+      const qz = P[3 * i + 2] as number;
+      const ax = (r[0] as number) * qx + (r[1] as number) * qy + (r[2] as number) * qz;
+      const ay = (r[3] as number) * qx + (r[4] as number) * qy + (r[5] as number) * qz;
+      const az = (r[6] as number) * qx + (r[7] as number) * qy + (r[8] as number) * qz;
+      const lx = px + ax - (B[3 * i] as number);
+      const ly = py + ay - (B[3 * i + 1] as number);
+      const lz = pz + az - (B[3 * i + 2] as number);
+      const l = Math.sqrt(lx * lx + ly * ly + lz * lz);
+      const f = l - (legs[legOffset + i] as number);
       rhs[i] = -f;
-      const a = Math.abs(f);
-      if (!(a <= worst)) worst = a;
+      const af = Math.abs(f);
+      if (!(af <= worst)) worst = af;
+      const inv = 1 / l;
+      const ux = lx * inv;
+      const uy = ly * inv;
+      const uz = lz * inv;
+      const o = 6 * i;
+      jac[o] = ux;
+      jac[o + 1] = uy;
+      jac[o + 2] = uz;
+      // Angular part of the twist row, (R P_i) x u_i, kept in jac[o+3..o+5] until E is applied below.
+      jac[o + 3] = ay * uz - az * uy;
+      jac[o + 4] = az * ux - ax * uz;
+      jac[o + 5] = ax * uy - ay * ux;
     }
     if (worst <= tolerance_m) return it;
     if (it === maxIterations || !Number.isFinite(worst)) break;
-    hexapodJacobianInto(g, x, y, z, roll, pitch, yaw, twistJ);
     eulerRateToBaseOmegaInto(pitch, yaw, omega);
+    const e0 = omega[0] as number;
+    const e1 = omega[1] as number;
+    const e3 = omega[3] as number;
+    const e4 = omega[4] as number;
+    const e6 = omega[6] as number;
     for (let i = 0; i < 6; i++) {
       const o = 6 * i;
-      jac[o] = twistJ[o] as number;
-      jac[o + 1] = twistJ[o + 1] as number;
-      jac[o + 2] = twistJ[o + 2] as number;
-      const cx = twistJ[o + 3] as number;
-      const cy = twistJ[o + 4] as number;
-      const cz = twistJ[o + 5] as number;
-      // d l_i / d angle_k = ((R P_i) x u_i) . (column k of E)
-      jac[o + 3] = cx * (omega[0] as number) + cy * (omega[3] as number) + cz * (omega[6] as number);
-      jac[o + 4] = cx * (omega[1] as number) + cy * (omega[4] as number) + cz * (omega[7] as number);
-      jac[o + 5] = cx * (omega[2] as number) + cy * (omega[5] as number) + cz * (omega[8] as number);
+      const cx = jac[o + 3] as number;
+      const cy = jac[o + 4] as number;
+      const cz = jac[o + 5] as number;
+      // d l_i / d angle_k = ((R P_i) x u_i) . (column k of E); E = [[e0, e1, 0], [e3, e4, 0], [e6, 0, 1]].
+      jac[o + 3] = cx * e0 + cy * e3 + cz * e6;
+      jac[o + 4] = cx * e1 + cy * e4;
+      jac[o + 5] = cz;
     }
     if (!solveInPlace(jac, rhs, 6)) return -1;
     for (let k = 0; k < 6; k++) q[k] = (q[k] as number) + (rhs[k] as number);
@@ -407,9 +432,10 @@ export function hexapodForwardPose(
 }
 
 /**
- * Forward kinematics of a leg-length track (six columns, m): pose offsets (m, rad), each sample
- * started from the previous one (continuity keeps the assembly mode). Throws KinematicsError naming
- * the sample when Newton does not converge or the Jacobian is singular.
+ * Forward kinematics of a leg-length track (six columns, m): pose offsets (m, rad). Each sample starts
+ * from the previous pose extrapolated linearly in time along the last step (falling back to the
+ * previous pose itself), so the solution follows one assembly mode from the start pose. Throws
+ * KinematicsError naming the sample when Newton does not converge or the Jacobian is singular.
  */
 export function hexapodForward(
   g: HexapodGeometry,
@@ -421,6 +447,7 @@ export function hexapodForward(
   if (legs.some((c) => c.length !== n)) throw new RangeError('hexapodForward: leg columns differ in length');
   const tol = options.tolerance_m ?? 1e-12;
   const maxIt = options.maxIterations ?? 40;
+  const time = options.time_s;
   const out: PoseColumns = {
     x_m: new Float64Array(n),
     y_m: new Float64Array(n),
@@ -429,15 +456,43 @@ export function hexapodForward(
     pitch_rad: new Float64Array(n),
     yaw_rad: new Float64Array(n),
   };
+  const cols = [out.x_m, out.y_m, out.z_m, out.roll_rad, out.pitch_rad, out.yaw_rad] as const;
+  const [l0, l1, l2, l3, l4, l5] = legs as [
+    Float64Array,
+    Float64Array,
+    Float64Array,
+    Float64Array,
+    Float64Array,
+    Float64Array,
+  ];
   const q = new Float64Array(6);
+  const prev = new Float64Array(6);
+  const prev2 = new Float64Array(6);
   if (options.start) for (let k = 0; k < 6; k++) q[k] = options.start[k] ?? 0;
   const row = new Float64Array(6);
   const ws = newForwardWorkspace();
   for (let s = 0; s < n; s++) {
-    for (let i = 0; i < 6; i++) row[i] = (legs[i] as Float64Array)[s] as number;
-    const it = hexapodForwardPose(g, row, 0, q, ws, tol, maxIt);
+    row[0] = l0[s] as number;
+    row[1] = l1[s] as number;
+    row[2] = l2[s] as number;
+    row[3] = l3[s] as number;
+    row[4] = l4[s] as number;
+    row[5] = l5[s] as number;
+    let it = -2;
+    if (s >= 2) {
+      const ratio = time
+        ? ((time[s] as number) - (time[s - 1] as number)) /
+          ((time[s - 1] as number) - (time[s - 2] as number))
+        : 1;
+      const w = Number.isFinite(ratio) && ratio > 0 && ratio < 4 ? ratio : 0;
+      for (let k = 0; k < 6; k++)
+        q[k] = (prev[k] as number) + ((prev[k] as number) - (prev2[k] as number)) * w;
+      it = hexapodForwardPose(g, row, 0, q, ws, tol, maxIt);
+      if (it < 0) q.set(prev);
+    }
+    if (it < 0) it = hexapodForwardPose(g, row, 0, q, ws, tol, maxIt);
     if (it < 0) {
-      const t = options.time_s?.[s] ?? null;
+      const t = time?.[s] ?? null;
       if (it === -1) {
         throw new KinematicsError(
           s,
@@ -446,20 +501,8 @@ export function hexapodForward(
           'forward kinematics hit a singular Jacobian (near-singular pose)',
         );
       }
-      hexapodLegLengthsInto(
-        g,
-        q[0] as number,
-        q[1] as number,
-        q[2] as number,
-        q[3] as number,
-        q[4] as number,
-        q[5] as number,
-        ws.len,
-        0,
-      );
       let worst = 0;
-      for (let i = 0; i < 6; i++)
-        worst = Math.max(worst, Math.abs((ws.len[i] as number) - (row[i] as number)));
+      for (let i = 0; i < 6; i++) worst = Math.max(worst, Math.abs(ws.rhs[i] as number));
       throw new KinematicsError(
         s,
         t,
@@ -467,12 +510,9 @@ export function hexapodForward(
         `forward kinematics did not converge in ${maxIt} iterations (leg residual ${Number.isFinite(worst) ? worst.toPrecision(3) : 'unbounded'} m); the leg lengths may be unreachable or jump too far from the previous sample`,
       );
     }
-    out.x_m[s] = q[0] as number;
-    out.y_m[s] = q[1] as number;
-    out.z_m[s] = q[2] as number;
-    out.roll_rad[s] = q[3] as number;
-    out.pitch_rad[s] = q[4] as number;
-    out.yaw_rad[s] = q[5] as number;
+    prev2.set(prev);
+    prev.set(q);
+    for (let k = 0; k < 6; k++) (cols[k] as Float64Array)[s] = q[k] as number;
   }
   return out;
 }

@@ -67,6 +67,8 @@ export interface Track {
   readonly names: readonly string[];
   /** One array per name, same order, each `length` long. */
   readonly columns: readonly Float64Array[];
+  /** File line (1-based) of each row, when the track was read from a file; lets later errors name it. */
+  readonly lines?: Int32Array;
 }
 
 /** Limits that protect the server from hostile or mistaken uploads. */
@@ -219,6 +221,7 @@ export class TrackReader {
   private rows = 0;
   private capacity = 0;
   private time: Float64Array = new Float64Array(0);
+  private lines: Int32Array = new Int32Array(0);
   private cols: Float64Array[] = [];
   private lastTime = -Infinity;
   private lastTimeLine = 0;
@@ -287,6 +290,7 @@ export class TrackReader {
       time_s: this.time.subarray(0, n),
       names: spec.bases.map(siColumnName),
       columns: this.cols.map((c) => c.subarray(0, n)),
+      lines: this.lines.subarray(0, n),
     };
   }
 
@@ -441,6 +445,9 @@ export class TrackReader {
     const t = new Float64Array(capacity);
     t.set(this.time.subarray(0, this.rows));
     this.time = t;
+    const lines = new Int32Array(capacity);
+    lines.set(this.lines.subarray(0, this.rows));
+    this.lines = lines;
     const m = this.spec?.bases.length ?? 0;
     const cols: Float64Array[] = [];
     for (let j = 0; j < m; j++) {
@@ -513,6 +520,7 @@ export class TrackReader {
         (this.cols[j] as Float64Array)[r] = v;
       }
     }
+    this.lines[r] = ln;
     this.rows = r + 1;
   }
 }

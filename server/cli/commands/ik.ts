@@ -1,0 +1,102 @@
+// `legwork ik`: leg lengths at the input times of a pose track, for a hexapod or a planar3 base.
+
+import { parseArgs } from 'node:util';
+import { hexapodGeometry, hexapodInverse } from '../../../shared/motion/hexapod';
+import { planar3Geometry, planar3Inverse } from '../../../shared/motion/planar3';
+import { trackColumn, trackColumnNames } from '../../../shared/motion/track-reader';
+import type { CliIo } from '../io';
+import { CAUTION, CliInputError, readMotionBaseFile, readTrackFile, strokeWarnings, writeCsv } from '../io';
+
+export const summary = 'leg lengths at the input times of a pose track (inverse kinematics)';
+
+export const help = `Usage: legwork ik --base BASE.json --in POSE.csv[.gz] [--out LEGS.csv]
+
+Inverse kinematics: reads a motion base (hexapod or planar3) and a pose track (offsets from
+neutral: time_s, x, y, z, roll, pitch, yaw with unit suffixes; planar3: time_s, x, y, yaw) and
+writes the leg lengths at the same times: time_s, leg1_m .. leg6_m (planar3: leg1_m .. leg3_m).
+Lengths outside the base's stroke are still written, with a warning on stderr.
+
+Options:
+  --base FILE   motion base JSON (motion-spec section 7)
+  --in FILE     pose track CSV, optionally gzipped
+  --out FILE    write the CSV here instead of stdout
+  -h, --help    this text
+
+Exit codes: 0 done, 2 bad input or usage.
+
+${CAUTION}
+`;
+
+/** Parses the shared `--base --in [--out]` options; throws CliInputError on any misuse. */
+export function parseBaseInOut(argv: string[]): {
+  base: string;
+  input: string;
+  out: string | undefined;
+  help: boolean;
+} {
+  let values: { base?: string; in?: string; out?: string; help?: boolean };
+  try {
+    values = parseArgs({
+      args: argv,
+      options: {
+        base: { type: 'string' },
+        in: { type: 'string' },
+        out: { type: 'string' },
+        help: { type: 'boolean', short: 'h' },
+      },
+      strict: true,
+      allowPositionals: false,
+    }).values;
+  } catch (e) {
+    throw new CliInputError((e as Error).message);
+  }
+  if (values.help) return { base: '', input: '', out: undefined, help: true };
+  if (!values.base) throw new CliInputError('missing --base FILE');
+  if (!values.in) throw new CliInputError('missing --in FILE');
+  return { base: values.base, input: values.in, out: values.out, help: false };
+}
+
+export async function run(argv: string[], io: CliIo): Promise<number> {
+  const args = parseBaseInOut(argv);
+  if (args.help) {
+    io.stdout(help);
+    return 0;
+  }
+  const base = await readMotionBaseFile(args.base);
+  const track = await readTrackFile(args.input);
+  if (track.kind !== 'pose' || track.layout !== base.kind) {
+    throw new CliInputError(
+      `${args.input} line 1: expected a ${base.kind} pose track (${['time_s', ...trackColumnNames('pose', base.kind)].join(', ')}), found a ${track.layout} ${track.kind} track`,
+    );
+  }
+  const col = (name: string): Float64Array => trackColumn(track, name);
+  let legs: Float64Array[];
+  if (base.kind === 'hexapod') {
+    legs = hexapodInverse(hexapodGeometry(base), {
+      x_m: col('x_m'),
+      y_m: col('y_m'),
+      z_m: col('z_m'),
+      roll_rad: col('roll_rad'),
+      pitch_rad: col('pitch_rad'),
+      yaw_rad: col('yaw_rad'),
+    });
+  } else {
+    legs = planar3Inverse(planar3Geometry(base), {
+      x_m: col('x_m'),
+      y_m: col('y_m'),
+      yaw_rad: col('yaw_rad'),
+    });
+  }
+  for (const w of strokeWarnings(
+    args.input,
+    track.time_s,
+    legs,
+    base.leg.min_m,
+    base.leg.max_m,
+    track.lines,
+  )) {
+    io.stderr(`${w}\n`);
+  }
+  await writeCsv(io, args.out, ['time_s', ...trackColumnNames('legs', base.kind)], [track.time_s, ...legs]);
+  return 0;
+}

@@ -1,0 +1,209 @@
+// File and console edges of the `legwork` command: streaming track files into the pure reader,
+// reading JSON with positions in its errors, writing CSV, and the shared exit codes and caution.
+
+import { createReadStream, createWriteStream } from 'node:fs';
+import { readFile, stat } from 'node:fs/promises';
+import { once } from 'node:events';
+import { createGunzip } from 'node:zlib';
+import type { Readable } from 'node:stream';
+import { TrackFileError, TrackReader } from '../../shared/motion/track-reader';
+import type { Track, TrackReaderOptions } from '../../shared/motion/track-reader';
+import { MotionBaseError, parseMotionBase } from '../../shared/schemas/motion-base';
+import type { MotionBase } from '../../shared/schemas/motion-base';
+
+/** Exit codes of motion-spec section 7 (1 is left for failures of the program itself). */
+export const EXIT = { ok: 0, internal: 1, badInput: 2, comfort: 3, hard: 4 } as const;
+
+/** Printed in every help text: the product supports, never replaces, engineering and sign-off. */
+export const CAUTION =
+  'Caution: motion systems can injure riders and staff. Legwork supports, and never replaces, the ride\n' +
+  "manufacturer's engineering, the applicable codes and standards, and a qualified person's sign-off.";
+
+/** Where a command's text goes; tests pass a capturing one. */
+export interface CliIo {
+  stdout(text: string): void;
+  stderr(text: string): void;
+}
+
+/** The real process streams. */
+export const processIo: CliIo = {
+  stdout: (t) => void process.stdout.write(t),
+  stderr: (t) => void process.stderr.write(t),
+};
+
+/** Bad input or usage: the command prints the message and exits with code 2. */
+export class CliInputError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'CliInputError';
+  }
+}
+
+function describeFsError(file: string, e: unknown): CliInputError {
+  const code = (e as { code?: string }).code;
+  if (code === 'ENOENT') return new CliInputError(`${file}: no such file`);
+  if (code === 'EISDIR') return new CliInputError(`${file}: is a directory, expected a file`);
+  if (code === 'EACCES') return new CliInputError(`${file}: permission denied`);
+  if (code === 'Z_DATA_ERROR' || code === 'Z_BUF_ERROR')
+    return new CliInputError(`${file}: not a valid gzip file`);
+  return new CliInputError(`${file}: cannot read: ${(e as Error).message}`);
+}
+
+/**
+ * Streams a track file (.csv, or .csv.gz through gunzip) into the pure TrackReader, chunk by chunk.
+ * Throws TrackFileError for bad content and CliInputError for files that cannot be read.
+ */
+export async function readTrackFile(
+  path: string,
+  limits: Omit<TrackReaderOptions, 'file'> = {},
+): Promise<Track> {
+  const reader = new TrackReader({ ...limits, file: path });
+  try {
+    const s = await stat(path);
+    if (s.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
+  } catch (e) {
+    throw describeFsError(path, e);
+  }
+  let stream: Readable = createReadStream(path);
+  if (path.endsWith('.gz')) stream = stream.pipe(createGunzip());
+  stream.setEncoding('utf8');
+  try {
+    for await (const chunk of stream) reader.push(chunk as string);
+  } catch (e) {
+    stream.destroy();
+    if (e instanceof TrackFileError) throw e;
+    throw describeFsError(path, e);
+  }
+  return reader.end();
+}
+
+/** Line and column (1-based) of a character offset in text. */
+function lineColumn(text: string, offset: number): { line: number; column: number } {
+  let line = 1;
+  let last = -1;
+  for (let i = 0; i < offset && i < text.length; i++) {
+    if (text.charCodeAt(i) === 10) {
+      line++;
+      last = i;
+    }
+  }
+  return { line, column: offset - last };
+}
+
+/** Reads and parses a JSON file; a syntax error names the file, line and column. */
+export async function readJsonFile(path: string): Promise<unknown> {
+  let text: string;
+  try {
+    text = await readFile(path, 'utf8');
+  } catch (e) {
+    throw describeFsError(path, e);
+  }
+  try {
+    return JSON.parse(text);
+  } catch (e) {
+    const msg = (e as Error).message;
+    const m = /at position (\d+)/.exec(msg);
+    const reason = msg
+      .replace(/\s*in JSON at position \d+.*$/, '')
+      .replace(/\s*\(line \d+ column \d+\)$/, '');
+    const where = m ? lineColumn(text, Number(m[1])) : lineColumn(text, text.length);
+    throw new CliInputError(`${path} line ${where.line}, column ${where.column}: not valid JSON: ${reason}`);
+  }
+}
+
+/** Reads and validates a motion base file; problems come back as one CliInputError listing each. */
+export async function readMotionBaseFile(path: string): Promise<MotionBase> {
+  const json = await readJsonFile(path);
+  try {
+    return parseMotionBase(json);
+  } catch (e) {
+    if (e instanceof MotionBaseError) {
+      throw new CliInputError(`${path}: ${e.message}`);
+    }
+    throw e;
+  }
+}
+
+/**
+ * Writes a CSV (header `names`, then time and columns, full round-trip precision) to `outPath`, or to
+ * io.stdout when no path is given. Rows are built in blocks so a 600,000-row file streams out.
+ */
+export async function writeCsv(
+  io: CliIo,
+  outPath: string | undefined,
+  names: readonly string[],
+  columns: readonly Float64Array[],
+): Promise<void> {
+  const n = columns[0]?.length ?? 0;
+  const m = columns.length;
+  const file = outPath === undefined ? null : createWriteStream(outPath);
+  const failed = file
+    ? new Promise<never>((_, reject) => file.once('error', (e) => reject(describeFsError(outPath ?? '', e))))
+    : null;
+  failed?.catch(() => undefined);
+  const emit = async (text: string): Promise<void> => {
+    if (!file) {
+      io.stdout(text);
+      return;
+    }
+    if (!file.write(text)) await Promise.race([once(file, 'drain'), failed]);
+  };
+  await emit(`${names.join(',')}\n`);
+  const BLOCK = 2000;
+  for (let start = 0; start < n; start += BLOCK) {
+    const end = Math.min(n, start + BLOCK);
+    let text = '';
+    for (let r = start; r < end; r++) {
+      let line = '';
+      for (let c = 0; c < m; c++) {
+        // String(number) is the shortest text that reads back to the same double; -0 prints as 0.
+        line += (c === 0 ? '' : ',') + String((columns[c] as Float64Array)[r]);
+      }
+      text += `${line}\n`;
+    }
+    await emit(text);
+  }
+  if (file) {
+    file.end();
+    await Promise.race([once(file, 'finish'), failed]);
+  }
+}
+
+/** Stroke warnings for leg columns (m): per leg out of [min_m, max_m], count, worst value and first time. */
+export function strokeWarnings(
+  file: string,
+  time_s: Float64Array,
+  legs: readonly Float64Array[],
+  min_m: number,
+  max_m: number,
+  lines?: Int32Array,
+): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < legs.length; i++) {
+    const l = legs[i] as Float64Array;
+    let count = 0;
+    let first = -1;
+    let worst = 0;
+    let worstValue = 0;
+    for (let s = 0; s < l.length; s++) {
+      const v = l[s] as number;
+      const over = v > max_m ? v - max_m : v < min_m ? min_m - v : 0;
+      if (over > 0) {
+        if (first < 0) first = s;
+        count++;
+        if (over > worst) {
+          worst = over;
+          worstValue = v;
+        }
+      }
+    }
+    if (count > 0) {
+      const line = lines?.[first];
+      out.push(
+        `warning: ${file}: leg${i + 1} outside its stroke [${min_m}, ${max_m}] m at ${count} sample(s), ` +
+          `first at t = ${time_s[first]} s${line === undefined ? '' : ` (line ${line})`}, worst ${worstValue.toPrecision(6)} m`,
+      );
+    }
+  }
+  return out;
+}
