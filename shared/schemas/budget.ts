@@ -333,3 +333,21 @@ export function parseJsonWith<T>(schema: z.ZodType<T>, text: string, file: strin
 export function parseBudgetText(text: string, file = 'budget.json'): Budget {
   return parseJsonWith(budgetSchema, text, file);
 }
+
+/**
+ * Line and column of the value at a written path such as "leg.min_m" or "baseJoints_m[2]" in JSON
+ * text (the nearest enclosing value when the key is missing); undefined for text that is not JSON.
+ */
+export function locateJsonPath(text: string, path: string): { line: number; column: number } | undefined {
+  const scan = scanJson(text);
+  if (!scan.ok) return undefined;
+  const parts =
+    path === '(root)' || path === ''
+      ? []
+      : path.split(/\.|\[(\d+)\]/).filter((p) => p !== undefined && p !== '');
+  for (let k = parts.length; k >= 0; k--) {
+    const at = scan.positions.get(parts.slice(0, k).join('/'));
+    if (at !== undefined) return lineColumn(text, at);
+  }
+  return undefined;
+}

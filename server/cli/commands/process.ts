@@ -1,0 +1,215 @@
+// `legwork process`: the whole offline pipeline (read, resample, cue, kinematics, checks, spectra) into a
+// package folder with a manifest of SHA-256 sums and every parameter of the run.
+
+import { createReadStream, readFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { basename } from 'node:path';
+import { parseArgs } from 'node:util';
+import { legsCsv, poseCsv, processTrack } from '../../../shared/motion/process';
+import type { ProcessResult } from '../../../shared/motion/process';
+import { REPORT_CAUTION, buildReport } from '../../../shared/motion/report';
+import type { Budget } from '../../../shared/schemas/budget';
+import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
+import type { CliIo } from '../io';
+import { CAUTION, CliInputError, readTrackFile } from '../io';
+import { sha256Hex, writePackage } from '../package-writer';
+import { describePipelineError, readBaseFile, readBudgetFile, readProfileFile } from './check';
+
+export const summary =
+  'the whole offline pipeline into a package folder (legs, pose, findings, spectra, report)';
+
+export const help = `Usage: legwork process --base BASE.json [--profile PROFILE.json] [--budget BUDGET.json]
+                       --in TRACK.csv[.gz] --out DIR
+
+Reads a vehicle, pose or legs track, resamples it to the base's controller rate, cues vehicle
+tracks by classical washout (the default profile when none is given), runs the kinematics (inverse;
+forward for a legs track), checks the safety budget and computes the rider's spectra. Writes into DIR:
+  legs.csv       leg lengths at the controller rate (time_s, leg1_m ..)
+  pose.csv       pose offsets from neutral at the controller rate
+  findings.json  the findings JSON of \`legwork check\`
+  spectra.json   Welch PSD per axis of the rider's specific force, 0.1-0.5 Hz band marked
+  report.txt     a plain-language summary with the cautions
+  manifest.json  every file's SHA-256 and size, and every parameter of the run
+Without --budget the DEMO budget is used (invented numbers, not a standard's), and the report says so.
+
+Options:
+  --base FILE      motion base JSON (motion-spec section 7)
+  --profile FILE   cueing profile JSON (vehicle tracks only)
+  --budget FILE    safety budget JSON
+  --in FILE        track CSV, optionally gzipped
+  --out DIR        package folder (created if missing; package files in it are replaced)
+  -h, --help       this text
+
+Exit codes: 0 within budget, 2 bad input or usage, 3 over a comfort limit only, 4 over a hard limit.
+
+The budget numbers are whatever the venue entered; Legwork does not check them against any code.
+${CAUTION}
+`;
+
+/** The version field of the project's package.json. */
+export function softwareVersion(): string {
+  const pkg = JSON.parse(readFileSync(new URL('../../../package.json', import.meta.url), 'utf8')) as {
+    version?: string;
+  };
+  return pkg.version ?? 'unknown';
+}
+
+async function fileSha256(path: string): Promise<{ sha256: string; size_bytes: number }> {
+  const hash = createHash('sha256');
+  let size = 0;
+  for await (const chunk of createReadStream(path)) {
+    const b = chunk as Buffer;
+    size += b.byteLength;
+    hash.update(b);
+  }
+  return { sha256: hash.digest('hex'), size_bytes: size };
+}
+
+export async function run(argv: string[], io: CliIo): Promise<number> {
+  let values: { base?: string; profile?: string; budget?: string; in?: string; out?: string; help?: boolean };
+  try {
+    values = parseArgs({
+      args: argv,
+      options: {
+        base: { type: 'string' },
+        profile: { type: 'string' },
+        budget: { type: 'string' },
+        in: { type: 'string' },
+        out: { type: 'string' },
+        help: { type: 'boolean', short: 'h' },
+      },
+      strict: true,
+      allowPositionals: false,
+    }).values;
+  } catch (e) {
+    throw new CliInputError((e as Error).message);
+  }
+  if (values.help) {
+    io.stdout(help);
+    return 0;
+  }
+  if (!values.base) throw new CliInputError('missing --base FILE');
+  if (!values.in) throw new CliInputError('missing --in FILE');
+  if (!values.out) throw new CliInputError('missing --out DIR');
+  const basePath = values.base;
+  const inPath = values.in;
+  const { base, text: baseText } = await readBaseFile(basePath);
+  let budget: Budget | undefined;
+  let budgetText: string | undefined;
+  if (values.budget) ({ budget, text: budgetText } = await readBudgetFile(values.budget));
+  let profile: CueingProfile | undefined;
+  let profileText: string | undefined;
+  if (values.profile) ({ profile, text: profileText } = await readProfileFile(values.profile));
+  const track = await readTrackFile(inPath);
+  if (values.profile && track.kind !== 'vehicle') {
+    io.stderr(`warning: ${values.profile}: a ${track.kind} track is not cued; the profile was not used\n`);
+  }
+  const inputHash = await fileSha256(inPath);
+
+  let result: ProcessResult;
+  try {
+    result = processTrack({
+      track,
+      base,
+      ...(budget ? { budget } : {}),
+      ...(profile ? { profile } : {}),
+    });
+  } catch (e) {
+    describePipelineError(e, {
+      input: inPath,
+      track,
+      ...(values.profile ? { profile: values.profile } : {}),
+    });
+  }
+
+  const version = softwareVersion();
+  const n = track.length;
+  const start_s = track.time_s[0] as number;
+  const end_s = track.time_s[n - 1] as number;
+  const spectra = result.spectra;
+  const report = buildReport(result.findings, {
+    inputFile: basename(inPath),
+    inputKind: track.kind,
+    inputRows: n,
+    start_s,
+    end_s,
+    baseName: base.name ?? basename(basePath),
+    baseKind: base.kind,
+    seats: base.seats_m.length,
+    rate_hz: result.rate_hz,
+    profileName: result.profile ? result.profile.name : null,
+    budget: result.budget,
+    budgetIsDemo: result.budgetIsDemo,
+    softwareVersion: version,
+    ...(spectra
+      ? {
+          sicknessBandShare: {
+            x: spectra.axes.x.bandShare,
+            y: spectra.axes.y.bandShare,
+            z: spectra.axes.z.bandShare,
+          },
+        }
+      : {}),
+  });
+
+  const manifest = {
+    format: 'legwork-package',
+    formatVersion: 1,
+    software: { name: 'legwork', version },
+    caution: REPORT_CAUTION,
+    result: { within: result.findings.within, exitCode: result.exitCode },
+    input: {
+      file: basename(inPath),
+      ...inputHash,
+      kind: track.kind,
+      layout: track.layout,
+      rows: n,
+      start_s,
+      end_s,
+      meanRate_hz: n > 1 ? (n - 1) / (end_s - start_s) : null,
+    },
+    rates: {
+      controller_hz: result.rate_hz,
+      samples: result.time_s.length,
+      riderLowPass: '4-pole Butterworth, 5 Hz (common practice)',
+      weighting: result.findings.comfort?.weightingNote ?? null,
+    },
+    base: { file: basename(basePath), sha256: sha256Hex(baseText), parameters: base },
+    profile: result.profile
+      ? {
+          file: values.profile ? basename(values.profile) : null,
+          sha256: profileText === undefined ? null : sha256Hex(profileText),
+          default: profileText === undefined,
+          parameters: result.profile,
+        }
+      : null,
+    budget: {
+      file: values.budget ? basename(values.budget) : null,
+      sha256: budgetText === undefined ? null : sha256Hex(budgetText),
+      demo: result.budgetIsDemo,
+      parameters: result.budget,
+    },
+    notes: result.notes,
+  };
+
+  try {
+    await writePackage(
+      values.out,
+      [
+        { name: 'legs.csv', content: legsCsv(result) },
+        { name: 'pose.csv', content: poseCsv(result) },
+        { name: 'findings.json', content: `${JSON.stringify(result.findings, null, 2)}\n` },
+        { name: 'spectra.json', content: `${JSON.stringify(spectra)}\n` },
+        { name: 'report.txt', content: report },
+      ],
+      manifest,
+    );
+  } catch (e) {
+    throw new CliInputError(`${values.out}: cannot write the package: ${(e as Error).message}`);
+  }
+  io.stdout(
+    `${values.out}: package written (${result.findings.findings.length} finding(s); exit ${result.exitCode}). ` +
+      'See report.txt.\n',
+  );
+  return result.exitCode;
+}

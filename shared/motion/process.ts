@@ -1,0 +1,398 @@
+// The offline pipeline in one pure function (motion-spec sections 3-7): a parsed track (vehicle, pose or
+// legs) and a motion base, plus an optional cueing profile and budget, become every output of a package
+// in memory: leg lengths and poses at the controller rate, findings, spectra and chart series. No I/O,
+// no clock: the CLI, the worker and the tests call the same function and write the results themselves.
+import type { Budget } from '../schemas/budget';
+import { DEMO_BUDGET, ENVELOPE_AXES } from '../schemas/budget';
+import type { CueingProfile } from '../schemas/cueing-profile';
+import { defaultCueingProfile } from '../schemas/cueing-profile';
+import type { CheckResult } from '../schemas/findings';
+import { exitCodeFor } from '../schemas/findings';
+import type { MotionBase } from '../schemas/motion-base';
+import type { BudgetCheck } from './checks';
+import { runChecks } from './checks';
+import type { MinMaxSeries } from './decimate';
+import { decimateMinMax } from './decimate';
+import type { PoseColumns } from './hexapod';
+import {
+  hexapodConditionNumbers,
+  hexapodForward,
+  hexapodGeometry,
+  hexapodInverse,
+  hexapodLegAccelerations,
+  hexapodLegSpeeds,
+  poseRates,
+} from './hexapod';
+import { planar3ConditionNumbers, planar3Forward, planar3Geometry, planar3Inverse } from './planar3';
+import { resampleTrack } from './resample';
+import type { PoseOffsetTrack } from './seat-force';
+import { platformMotion, seatForceFromMotion } from './seat-force';
+import type { WelchPsd } from './spectra';
+import { SICKNESS_BAND_HZ, bandPower, totalPower, welchPsd, welchSegmentLength } from './spectra';
+import { derivative } from './track-derivative';
+import type { Track } from './track-reader';
+import { trackColumn } from './track-reader';
+import { cueClassical } from './washout';
+
+/** Inputs of the pipeline; the track is parsed (SI) but not yet resampled. */
+export interface ProcessInput {
+  track: Track;
+  base: MotionBase;
+  /** Cueing profile for vehicle tracks; the default profile when absent. */
+  profile?: CueingProfile;
+  /** Safety budget; the demo budget (clearly marked as such) when absent. */
+  budget?: Budget;
+  /** Buckets of the min/max chart series; default 2000. */
+  chartBuckets?: number;
+}
+
+/** Spectra as written to spectra.json: one-sided Welch PSD per axis of the rider's specific force. */
+export interface SpectraJson {
+  method: string;
+  unit: string;
+  rate_hz: number;
+  segment_n: number;
+  segments: number;
+  df_hz: number;
+  band: { low_hz: number; high_hz: number; note: string };
+  axes: Record<
+    'x' | 'y' | 'z',
+    { seat: string; totalPower_mps2sq: number; bandPower_mps2sq: number; bandShare: number; psd: number[] }
+  >;
+}
+
+/** Everything a package holds, in memory. */
+export interface ProcessResult {
+  inputKind: Track['kind'];
+  baseKind: MotionBase['kind'];
+  rate_hz: number;
+  time_s: Float64Array;
+  /** Pose offsets from neutral (m, rad); planar stages keep z, roll and pitch at 0. */
+  pose: PoseColumns;
+  /** Leg lengths (m), one column per leg. */
+  legs: Float64Array[];
+  check: BudgetCheck;
+  /** findings.json content (rounded for reading). */
+  findings: CheckResult;
+  /** spectra.json content, or null when the track is too short for a spectrum. */
+  spectra: SpectraJson | null;
+  budget: Budget;
+  budgetIsDemo: boolean;
+  /** The profile used when the input was a vehicle track. */
+  profile: CueingProfile | null;
+  notes: string[];
+  exitCode: 0 | 3 | 4;
+  /** Min/max series for charts: each leg's length and the low-passed force at the first seat. */
+  charts: { legs_m: MinMaxSeries[]; seat1Force_mps2: MinMaxSeries[] };
+}
+
+/** Thrown when the track does not fit the base (a planar pose for a hexapod, too few samples). */
+export class ProcessInputError extends Error {
+  override name = 'ProcessInputError';
+}
+
+function vehicleColumns(track: Track, rate_hz: number) {
+  return {
+    rate_hz,
+    fx_mps2: trackColumn(track, 'fx_mps2'),
+    fy_mps2: trackColumn(track, 'fy_mps2'),
+    fz_mps2: trackColumn(track, 'fz_mps2'),
+    wx_radps: trackColumn(track, 'wx_radps'),
+    wy_radps: trackColumn(track, 'wy_radps'),
+    wz_radps: trackColumn(track, 'wz_radps'),
+  };
+}
+
+/** Runs the whole offline pipeline (see the file comment); pure, throws on input it cannot process. */
+export function processTrack(input: ProcessInput): ProcessResult {
+  const { base, track } = input;
+  const notes: string[] = [];
+  const budgetIsDemo = input.budget === undefined;
+  const budget = input.budget ?? DEMO_BUDGET;
+  if (budgetIsDemo) {
+    notes.push("No budget was given: the DEMO budget was used. Its numbers are invented, not a standard's.");
+  }
+  if (track.kind !== 'vehicle' && track.layout !== base.kind) {
+    throw new ProcessInputError(
+      `a ${track.layout} ${track.kind} track does not fit a ${base.kind} base (its columns are for the other kind)`,
+    );
+  }
+  const rate_hz = base.controllerRate_hz;
+  const rs = resampleTrack(track, rate_hz);
+  const n = rs.length;
+  if (n < 4) {
+    throw new ProcessInputError(
+      `the track spans ${n} sample(s) at the controller rate ${rate_hz} Hz; at least 4 are needed`,
+    );
+  }
+  const time_s = rs.time_s;
+  const zeros = () => new Float64Array(n);
+  let pose: PoseColumns;
+  let legs: Float64Array[];
+  let profile: CueingProfile | null = null;
+
+  if (rs.kind === 'vehicle') {
+    profile = input.profile ?? defaultCueingProfile();
+    const cued = cueClassical(vehicleColumns(rs, rate_hz), profile);
+    const p = cued.pose;
+    pose = {
+      x_m: p.x_m,
+      y_m: p.y_m,
+      z_m: p.z_m,
+      roll_rad: p.roll_rad,
+      pitch_rad: p.pitch_rad,
+      yaw_rad: p.yaw_rad,
+    };
+    if (base.kind === 'planar3') {
+      // A planar stage moves in x, y and yaw only; heave and tilt coordination cannot be rendered.
+      pose.z_m = zeros();
+      pose.roll_rad = zeros();
+      pose.pitch_rad = zeros();
+      notes.push(
+        'The base is a planar x-y-yaw stage: the cued heave, roll and pitch (including tilt coordination) were left out.',
+      );
+    }
+  } else if (rs.kind === 'pose') {
+    pose =
+      base.kind === 'hexapod'
+        ? {
+            x_m: trackColumn(rs, 'x_m'),
+            y_m: trackColumn(rs, 'y_m'),
+            z_m: trackColumn(rs, 'z_m'),
+            roll_rad: trackColumn(rs, 'roll_rad'),
+            pitch_rad: trackColumn(rs, 'pitch_rad'),
+            yaw_rad: trackColumn(rs, 'yaw_rad'),
+          }
+        : {
+            x_m: trackColumn(rs, 'x_m'),
+            y_m: trackColumn(rs, 'y_m'),
+            z_m: zeros(),
+            roll_rad: zeros(),
+            pitch_rad: zeros(),
+            yaw_rad: trackColumn(rs, 'yaw_rad'),
+          };
+  } else {
+    legs = rs.columns.map((c) => c);
+    if (base.kind === 'hexapod') {
+      pose = hexapodForward(hexapodGeometry(base), legs, { time_s });
+    } else {
+      const p = planar3Forward(planar3Geometry(base), legs, { time_s });
+      pose = {
+        x_m: p.x_m,
+        y_m: p.y_m,
+        z_m: zeros(),
+        roll_rad: zeros(),
+        pitch_rad: zeros(),
+        yaw_rad: p.yaw_rad,
+      };
+    }
+  }
+
+  // Kinematics: lengths, speeds, accelerations and conditioning.
+  let legSpeed: Float64Array[];
+  let legAccel: Float64Array[];
+  let conditioning: Float64Array | undefined;
+  const wantConditioning = budget.comfort.conditioningMax !== undefined;
+  if (base.kind === 'hexapod') {
+    const g = hexapodGeometry(base);
+    legs ??= hexapodInverse(g, pose);
+    legSpeed = hexapodLegSpeeds(g, pose, poseRates(time_s, pose));
+    legAccel = hexapodLegAccelerations(time_s, legSpeed);
+    if (wantConditioning) conditioning = hexapodConditionNumbers(g, pose);
+  } else {
+    const g = planar3Geometry(base);
+    const planarPose = { x_m: pose.x_m, y_m: pose.y_m, yaw_rad: pose.yaw_rad };
+    legs ??= planar3Inverse(g, planarPose);
+    legSpeed = legs.map((l) => derivative(time_s, l));
+    legAccel = legSpeed.map((v) => derivative(time_s, v));
+    if (wantConditioning) conditioning = planar3ConditionNumbers(g, planarPose);
+  }
+
+  // What the riders feel.
+  const poseTrack: PoseOffsetTrack = { rate_hz, ...pose };
+  const motion = platformMotion(poseTrack);
+  const seatForce = base.seats_m.map((seat) => {
+    const f = seatForceFromMotion(motion, seat);
+    return [f.x, f.y, f.z] as const;
+  });
+  const omega: [Float64Array, Float64Array, Float64Array] = [zeros(), zeros(), zeros()];
+  {
+    // Platform-frame angular velocity R^T w, the rotation a rider feels.
+    const R = motion.rotation;
+    const W = motion.omega_radps;
+    const [ox, oy, oz] = omega;
+    for (let i = 0; i < n; i++) {
+      const m = 9 * i;
+      const o = 3 * i;
+      const wx = W[o] as number;
+      const wy = W[o + 1] as number;
+      const wz = W[o + 2] as number;
+      ox[i] = (R[m] as number) * wx + (R[m + 3] as number) * wy + (R[m + 6] as number) * wz;
+      oy[i] = (R[m + 1] as number) * wx + (R[m + 4] as number) * wy + (R[m + 7] as number) * wz;
+      oz[i] = (R[m + 2] as number) * wx + (R[m + 5] as number) * wy + (R[m + 8] as number) * wz;
+    }
+  }
+
+  const check = runChecks(
+    {
+      time_s,
+      rate_hz,
+      legLength_m: legs,
+      legSpeed_mps: legSpeed,
+      legAccel_mps2: legAccel,
+      seatForce_mps2: seatForce,
+      omega_radps: omega,
+      ...(conditioning ? { conditioning } : {}),
+      legLimits: base.leg,
+    },
+    budget,
+  );
+  notes.push(...check.notes);
+  if (check.comfort) notes.push(check.comfort.weightingNote);
+
+  const spectra = riderSpectra(seatForce, check, rate_hz, n);
+  if (!spectra) notes.push('The track is too short for a spectrum (fewer than 32 samples).');
+
+  const buckets = input.chartBuckets ?? 2000;
+  const t0 = time_s[0] as number;
+  const seat1 = check.rider.seatForceLp_mps2[0];
+  return {
+    inputKind: track.kind,
+    baseKind: base.kind,
+    rate_hz,
+    time_s,
+    pose,
+    legs,
+    check,
+    findings: findingsForJson(check, notes),
+    spectra,
+    budget,
+    budgetIsDemo,
+    profile,
+    notes,
+    exitCode: exitCodeFor(check),
+    charts: {
+      legs_m: legs.map((l) => decimateMinMax(l, 0, 1, n, t0, rate_hz, buckets)),
+      seat1Force_mps2: seat1 ? seat1.map((f) => decimateMinMax(f, 0, 1, n, t0, rate_hz, buckets)) : [],
+    },
+  };
+}
+
+function riderSpectra(
+  seatForce: readonly (readonly [Float64Array, Float64Array, Float64Array])[],
+  check: BudgetCheck,
+  rate_hz: number,
+  n: number,
+): SpectraJson | null {
+  const seg = welchSegmentLength(n, rate_hz);
+  if (seg === 0 || seatForce.length === 0) return null;
+  let first: WelchPsd | undefined;
+  const axes = {} as SpectraJson['axes'];
+  ENVELOPE_AXES.forEach((axis, a) => {
+    // The seat with the highest weighted r.m.s. on this axis, as in the wrms check.
+    const seatName = check.comfort?.wrmsSeat[axis] ?? 'seat1';
+    const s = Math.max(0, Number(seatName.slice(4)) - 1);
+    const signal = (seatForce[s] ?? seatForce[0])?.[a] as Float64Array;
+    const p = welchPsd(signal, 0, 1, n, rate_hz, seg);
+    first ??= p;
+    const total = totalPower(p);
+    const band = bandPower(p, SICKNESS_BAND_HZ.low, SICKNESS_BAND_HZ.high);
+    axes[axis] = {
+      seat: seatName,
+      totalPower_mps2sq: sig(total),
+      bandPower_mps2sq: sig(band),
+      bandShare: total > 0 ? sig(band / total) : 0,
+      psd: Array.from(p.psd, sig),
+    };
+  });
+  const p = first as WelchPsd;
+  return {
+    method:
+      'Welch: periodic Hann window, 50 % overlap, segment mean removed, one-sided; PSD summed over the bins times df_hz equals the variance',
+    unit: '(m/s^2)^2/Hz',
+    rate_hz,
+    segment_n: p.segment_n,
+    segments: p.segments,
+    df_hz: p.df_hz,
+    band: {
+      low_hz: SICKNESS_BAND_HZ.low,
+      high_hz: SICKNESS_BAND_HZ.high,
+      note: 'The band where motion sickness is most provoked; bin k lies at k * df_hz.',
+    },
+    axes,
+  };
+}
+
+/** Rounds to 6 significant digits for files people read; exact zero stays zero. */
+export function sig(v: number): number {
+  return v === 0 ? 0 : Number(v.toPrecision(6));
+}
+
+/** Ratio rounded to 4 decimals, never rounded up to 1 when it is below 1 (that would read as a breach). */
+function ratio4(r: number): number {
+  const x = Math.round(r * 1e4) / 1e4;
+  return r < 1 && x >= 1 ? 0.9999 : x;
+}
+
+const time4 = (t: number) => Math.round(t * 1e4) / 1e4;
+
+/** The findings JSON of motion-spec section 7, rounded for reading, plus the comfort summary and notes. */
+export function findingsForJson(check: CheckResult, notes: readonly string[] = []): CheckResult {
+  const out: CheckResult = {
+    within: check.within,
+    findings: check.findings.map((f) => ({
+      ...f,
+      start_s: time4(f.start_s),
+      end_s: time4(f.end_s),
+      value: sig(f.value),
+      limit: sig(f.limit),
+      ratio: ratio4(f.ratio),
+    })),
+    uses: check.uses.map((u) => ({ ...u, ratio: ratio4(u.ratio) })),
+  };
+  if (check.comfort) {
+    const c = check.comfort;
+    out.comfort = {
+      ...c,
+      wrms_mps2: { x: sig(c.wrms_mps2.x), y: sig(c.wrms_mps2.y), z: sig(c.wrms_mps2.z) },
+      vdv_mps1_75: { x: sig(c.vdv_mps1_75.x), y: sig(c.vdv_mps1_75.y), z: sig(c.vdv_mps1_75.z) },
+      msdvZ_mps1_5: sig(c.msdvZ_mps1_5),
+      vomitShare_pct: sig(c.vomitShare_pct),
+    };
+  }
+  if (notes.length > 0) out.notes = [...notes];
+  return out;
+}
+
+/** CSV text of the pose offsets (motion-spec section 3 pose columns, SI units). */
+export function poseCsv(r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind'>): string {
+  const p = r.pose;
+  const cols =
+    r.baseKind === 'hexapod'
+      ? [p.x_m, p.y_m, p.z_m, p.roll_rad, p.pitch_rad, p.yaw_rad]
+      : [p.x_m, p.y_m, p.yaw_rad];
+  const header =
+    r.baseKind === 'hexapod' ? 'time_s,x_m,y_m,z_m,roll_rad,pitch_rad,yaw_rad' : 'time_s,x_m,y_m,yaw_rad';
+  return columnsCsv(header, r.time_s, cols);
+}
+
+/** CSV text of the leg lengths (motion-spec section 3 legs columns, m). */
+export function legsCsv(r: Pick<ProcessResult, 'time_s' | 'legs'>): string {
+  const header = ['time_s', ...r.legs.map((_, i) => `leg${i + 1}_m`)].join(',');
+  return columnsCsv(header, r.time_s, r.legs);
+}
+
+// Nine decimals (nanometres, nanoradians) keep second differences of a re-read file at 1 kHz far
+// below any limit.
+function columnsCsv(header: string, time_s: Float64Array, cols: readonly Float64Array[]): string {
+  const n = time_s.length;
+  const lines: string[] = new Array<string>(n + 1);
+  lines[0] = header;
+  const row: string[] = new Array<string>(cols.length + 1);
+  for (let i = 0; i < n; i++) {
+    row[0] = (time_s[i] as number).toFixed(6);
+    for (let c = 0; c < cols.length; c++) row[c + 1] = ((cols[c] as Float64Array)[i] as number).toFixed(9);
+    lines[i + 1] = row.join(',');
+  }
+  return lines.join('\n') + '\n';
+}
