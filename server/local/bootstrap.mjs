@@ -35,7 +35,7 @@ const child = spawn(tsx, [join(root, 'server', 'local', 'run.ts'), mode, ...proc
   stdio: 'inherit',
   // The AWS SDK warns on every start that releases after early 2027 will need Node 22; the versions
   // in package-lock.json are pinned, so the notice says nothing about this install.
-  env: { ...process.env, NODE_OPTIONS: `${process.env.NODE_OPTIONS ?? ''} --disable-warning=NodeVersionSupportWarning`.trim() },
+  env: { AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true', ...process.env },
 });
 // Ctrl-C reaches the child through the process group; forward other stops explicitly.
 for (const sig of ['SIGTERM', 'SIGHUP']) process.on(sig, () => child.kill(sig));

@@ -16,10 +16,10 @@ import { seedDemoIfEmpty } from '../db/seed';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
 import { ROLE_LABELS } from '../../shared/schemas/roles';
 
-type Mode = 'start' | 'dev' | 'test';
+type Mode = 'start' | 'dev' | 'test' | 'services';
 const mode = (process.argv[2] ?? 'start') as Mode;
-if (!['start', 'dev', 'test'].includes(mode)) {
-  console.error(`legwork: unknown mode "${mode}" (start, dev or test)`);
+if (!['start', 'dev', 'test', 'services'].includes(mode)) {
+  console.error(`legwork: unknown mode "${mode}" (start, dev, test or services)`);
   process.exit(2);
 }
 
@@ -27,7 +27,7 @@ const root = resolve(import.meta.dirname, '..', '..');
 const log = (s: string) => console.log(`legwork: ${s}`);
 const bin = (name: string) => join(root, 'node_modules', '.bin', name);
 
-const basePort = Number(process.env.LEGWORK_PORT_BASE ?? (mode === 'test' ? 5580 : 5480));
+const basePort = Number(process.env.LEGWORK_PORT_BASE ?? (mode === 'test' || mode === 'services' ? 5580 : 5480));
 const ports = {
   app: Number(process.env.LEGWORK_APP_PORT ?? basePort),
   pg: Number(process.env.LEGWORK_PG_PORT ?? basePort + 1),
@@ -35,8 +35,9 @@ const ports = {
   smtp: Number(process.env.LEGWORK_SMTP_PORT ?? basePort + 3),
   vite: Number(process.env.LEGWORK_VITE_PORT ?? basePort - 1),
 };
+const throwaway = mode === 'test' || mode === 'services';
 const home =
-  mode === 'test'
+  throwaway
     ? mkdtempSync(join(process.env.LEGWORK_TEST_TMP ?? tmpdir(), 'legwork-test-'))
     : resolve(process.env.LEGWORK_HOME ?? join(root, '.legwork'));
 mkdirSync(home, { recursive: true });
@@ -72,7 +73,7 @@ async function shutdown(code: number): Promise<never> {
       log(`while stopping: ${(e as Error).message}`);
     }
   }
-  if (mode === 'test' && !process.env.LEGWORK_KEEP_TEST_DATA) rmSync(home, { recursive: true, force: true });
+  if (throwaway && !process.env.LEGWORK_KEEP_TEST_DATA) rmSync(home, { recursive: true, force: true });
   process.exit(code);
 }
 process.on('SIGINT', () => void shutdown(mode === 'test' ? 130 : 0));
@@ -111,7 +112,7 @@ interface Services {
 }
 
 async function startServices(database: string): Promise<Services> {
-  const pg = startPostgres({ home: join(home, 'postgres'), port: ports.pg, throwaway: mode === 'test', log });
+  const pg = startPostgres({ home: join(home, 'postgres'), port: ports.pg, throwaway, log });
   cleanups.push(() => pg.stop());
   await ensureDatabase(pg.adminUrl(), database);
   const bucket = process.env.S3_BUCKET ?? 'legwork-local';
@@ -229,6 +230,16 @@ async function main(): Promise<void> {
     launch('worker', bin('tsx'), ['worker/index.ts'], env);
     await waitForHealth(`http://127.0.0.1:${ports.app}`);
     printWelcome(url);
+    return;
+  }
+
+  if (mode === 'services') {
+    // Only the services, for running single test files by hand: `source <printed file>`, then vitest.
+    const { pg, env } = await startServices('legwork_browser');
+    const vars = { ...env, LEGWORK_TEST_PG_ADMIN_URL: pg.adminUrl(), NODE_ENV: 'test' };
+    const file = join(home, 'env.sh');
+    writeFileSync(file, Object.entries(vars).map(([k, v]) => `export ${k}='${v}'`).join('\n') + '\n');
+    log(`services are up; their variables are in ${file}. Ctrl-C stops them.`);
     return;
   }
 

@@ -33,6 +33,8 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic): Router
   const limiter = rateLimit({
     windowMs: deps.env.LOGIN_RATE_WINDOW_S * 1000,
     limit: deps.env.LOGIN_RATE_LIMIT,
+    // Only refused attempts count, so people who sign in often are never locked out.
+    skipSuccessfulRequests: true,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
