@@ -4,6 +4,7 @@ import type { LoaderFunctionArgs } from 'react-router-dom';
 import { getMeQueryOptions } from '../features/auth/api/get-me';
 import { getStudioOverviewQueryOptions } from '../features/studios/api/get-studio-overview';
 import { getVenuesQueryOptions } from '../features/venues/api/get-venues';
+import { Loading } from '../components/ui/status';
 import { MailboxRoute } from './routes/mailbox';
 import {
   AcceptInvitationRoute,
@@ -17,21 +18,28 @@ import { StudioHomeRoute } from './routes/studio-home';
 import { RootRedirect, StudioLayout } from './routes/studio-layout';
 import { AuditRoute, MembersRoute, VenuesRoute } from './routes/studio-pages';
 
-/** The app's routes; loaders only start fetches (they never throw), so pages own loading and error states. */
+/** The app's routes; loaders only start fetches and never throw, so pages own their loading and error states. */
 export function createAppRouter(queryClient: QueryClient) {
-  const studioLoader = ({ params }: LoaderFunctionArgs) => {
-    void queryClient.prefetchQuery(getMeQueryOptions());
-    if (params.studioId) void queryClient.prefetchQuery(getStudioOverviewQueryOptions(params.studioId));
+  // Waits for the session (so a signed-out visit makes one request, not one per list), then starts
+  // the studio's overview; a failure here is left to the page, which shows it with a retry.
+  const studioLoader = async ({ params }: LoaderFunctionArgs) => {
+    const me = await queryClient.ensureQueryData(getMeQueryOptions()).catch(() => null);
+    const studioId = params.studioId;
+    if (me?.memberships.some((m) => m.studioId === studioId) && studioId) {
+      void queryClient.prefetchQuery(getStudioOverviewQueryOptions(studioId));
+    }
     return null;
   };
-  const venuesLoader = ({ params }: LoaderFunctionArgs) => {
-    if (params.studioId) void queryClient.prefetchQuery(getVenuesQueryOptions(params.studioId));
+  const venuesLoader = async ({ params }: LoaderFunctionArgs) => {
+    const me = await queryClient.ensureQueryData(getMeQueryOptions()).catch(() => null);
+    if (me && params.studioId) void queryClient.prefetchQuery(getVenuesQueryOptions(params.studioId));
     return null;
   };
 
   return createBrowserRouter([
     {
       errorElement: <RouteErrorScreen />,
+      hydrateFallbackElement: <Loading what="Starting Legwork" />,
       children: [
         { path: '/', element: <RootRedirect /> },
         { path: '/sign-in', element: <SignInRoute /> },

@@ -29,7 +29,7 @@ export function MailboxRoute() {
     );
   else
     body = (
-      <div className="grid grid-cols-1 gap-4 md:grid-cols-[20rem_1fr]">
+      <div className="grid grid-cols-1 items-start gap-4 md:grid-cols-[20rem_1fr]">
         <MailList
           messages={mailbox.data.messages}
           selectedId={selectedId}

@@ -43,8 +43,7 @@ function Account({ me }: { me: Me }) {
       {logout.error ? <span className="text-xs text-signal-400">{logout.error.message}</span> : null}
       <Button
         size="sm"
-        variant="quiet"
-        className="text-ink-100 hover:bg-ink-800 hover:text-white"
+        variant="onDark"
         busy={logout.isPending}
         onClick={() =>
           logout.mutate(undefined, { onSuccess: () => void navigate('/sign-in', { replace: true }) })

@@ -27,7 +27,7 @@ export function AppShell({ switcher, account, nav, children }: AppShellProps) {
         {account}
       </header>
       <div className="flex flex-1">
-        <nav aria-label="Studio" className="w-48 shrink-0 border-r border-ink-200 bg-white px-2 py-3">
+        <nav aria-label="Studio pages" className="w-48 shrink-0 border-r border-ink-200 bg-white px-2 py-3">
           <ul className="flex flex-col gap-0.5">
             {nav.map((item) => (
               <li key={item.to}>

@@ -1,12 +1,13 @@
 import type { ButtonHTMLAttributes } from 'react';
 
-type Variant = 'primary' | 'secondary' | 'danger' | 'quiet';
+type Variant = 'primary' | 'secondary' | 'danger' | 'quiet' | 'onDark';
 
 const VARIANTS: Record<Variant, string> = {
   primary: 'bg-tealdeep-600 text-white hover:bg-tealdeep-700 border-tealdeep-700',
   secondary: 'bg-white text-ink-800 hover:bg-ink-100 border-ink-200',
   danger: 'bg-white text-stop-700 hover:bg-stop-500 hover:text-white border-stop-500',
   quiet: 'bg-transparent text-ink-600 hover:text-ink-900 hover:bg-ink-100 border-transparent',
+  onDark: 'bg-transparent text-ink-100 hover:text-white hover:bg-ink-800 border-ink-600',
 };
 
 export interface ButtonProps extends ButtonHTMLAttributes<HTMLButtonElement> {

@@ -13,8 +13,9 @@ export function StudioSwitcher({
   const sorted = [...memberships].sort((a, b) => a.studioName.localeCompare(b.studioName));
   return (
     <label className="inline-flex items-center gap-2 text-xs text-ink-200">
-      <span>Studio</span>
+      <span aria-hidden="true">Studio</span>
       <select
+        aria-label="Studio"
         value={currentStudioId}
         onChange={(event) => onSwitch(event.target.value)}
         className="max-w-64 rounded border border-ink-600 bg-ink-800 px-2 py-1 text-sm text-white"
