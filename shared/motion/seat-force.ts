@@ -119,31 +119,36 @@ export function platformMotion(pose: PoseOffsetTrack): PlatformMotion {
   secondDerivative(pose.x_m, rate, accel, 3, 0);
   secondDerivative(pose.y_m, rate, accel, 3, 1);
   secondDerivative(pose.z_m, rate, accel, 3, 2);
-  // Angle rates go into alpha as scratch, then become w = E * rates.
-  firstDerivative(pose.roll_rad, rate, alpha, 3, 0);
-  firstDerivative(pose.pitch_rad, rate, alpha, 3, 1);
-  firstDerivative(pose.yaw_rad, rate, alpha, 3, 2);
+  // Angle rates go into omega and angle accelerations into alpha as scratch; each sample then turns
+  // them into w = E rates and alpha = dE/dt rates + E accels (E as in eulerRateToBaseOmegaInto), so
+  // alpha needs no difference of differences and keeps O(dt^2) accuracy right up to the ends.
+  firstDerivative(pose.roll_rad, rate, omega, 3, 0);
+  firstDerivative(pose.pitch_rad, rate, omega, 3, 1);
+  firstDerivative(pose.yaw_rad, rate, omega, 3, 2);
+  secondDerivative(pose.roll_rad, rate, alpha, 3, 0);
+  secondDerivative(pose.pitch_rad, rate, alpha, 3, 1);
+  secondDerivative(pose.yaw_rad, rate, alpha, 3, 2);
   for (let i = 0; i < n; i++) {
     const pitch = pose.pitch_rad[i] as number;
     const yaw = pose.yaw_rad[i] as number;
-    const m = 9 * i;
-    rotationInto(pose.roll_rad[i] as number, pitch, yaw, rotation, m);
-    // w = E(pitch, yaw) * rates with E as in eulerRateToBaseOmegaInto (rotation.ts), written out so
-    // the rotation's entries cy*cp = R00, sy*cp = R10 and -sp = R20 save four trig calls per sample.
+    rotationInto(pose.roll_rad[i] as number, pitch, yaw, rotation, 9 * i);
+    const cp = Math.cos(pitch);
+    const sp = Math.sin(pitch);
     const cy = Math.cos(yaw);
     const sy = Math.sin(yaw);
     const o = 3 * i;
-    const dr = alpha[o] as number;
-    const dp = alpha[o + 1] as number;
-    const dy = alpha[o + 2] as number;
-    omega[o] = (rotation[m] as number) * dr - sy * dp;
-    omega[o + 1] = (rotation[m + 3] as number) * dr + cy * dp;
-    omega[o + 2] = (rotation[m + 6] as number) * dr + dy;
-  }
-  const scratch = new Float64Array(n);
-  for (let c = 0; c < 3; c++) {
-    for (let i = 0; i < n; i++) scratch[i] = omega[3 * i + c] as number;
-    firstDerivative(scratch, rate, alpha, 3, c);
+    const dr = omega[o] as number;
+    const dp = omega[o + 1] as number;
+    const dy = omega[o + 2] as number;
+    const ddr = alpha[o] as number;
+    const ddp = alpha[o + 1] as number;
+    const ddy = alpha[o + 2] as number;
+    omega[o] = cy * cp * dr - sy * dp;
+    omega[o + 1] = sy * cp * dr + cy * dp;
+    omega[o + 2] = -sp * dr + dy;
+    alpha[o] = (-sy * cp * dy - cy * sp * dp) * dr - cy * dy * dp + cy * cp * ddr - sy * ddp;
+    alpha[o + 1] = (cy * cp * dy - sy * sp * dp) * dr - sy * dy * dp + sy * cp * ddr + cy * ddp;
+    alpha[o + 2] = -cp * dp * dr - sp * ddr + ddy;
   }
   return { length: n, rate_hz: rate, rotation, accel_mps2: accel, omega_radps: omega, alpha_radps2: alpha };
 }

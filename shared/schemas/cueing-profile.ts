@@ -173,7 +173,10 @@ export function parseCueingProfile(input: unknown): ProfileParseResult {
     ok: false,
     issues: r.error.issues.map((i) => ({
       path: pathString(i.path),
-      message: i.code === 'invalid_type' && i.input === undefined ? 'required field is missing' : i.message,
+      message:
+        i.code === 'invalid_type' && /received undefined$/.test(i.message)
+          ? 'required field is missing'
+          : i.message,
     })),
   };
 }

@@ -153,6 +153,8 @@ registerSection({
   },
 });
 
+registerSection((await import('./cue-bench')).cueBenchSection);
+
 async function loadExtraSections(): Promise<BenchSection[]> {
   const dir = join(dirname(fileURLToPath(import.meta.url)), 'sections');
   let files: string[];

@@ -17,7 +17,8 @@ const MAX_RATE_HZ = 10_000;
 
 const POSE_COLUMNS = ['time_s', 'x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'];
 
-export const summary = 'classical washout of a vehicle track into pose offsets (default profile when none given)';
+export const summary =
+  'classical washout of a vehicle track into pose offsets (default profile when none given)';
 
 export const help = `Usage: legwork cue [--profile PROFILE.json] [--rate HZ] --in VEHICLE.csv[.gz] [--out POSE.csv]
 
@@ -75,9 +76,13 @@ function parseCueArgs(argv: string[]): CueArgs {
   if (!values.in) throw new CliInputError('missing --in FILE');
   let rate_hz = DEFAULT_CUE_RATE_HZ;
   if (values.rate !== undefined) {
-    rate_hz = /^\s*[+]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?\s*$/.test(values.rate) ? Number(values.rate) : Number.NaN;
+    rate_hz = /^\s*[+]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?\s*$/.test(values.rate)
+      ? Number(values.rate)
+      : Number.NaN;
     if (!(rate_hz > 0) || rate_hz > MAX_RATE_HZ) {
-      throw new CliInputError(`Option --rate: "${values.rate}" is not a rate in Hz between 0 and ${MAX_RATE_HZ}`);
+      throw new CliInputError(
+        `Option --rate: "${values.rate}" is not a rate in Hz between 0 and ${MAX_RATE_HZ}`,
+      );
     }
   }
   return { profile: values.profile, rate_hz, input: values.in, out: values.out, help: false };
@@ -142,7 +147,9 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
     if (e instanceof CueingError) {
       const source = args.profile ?? 'default profile';
       const hint = /Nyquist/.test(e.message) ? ` (raise --rate, now ${args.rate_hz} Hz)` : '';
-      throw new CliInputError(`${/^cueing profile/.test(e.message) ? `${source}: ` : `${args.input}: `}${e.message}${hint}`);
+      throw new CliInputError(
+        `${/^cueing profile/.test(e.message) ? `${source}: ` : `${args.input}: `}${e.message}${hint}`,
+      );
     }
     throw e;
   }
