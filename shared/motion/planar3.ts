@@ -182,6 +182,8 @@ export function planar3ForwardPose(
 }
 
 const TWO_PI = 2 * Math.PI;
+// Subdivisions used to split close root pairs around a local minimum of the mode function.
+const REFINE = 512;
 
 /** An angle (rad) wrapped into [-pi, pi). */
 export function wrapAngle(a: number): number {
@@ -266,37 +268,49 @@ export function planar3AssemblyModes(
     vals[k] = buf[0] as number;
   }
   const candidates: number[] = [];
+  const bisect = (a: number, b: number, ga: number): number => {
+    let lo = a;
+    let hi = b;
+    let glo = ga;
+    for (let it = 0; it < 80 && hi - lo > 1e-15; it++) {
+      const mid = 0.5 * (lo + hi);
+      modeFunction(g, l, mid, buf);
+      const gm = buf[0] as number;
+      if (gm === 0) return mid;
+      if (gm * glo < 0) hi = mid;
+      else {
+        lo = mid;
+        glo = gm;
+      }
+    }
+    return 0.5 * (lo + hi);
+  };
   for (let k = 0; k < K; k++) {
     const ga = vals[k] as number;
     const gb = vals[k + 1] as number;
     if (ga === 0) {
       candidates.push(yawAt(k));
-      continue;
-    }
-    if (ga * gb < 0) {
-      let lo = yawAt(k);
-      let hi = yawAt(k + 1);
-      let glo = ga;
-      for (let it = 0; it < 80 && hi - lo > 1e-15; it++) {
-        const mid = 0.5 * (lo + hi);
-        modeFunction(g, l, mid, buf);
-        const gm = buf[0] as number;
-        if (gm === 0) {
-          lo = hi = mid;
-          break;
-        }
-        if (gm * glo < 0) hi = mid;
-        else {
-          lo = mid;
-          glo = gm;
-        }
-      }
-      candidates.push(0.5 * (lo + hi));
+    } else if (ga * gb < 0) {
+      candidates.push(bisect(yawAt(k), yawAt(k + 1), ga));
     } else if (k > 0) {
-      // A touching root (double root) shows no sign change: try the local minima of |G| as well.
+      // Two roots closer than the sampling step (or a touching root) show no sign change: at each local
+      // minimum of |G| look again on a grid REFINE times finer, and keep the minimum itself for Newton.
       const gp = Math.abs(vals[k - 1] as number);
       const gc = Math.abs(ga);
-      if (gc <= gp && gc <= Math.abs(gb)) candidates.push(yawAt(k));
+      if (gc <= gp && gc <= Math.abs(gb)) {
+        const a = yawAt(k - 1);
+        const step = (yawAt(k + 1) - a) / REFINE;
+        modeFunction(g, l, a, buf);
+        let gPrev = buf[0] as number;
+        for (let j = 1; j <= REFINE; j++) {
+          const y = a + j * step;
+          modeFunction(g, l, y, buf);
+          const gj = buf[0] as number;
+          if (gPrev * gj < 0) candidates.push(bisect(y - step, y, gPrev));
+          gPrev = gj;
+        }
+        candidates.push(yawAt(k));
+      }
     }
   }
   const modes: PlanarPose[] = [];
