@@ -12,7 +12,9 @@ export type EnvelopeAxis = (typeof ENVELOPE_AXES)[number];
 export const REST_G: Readonly<Record<EnvelopeAxis, number>> = { x: 0, y: 0, z: 1 };
 
 const finite = (what: string) =>
-  z.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be finite`);
+  z
+    .number({ error: (iss) => (iss.input === undefined ? `${what} is missing` : `${what} must be a number`) })
+    .refine(Number.isFinite, `${what} must be finite`);
 
 /** One envelope row [duration_s, lower_g, upper_g]: outside [lower, upper] for less than duration_s at a time. */
 export const envelopeRowSchema = z.tuple([
@@ -22,7 +24,39 @@ export const envelopeRowSchema = z.tuple([
 ]);
 export type EnvelopeRow = z.infer<typeof envelopeRowSchema>;
 
-const envelopeAxisSchema = z.array(envelopeRowSchema).min(1, 'needs at least one row');
+// Row checks sit on each axis (not on the whole budget) so that they run, and are reported, even when
+// another part of the file is wrong: zod runs a refinement only on a value that parsed.
+const envelopeAxisSchema = (axis: EnvelopeAxis) =>
+  z
+    .array(envelopeRowSchema)
+    .min(1, 'needs at least one row')
+    .superRefine((rows, ctx) => {
+      const rest = REST_G[axis];
+      rows.forEach(([duration_s, lower_g, upper_g], i) => {
+        if (!(lower_g < upper_g)) {
+          ctx.addIssue({
+            code: 'custom',
+            path: [i],
+            message: `lower_g (${lower_g}) must be less than upper_g (${upper_g})`,
+          });
+        } else if (!(lower_g < rest && rest < upper_g)) {
+          // A rider sitting still must be inside every row, or every ride would fail at the load position.
+          ctx.addIssue({
+            code: 'custom',
+            path: [i],
+            message: `[${lower_g}, ${upper_g}] g must contain the at-rest value ${rest} g strictly`,
+          });
+        }
+        const prev = i > 0 ? rows[i - 1] : undefined;
+        if (prev && !(duration_s > prev[0])) {
+          ctx.addIssue({
+            code: 'custom',
+            path: [i, 0],
+            message: `rows must be sorted by strictly increasing duration_s (${duration_s} after ${prev[0]})`,
+          });
+        }
+      });
+    });
 
 const positive = (what: string) => finite(what).refine((v) => v > 0, `${what} must be greater than 0`);
 
@@ -38,46 +72,19 @@ export const comfortLimitsSchema = z.strictObject({
     .optional(),
 });
 
-export const budgetSchema = z
-  .strictObject({
-    name: z.string().trim().min(1).max(200).optional(),
-    version: z.union([z.string().trim().min(1).max(50), z.number().int().nonnegative()]).optional(),
-    /** Where the numbers come from (the venue's engineering, the applicable code); free text. */
-    source: z.string().max(2000).optional(),
-    strokeMargin_m: finite('strokeMargin_m').refine((v) => v >= 0, 'strokeMargin_m must not be negative'),
-    envelope: z.strictObject({ x: envelopeAxisSchema, y: envelopeAxisSchema, z: envelopeAxisSchema }),
-    comfort: comfortLimitsSchema,
-  })
-  .superRefine((b, ctx) => {
-    for (const axis of ENVELOPE_AXES) {
-      const rows = b.envelope[axis];
-      const rest = REST_G[axis];
-      rows.forEach(([duration_s, lower_g, upper_g], i) => {
-        if (!(lower_g < upper_g)) {
-          ctx.addIssue({
-            code: 'custom',
-            path: ['envelope', axis, i],
-            message: `lower_g (${lower_g}) must be less than upper_g (${upper_g})`,
-          });
-        } else if (!(lower_g < rest && rest < upper_g)) {
-          // A rider sitting still must be inside every row, or every ride would fail at the load position.
-          ctx.addIssue({
-            code: 'custom',
-            path: ['envelope', axis, i],
-            message: `[${lower_g}, ${upper_g}] g must contain the at-rest value ${rest} g strictly`,
-          });
-        }
-        const prev = i > 0 ? rows[i - 1] : undefined;
-        if (prev && !(duration_s > prev[0])) {
-          ctx.addIssue({
-            code: 'custom',
-            path: ['envelope', axis, i, 0],
-            message: `rows must be sorted by strictly increasing duration_s (${duration_s} after ${prev[0]})`,
-          });
-        }
-      });
-    }
-  });
+export const budgetSchema = z.strictObject({
+  name: z.string().trim().min(1).max(200).optional(),
+  version: z.union([z.string().trim().min(1).max(50), z.number().int().nonnegative()]).optional(),
+  /** Where the numbers come from (the venue's engineering, the applicable code); free text. */
+  source: z.string().max(2000).optional(),
+  strokeMargin_m: finite('strokeMargin_m').refine((v) => v >= 0, 'strokeMargin_m must not be negative'),
+  envelope: z.strictObject({
+    x: envelopeAxisSchema('x'),
+    y: envelopeAxisSchema('y'),
+    z: envelopeAxisSchema('z'),
+  }),
+  comfort: comfortLimitsSchema,
+});
 
 export type Budget = z.infer<typeof budgetSchema>;
 export type ComfortLimits = z.infer<typeof comfortLimitsSchema>;

@@ -80,15 +80,18 @@ describe('budget schema (motion-spec section 7 format)', () => {
     expect(p?.reason).toMatch(/at-rest value 1 g/);
   });
 
-  it('names a missing comfort limit, a misspelt key and a zero limit together', () => {
+  it('names a missing comfort limit, a misspelt key, a zero limit and a bad row together', () => {
     const text = demoText
       .replace('"jerkMax_mps3": 25,', '')
-      .replace('"wrmsMax_mps2": 0.8', '"wrmsMax_mps2": 0, "wrmsMax": 1');
+      .replace('"wrmsMax_mps2": 0.8', '"wrmsMax_mps2": 0, "wrmsMax": 1')
+      .replace(/\[0,\s*0\.2,\s*1\.8\]/, '[0, 1.8, 0.2]');
     const problems = problemsOf(text);
     const text2 = problems.map((p) => `${p.path}: ${p.reason}`).join('\n');
-    expect(text2).toMatch(/comfort\.jerkMax_mps3: jerkMax_mps3 must be a number/);
+    expect(text2).toMatch(/comfort\.jerkMax_mps3: jerkMax_mps3 is missing/);
     expect(text2).toMatch(/comfort\.wrmsMax_mps2: wrmsMax_mps2 must be greater than 0/);
     expect(text2).toMatch(/wrmsMax/);
+    // A broken envelope row is reported in the same pass as the comfort problems.
+    expect(text2).toMatch(/envelope\.z\[0\]: lower_g \(1\.8\) must be less than upper_g \(0\.2\)/);
   });
 
   it('reports a JSON syntax error with its line and column', () => {
