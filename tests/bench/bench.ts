@@ -191,4 +191,5 @@ async function main(): Promise<void> {
   );
 }
 
+for (const s of (await import('./process-bench')).default) registerSection(s);
 await main();
