@@ -187,6 +187,8 @@ export function rms(signal: Float64Array): number {
     const a = signal[i] as number;
     sum += a * a;
   }
+  // Scan for the culprit only when something is wrong, so the normal path pays nothing.
+  if (!Number.isFinite(sum)) assertSignal(signal, 1, 'r.m.s.');
   return Math.sqrt(sum / n);
 }
 
@@ -226,7 +228,7 @@ export function vomitingShare_percent(msdvZ_mps1_5: number): number {
 
 /** Crest factor: peak |a| over r.m.s. (dimensionless); 0 for a zero signal. */
 export function crestFactor(signal: Float64Array): number {
-  const r = rms(signal);
+  const r = rms(signal); // throws on a non-finite sample
   if (r === 0) return 0;
   let peak = 0;
   for (let i = 0; i < signal.length; i++) {

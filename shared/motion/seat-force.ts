@@ -108,9 +108,13 @@ export function platformMotion(pose: PoseOffsetTrack): PlatformMotion {
   const rate = pose.rate_hz;
   if (!(rate > 0) || !Number.isFinite(rate))
     throw new RangeError(`pose rate must be a positive number of Hz, got ${rate}`);
-  for (const key of ['y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const) {
-    if (pose[key].length !== n)
-      throw new RangeError(`pose column ${key} has ${pose[key].length} samples, x_m has ${n}`);
+  for (const key of ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const) {
+    const col = pose[key];
+    if (col.length !== n) throw new RangeError(`pose column ${key} has ${col.length} samples, x_m has ${n}`);
+    for (let i = 0; i < n; i++) {
+      if (!Number.isFinite(col[i]))
+        throw new RangeError(`pose column ${key}, sample ${i}: not a finite number`);
+    }
   }
   const rotation = new Float64Array(9 * n);
   const accel = new Float64Array(3 * n);
@@ -159,6 +163,9 @@ export function seatForceFromMotion(
   seat_m: readonly [number, number, number],
 ): SeatForce {
   const n = motion.length;
+  if (seat_m.length !== 3 || !seat_m.every(Number.isFinite)) {
+    throw new RangeError(`seat point must be three finite numbers in metres, got [${seat_m.join(', ')}]`);
+  }
   const fx = new Float64Array(n);
   const fy = new Float64Array(n);
   const fz = new Float64Array(n);

@@ -8,6 +8,9 @@
 // Simplification: the translational demand is taken in platform axes (R ~ I), not rotated by the
 // platform attitude as in Reid and Nahon's full form; with tilts of a few degrees the difference is a
 // cosine error of well under 2 % and it keeps a level vehicle at rest exactly at neutral.
+// Rotations are about the platform origin, as the pose offsets are; the rider reference point of the
+// profile is where the felt specific force is computed (diagnostics), so lever-arm effects of the
+// rotations show there rather than being cancelled by extra translation, which would spend stroke.
 // Integration is trapezoidal, which is the bilinear map of 1/s, so it matches the filters' discretisation.
 // Every filter starts in steady state at the first sample, so the platform starts at neutral even
 // when a track starts mid-motion.

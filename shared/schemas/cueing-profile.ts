@@ -122,7 +122,10 @@ const cueingProfileSchemaBase = z.strictObject({
   tilt: tiltSchema,
   /** Rotational high-pass per axis (x roll, y pitch, z yaw). */
   rotational: axesOf(rotationalHighPass),
-  /** Rider reference point in the platform frame, m: where the vehicle's specific force is cued. */
+  /**
+   * Rider reference point in the platform frame, m: where the vehicle track's specific force applies
+   * and where the cued result is reported as felt force. Rotations are about the platform origin.
+   */
   riderReference_m: point3,
   /** Soft limit on the pose offsets: the cued pose never leaves these bounds. */
   poseLimit: poseLimitSchema,

@@ -142,3 +142,13 @@ describe('seat specific force', () => {
     );
   });
 });
+
+describe('bad pose input', () => {
+  it('names a non-finite pose sample and a bad seat point', () => {
+    const p = track(100, 1, () => [0, 0, 0, 0, 0, 0]);
+    p.roll_rad[5] = Number.NaN;
+    expect(() => seatSpecificForce(p, [0, 0, 1])).toThrow(/roll_rad, sample 5/);
+    const q = track(100, 1, () => [0, 0, 0, 0, 0, 0]);
+    expect(() => seatSpecificForce(q, [0, Number.POSITIVE_INFINITY, 1])).toThrow(/seat point/);
+  });
+});

@@ -175,3 +175,12 @@ describe('dose values and statistics', () => {
     expect(Math.abs(wr / (0.512 / Math.SQRT2) - 1)).toBeLessThan(0.02);
   });
 });
+
+describe('bad signals', () => {
+  it('r.m.s. and crest factor name a non-finite sample instead of returning NaN', () => {
+    const x = new Float64Array(20).fill(1);
+    x[13] = Number.NaN;
+    expect(() => rms(x)).toThrow(/sample 13/);
+    expect(() => crestFactor(x)).toThrow(/sample 13/);
+  });
+});
