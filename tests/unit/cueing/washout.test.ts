@@ -246,3 +246,47 @@ describe('properties over random tracks', () => {
     );
   });
 });
+
+describe('step responses against closed forms', () => {
+  const rate = 1000;
+  const t0 = 1;
+
+  it('surge: the default third-order channel follows x(t) = a [e^(-b t) - e^(-w t)] / (w - b)^2 - a t e^(-w t) / (w - b)', () => {
+    // Inverse Laplace transform of a / ((s + w)^2 (s + b)): the third-order high-pass (zeta = 1)
+    // times 1/s^2 applied to a step a/s, by partial fractions.
+    const profile = defaultCueingProfile();
+    const hp = profile.translational.x;
+    if (hp.order !== 3 || hp.damping !== 1)
+      throw new Error('default surge high-pass changed; update this check');
+    const w = hp.naturalFrequency_radps;
+    const b = hp.breakFrequency_radps;
+    const a = profile.scale.surge * 1.0;
+    const r = cueClassical(vehicle(rate, 20, { column: 'fx_mps2', value: 1.0, from_s: t0 }), profile);
+    const closed = (t: number) =>
+      (a * (Math.exp(-b * t) - Math.exp(-w * t))) / (w - b) ** 2 - (a * t * Math.exp(-w * t)) / (w - b);
+    let peak = 0;
+    for (let t = 0; t < 19; t += 0.01) peak = Math.max(peak, Math.abs(closed(t)));
+    // Stays in the limiter's linear range, so the closed form applies throughout.
+    expect(peak).toBeLessThan(profile.poseLimit.knee * profile.poseLimit.x_m);
+    for (const t of [0.2, 0.5, 1, 2, 4, 8, 15]) {
+      const i = Math.round((t0 + t) * rate);
+      expect(Math.abs(r.pose.x_m[i]! - closed(t))).toBeLessThan(0.005 * peak);
+    }
+  });
+
+  it('yaw: the default second-order channel gives yaw(t) = W t e^(-w t)', () => {
+    // Inverse Laplace transform of W / (s + w)^2: second-order high-pass (zeta = 1) of a rate step, integrated once.
+    const profile = defaultCueingProfile();
+    const hp = profile.rotational.z;
+    if (hp.order !== 2 || hp.damping !== 1)
+      throw new Error('default yaw high-pass changed; update this check');
+    const w = hp.frequency_radps;
+    const W = profile.scale.yaw * 0.2;
+    const r = cueClassical(vehicle(rate, 15, { column: 'wz_radps', value: 0.2, from_s: t0 }), profile);
+    const peak = W / (w * Math.E);
+    for (const t of [0.3, 1, 2, 5, 10]) {
+      const i = Math.round((t0 + t) * rate);
+      expect(Math.abs(r.pose.yaw_rad[i]! - W * t * Math.exp(-w * t))).toBeLessThan(0.005 * peak);
+    }
+  });
+});
