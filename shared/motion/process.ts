@@ -391,7 +391,11 @@ function columnsCsv(header: string, time_s: Float64Array, cols: readonly Float64
   const row: string[] = new Array<string>(cols.length + 1);
   for (let i = 0; i < n; i++) {
     row[0] = (time_s[i] as number).toFixed(6);
-    for (let c = 0; c < cols.length; c++) row[c + 1] = ((cols[c] as Float64Array)[i] as number).toFixed(9);
+    for (let c = 0; c < cols.length; c++) {
+      const text = ((cols[c] as Float64Array)[i] as number).toFixed(9);
+      // A tiny negative value prints as "-0.000000000"; write it as plain zero.
+      row[c + 1] = text === '-0.000000000' ? '0.000000000' : text;
+    }
     lines[i + 1] = row.join(',');
   }
   return lines.join('\n') + '\n';

@@ -4,6 +4,7 @@ import { createHash } from 'node:crypto';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { rmSync } from 'node:fs';
 import { commands, main } from '../../../server/cli/legwork';
@@ -256,6 +257,33 @@ describe('legwork process', () => {
     const b = (orig[1500] as string).split(',').map(Number);
     a.forEach((v, k) => expect(Math.abs(v - (b[k] as number))).toBeLessThan(1e-6));
     expect(readFileSync(join(legsOut, 'report.txt'), 'utf8')).toMatch(/DEMO budget/);
+  });
+
+  it('processes a planar3 legs track (forward kinematics of the stage)', async () => {
+    const fixture = (name: string) => fileURLToPath(new URL(`../../fixtures/${name}`, import.meta.url));
+    const planarOut = join(dir, 'pkg-planar');
+    const r = await run(
+      'process',
+      '--base',
+      fixture('base-planar3.json'),
+      '--budget',
+      budgetPath,
+      '--in',
+      fixture('legs-planar3.csv'),
+      '--out',
+      planarOut,
+    );
+    expect(r.err).toBe('');
+    expect([0, 3, 4]).toContain(r.code);
+    expect(readFileSync(join(planarOut, 'pose.csv'), 'utf8').split('\n')[0]).toBe('time_s,x_m,y_m,yaw_rad');
+    const findings = checkResultSchema.parse(
+      JSON.parse(readFileSync(join(planarOut, 'findings.json'), 'utf8')),
+    );
+    expect(findings.uses.filter((u) => u.check === 'stroke').map((u) => u.subject)).toEqual([
+      'leg1',
+      'leg2',
+      'leg3',
+    ]);
   });
 
   it('exits 2 without --out', async () => {
