@@ -128,16 +128,41 @@ describe('planar3 assembly modes', () => {
     }
   });
 
+  it('returns both mirror-image modes of a stage whose base joints lie on the x axis', () => {
+    // Source: plane geometry. Base joints on the x axis and collinear platform joints P_i = s_i (cos a, sin a):
+    // reflecting the platform in the x axis keeps every leg length, and the reflected platform is the pose
+    // (x, -y, -yaw - 2a). So (x, y, yaw) and (x, -y, -yaw - 2a) are two known modes.
+    const a = 0.4;
+    const g = planar3Geometry({
+      baseJoints_m: [
+        [-1.8, 0],
+        [0.3, 0],
+        [2.1, 0],
+      ],
+      platformJoints_m: [-0.7, 0.1, 0.8].map((t) => [t * Math.cos(a), t * Math.sin(a)]),
+    });
+    const p = { x_m: 0.2, y_m: 1.1, yaw_rad: 0.3 };
+    const mirror = { x_m: 0.2, y_m: -1.1, yaw_rad: wrapAngle(-0.3 - 2 * a) };
+    const modes = planar3AssemblyModes(g, ...legsOf(g, p));
+    expect(modes.some((m) => poseDistance(m, p) < 1e-9)).toBe(true);
+    expect(modes.some((m) => poseDistance(m, mirror) < 1e-9)).toBe(true);
+    expect(modes.length).toBeLessThanOrEqual(4);
+  });
+
   it('finds every mode that an independent multi-start Newton search finds', () => {
     // Source: plain Newton from 300 random starts with mathjs lusolve and a numerical Jacobian (no elimination).
     const rng = makeRng(33);
+    let found = 0;
     for (let k = 0; k < 8; k++) {
       const g = randomGeometry(rng);
       const l = legsOf(g, randomPose(rng));
       const ours = planar3AssemblyModes(g, ...l);
       const theirs = multiStartModes(g, l, rng, 300);
+      found += theirs.length;
       for (const m of theirs) expect(ours.some((o) => poseDistance(o, m) < 1e-6)).toBe(true);
     }
+    // The independent search must find something, or the comparison proves nothing.
+    expect(found).toBeGreaterThanOrEqual(16);
   });
 });
 
