@@ -22,10 +22,13 @@ export function useAcceptInvitation() {
   return useMutation({
     mutationKey: ['auth', 'accept-invitation'],
     mutationFn: acceptInvitation,
-    onSuccess: (me, input) => {
-      queryClient.removeQueries({ predicate: (query) => query.queryKey[0] !== 'dev' });
+    onSuccess: (me) => {
+      // The accepted invitation stays cached while its page is still mounted; fetching it again would
+      // only answer 410 Gone. Everything else belonged to the previous session.
+      queryClient.removeQueries({
+        predicate: (query) => !['dev', 'invitation'].includes(String(query.queryKey[0])),
+      });
       queryClient.setQueryData(meQueryKey, me);
-      queryClient.removeQueries({ queryKey: ['invitation', input.token] });
     },
   });
 }

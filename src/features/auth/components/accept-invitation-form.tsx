@@ -72,7 +72,7 @@ export function AcceptInvitationForm({
         <dt className="text-ink-600">Studio</dt>
         <dd className="font-medium text-ink-900">{studioName}</dd>
         <dt className="text-ink-600">E-mail</dt>
-        <dd className="font-mono text-ink-900">{email}</dd>
+        <dd className="font-mono break-all text-ink-900">{email}</dd>
         <dt className="text-ink-600">Roles</dt>
         <dd className="text-ink-900">{roles.map((role) => ROLE_LABELS[role]).join(', ')}</dd>
       </dl>
