@@ -64,13 +64,20 @@ export async function readTrackFile(
   } catch (e) {
     throw describeFsError(path, e);
   }
-  let stream: Readable = createReadStream(path);
-  if (path.endsWith('.gz')) stream = stream.pipe(createGunzip());
+  const source = createReadStream(path);
+  let stream: Readable = source;
+  if (path.endsWith('.gz')) {
+    const gunzip = createGunzip();
+    // pipe() does not pass read errors on, so forward them to the stream being consumed.
+    source.once('error', (e) => gunzip.destroy(e));
+    stream = source.pipe(gunzip);
+  }
   stream.setEncoding('utf8');
   try {
     for await (const chunk of stream) reader.push(chunk as string);
   } catch (e) {
     stream.destroy();
+    source.destroy();
     if (e instanceof TrackFileError) throw e;
     throw describeFsError(path, e);
   }
