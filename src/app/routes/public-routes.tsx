@@ -59,9 +59,14 @@ export function ResetPasswordRoute() {
           }
         />
       )}
-      <Link to="/sign-in" className="text-xs text-tealdeep-600 underline">
-        Back to sign-in
-      </Link>
+      <p className="flex gap-4 text-xs">
+        <Link to="/sign-in" className="text-tealdeep-600 underline">
+          Back to sign-in
+        </Link>
+        <Link to="/forgot-password" className="text-tealdeep-600 underline">
+          Request a new link
+        </Link>
+      </p>
     </PublicLayout>
   );
 }

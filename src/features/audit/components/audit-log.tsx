@@ -44,7 +44,10 @@ export function AuditLog({ studioId }: { studioId: string }) {
               <Td className="text-xs">
                 {event.subjectType}
                 {event.subjectId ? (
-                  <span className="ml-1 font-mono text-ink-400">{event.subjectId}</span>
+                  // The first eight characters tell rows apart; the whole id is one hover away.
+                  <span title={event.subjectId} className="ml-1 font-mono text-ink-400">
+                    {event.subjectId.slice(0, 8)}
+                  </span>
                 ) : null}
               </Td>
               <Td className="text-xs break-all text-ink-600">{detailText(event.detail)}</Td>
