@@ -102,12 +102,13 @@ function secondDerivative(
     r2;
 }
 
-/** Rotation, origin acceleration (m/s^2), angular velocity (rad/s) and angular acceleration (rad/s^2), base frame, from a pose track. */
-export function platformMotion(pose: PoseOffsetTrack): PlatformMotion {
+/** Validates a pose track and returns its length; throws naming the column and sample at fault. */
+function checkPose(pose: PoseOffsetTrack): number {
   const n = pose.x_m.length;
   const rate = pose.rate_hz;
-  if (!(rate > 0) || !Number.isFinite(rate))
+  if (!(rate > 0) || !Number.isFinite(rate)) {
     throw new RangeError(`pose rate must be a positive number of Hz, got ${rate}`);
+  }
   for (const key of ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const) {
     const col = pose[key];
     if (col.length !== n) throw new RangeError(`pose column ${key} has ${col.length} samples, x_m has ${n}`);
@@ -116,6 +117,19 @@ export function platformMotion(pose: PoseOffsetTrack): PlatformMotion {
         throw new RangeError(`pose column ${key}, sample ${i}: not a finite number`);
     }
   }
+  return n;
+}
+
+function checkSeat(seat_m: readonly number[]): void {
+  if (seat_m.length !== 3 || !seat_m.every(Number.isFinite)) {
+    throw new RangeError(`seat point must be three finite numbers in metres, got [${seat_m.join(', ')}]`);
+  }
+}
+
+/** Rotation, origin acceleration (m/s^2), angular velocity (rad/s) and angular acceleration (rad/s^2), base frame, from a pose track. */
+export function platformMotion(pose: PoseOffsetTrack): PlatformMotion {
+  const n = checkPose(pose);
+  const rate = pose.rate_hz;
   const rotation = new Float64Array(9 * n);
   const accel = new Float64Array(3 * n);
   const omega = new Float64Array(3 * n);
@@ -163,9 +177,7 @@ export function seatForceFromMotion(
   seat_m: readonly [number, number, number],
 ): SeatForce {
   const n = motion.length;
-  if (seat_m.length !== 3 || !seat_m.every(Number.isFinite)) {
-    throw new RangeError(`seat point must be three finite numbers in metres, got [${seat_m.join(', ')}]`);
-  }
+  checkSeat(seat_m);
   const fx = new Float64Array(n);
   const fy = new Float64Array(n);
   const fz = new Float64Array(n);
@@ -210,10 +222,93 @@ export function seatForceFromMotion(
   return { x: fx, y: fy, z: fz };
 }
 
-/** Specific force (m/s^2, platform axes) at one seat point seat_m (platform frame, m) along a pose track. */
+/** d/dt of a[i] on the uniform grid: the same differences as firstDerivative, one sample at a time. */
+function d1At(a: Float64Array, i: number, n: number, halfRate: number): number {
+  if (n < 2) return 0;
+  if (n === 2) return ((a[1] as number) - (a[0] as number)) * 2 * halfRate;
+  if (i === 0) return (-3 * (a[0] as number) + 4 * (a[1] as number) - (a[2] as number)) * halfRate;
+  if (i === n - 1)
+    return (3 * (a[n - 1] as number) - 4 * (a[n - 2] as number) + (a[n - 3] as number)) * halfRate;
+  return ((a[i + 1] as number) - (a[i - 1] as number)) * halfRate;
+}
+
+/** d^2/dt^2 of a[i] on the uniform grid: the same differences as secondDerivative, one sample at a time. */
+function d2At(a: Float64Array, i: number, n: number, r2: number): number {
+  if (n < 3) return 0;
+  if (n === 3 || (i > 0 && i < n - 1)) {
+    const k = i === 0 ? 1 : i === n - 1 ? n - 2 : i;
+    return ((a[k + 1] as number) - 2 * (a[k] as number) + (a[k - 1] as number)) * r2;
+  }
+  if (i === 0) {
+    return (2 * (a[0] as number) - 5 * (a[1] as number) + 4 * (a[2] as number) - (a[3] as number)) * r2;
+  }
+  return (
+    (2 * (a[n - 1] as number) - 5 * (a[n - 2] as number) + 4 * (a[n - 3] as number) - (a[n - 4] as number)) *
+    r2
+  );
+}
+
+/**
+ * Specific force (m/s^2, platform axes) at one seat point seat_m (platform frame, m) along a pose track.
+ * The same differences and formula as platformMotion + seatForceFromMotion, fused per sample so a long
+ * track allocates only the three output arrays; for several seats use those two instead.
+ */
 export function seatSpecificForce(
   pose: PoseOffsetTrack,
   seat_m: readonly [number, number, number],
 ): SeatForce {
-  return seatForceFromMotion(platformMotion(pose), seat_m);
+  const n = checkPose(pose);
+  checkSeat(seat_m);
+  const rate = pose.rate_hz;
+  const h = 0.5 * rate;
+  const r2 = rate * rate;
+  const [rx, ry, rz] = seat_m;
+  const { x_m, y_m, z_m, roll_rad, pitch_rad, yaw_rad } = pose;
+  const fx = new Float64Array(n);
+  const fy = new Float64Array(n);
+  const fz = new Float64Array(n);
+  const R = new Float64Array(9);
+  for (let i = 0; i < n; i++) {
+    const pitch = pitch_rad[i] as number;
+    const yaw = yaw_rad[i] as number;
+    rotationInto(roll_rad[i] as number, pitch, yaw, R, 0);
+    const cp = Math.cos(pitch);
+    const sp = Math.sin(pitch);
+    const cy = Math.cos(yaw);
+    const sy = Math.sin(yaw);
+    const dr = d1At(roll_rad, i, n, h);
+    const dp = d1At(pitch_rad, i, n, h);
+    const dy = d1At(yaw_rad, i, n, h);
+    const ddr = d2At(roll_rad, i, n, r2);
+    const ddp = d2At(pitch_rad, i, n, r2);
+    const ddy = d2At(yaw_rad, i, n, r2);
+    const wx = cy * cp * dr - sy * dp;
+    const wy = sy * cp * dr + cy * dp;
+    const wz = -sp * dr + dy;
+    const ax = (-sy * cp * dy - cy * sp * dp) * dr - cy * dy * dp + cy * cp * ddr - sy * ddp;
+    const ay = (cy * cp * dy - sy * sp * dp) * dr - sy * dy * dp + sy * cp * ddr + cy * ddp;
+    const az = -cp * dp * dr - sp * ddr + ddy;
+    const r00 = R[0] as number;
+    const r01 = R[1] as number;
+    const r02 = R[2] as number;
+    const r10 = R[3] as number;
+    const r11 = R[4] as number;
+    const r12 = R[5] as number;
+    const r20 = R[6] as number;
+    const r21 = R[7] as number;
+    const r22 = R[8] as number;
+    const px = r00 * rx + r01 * ry + r02 * rz;
+    const py = r10 * rx + r11 * ry + r12 * rz;
+    const pz = r20 * rx + r21 * ry + r22 * rz;
+    const cx = wy * pz - wz * py;
+    const cyy = wz * px - wx * pz;
+    const cz = wx * py - wy * px;
+    const bx = d2At(x_m, i, n, r2) + (ay * pz - az * py) + (wy * cz - wz * cyy);
+    const by = d2At(y_m, i, n, r2) + (az * px - ax * pz) + (wz * cx - wx * cz);
+    const bz = d2At(z_m, i, n, r2) + (ax * py - ay * px) + (wx * cyy - wy * cx) + G0;
+    fx[i] = r00 * bx + r10 * by + r20 * bz;
+    fy[i] = r01 * bx + r11 * by + r21 * bz;
+    fz[i] = r02 * bx + r12 * by + r22 * bz;
+  }
+  return { x: fx, y: fy, z: fz };
 }

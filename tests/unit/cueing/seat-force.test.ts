@@ -1,7 +1,7 @@
 import { Euler, Matrix4, Vector3 } from 'three';
 import { describe, expect, it } from 'vitest';
 import type { PoseOffsetTrack } from '../../../shared/motion/seat-force';
-import { platformMotion, seatSpecificForce } from '../../../shared/motion/seat-force';
+import { platformMotion, seatForceFromMotion, seatSpecificForce } from '../../../shared/motion/seat-force';
 import { G0_MPS2 } from '../../../shared/motion/units';
 
 type PoseFn = (t: number) => [number, number, number, number, number, number];
@@ -150,5 +150,29 @@ describe('bad pose input', () => {
     expect(() => seatSpecificForce(p, [0, 0, 1])).toThrow(/roll_rad, sample 5/);
     const q = track(100, 1, () => [0, 0, 0, 0, 0, 0]);
     expect(() => seatSpecificForce(q, [0, Number.POSITIVE_INFINITY, 1])).toThrow(/seat point/);
+  });
+});
+
+describe('the per-seat and the shared-motion paths', () => {
+  it.each([1, 2, 3, 4, 5, 400])('agree on a %i-sample track', (n) => {
+    // Same formula two ways: fused per sample, and via the stored platform motion used for many seats.
+    const fn: PoseFn = (t) => [
+      0.1 * Math.sin(1.3 * t),
+      0.05 * Math.cos(0.7 * t),
+      0.04 * Math.sin(2.1 * t),
+      0.08 * Math.sin(0.9 * t),
+      0.1 * Math.sin(1.1 * t + 0.4),
+      0.15 * Math.sin(0.5 * t),
+    ];
+    const p = track(100, (n - 1) / 100, fn);
+    expect(p.x_m.length).toBe(n);
+    const seat: [number, number, number] = [0.6, -0.4, 1.1];
+    const a = seatSpecificForce(p, seat);
+    const b = seatForceFromMotion(platformMotion(p), seat);
+    for (let i = 0; i < n; i++) {
+      expect(a.x[i]).toBeCloseTo(b.x[i]!, 9);
+      expect(a.y[i]).toBeCloseTo(b.y[i]!, 9);
+      expect(a.z[i]).toBeCloseTo(b.z[i]!, 9);
+    }
   });
 });
