@@ -107,7 +107,7 @@ describe('seat specific force', () => {
   });
 
   it('matches the seat trajectory differentiated directly, for combined translation and rotation', () => {
-    // Second route: double-differentiated seat position with three.js rotations (see helper).
+    // Second route: double-differentiated seat position with three.js rotations (seatForceByTrajectory).
     const fn: PoseFn = (t) => [
       0.1 * Math.sin(1.3 * t),
       0.05 * Math.cos(0.7 * t),
