@@ -5,9 +5,11 @@
 //   scaled angular velocity -> high-pass -> Euler rates -> integration, plus tilt -> angles
 // and a final soft limit keeps every pose offset inside the profile's poseLimit.
 //
-// Simplification: the translational demand is taken in platform axes (R ~ I), not rotated by the
-// platform attitude as in Reid and Nahon's full form; with tilts of a few degrees the difference is a
-// cosine error of well under 2 % and it keeps a level vehicle at rest exactly at neutral.
+// Simplification: the translational demand is the scaled specific force minus gravity in vehicle
+// axes, not rotated by the platform attitude as in Reid and Nahon's full form (where the tilt's own
+// gravity component also feeds the translational channel and cancels part of the low-frequency
+// demand). The high-pass removes the sustained part either way; this form keeps the channels
+// independent and a level vehicle at rest exactly at neutral.
 // Rotations are about the platform origin, as the pose offsets are; the rider reference point of the
 // profile is where the felt specific force is computed (diagnostics), so lever-arm effects of the
 // rotations show there rather than being cancelled by extra translation, which would spend stroke.
