@@ -37,7 +37,7 @@ const child = spawn(tsx, [join(root, 'server', 'local', 'run.ts'), mode, ...proc
   // in package-lock.json are pinned, so the notice says nothing about this install.
   env: { AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true', ...process.env },
 });
-// Ctrl-C reaches the child through the process group; forward other stops explicitly.
-for (const sig of ['SIGTERM', 'SIGHUP']) process.on(sig, () => child.kill(sig));
-process.on('SIGINT', () => {});
+// Forward stops to the child (it ignores a repeated signal, so Ctrl-C reaching the whole process
+// group as well does no harm) and wait for it to clean up.
+for (const sig of ['SIGINT', 'SIGTERM', 'SIGHUP']) process.on(sig, () => child.kill(sig));
 child.on('exit', (code, signal) => process.exit(code ?? (signal ? 1 : 0)));

@@ -47,8 +47,9 @@ const cleanups: (() => Promise<void> | void)[] = [];
 let shuttingDown = false;
 
 async function shutdown(code: number): Promise<never> {
-  if (shuttingDown) process.exit(code);
+  if (shuttingDown) return new Promise<never>(() => undefined);
   shuttingDown = true;
+  log('stopping ...');
   for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
   await Promise.all(
     children.map(

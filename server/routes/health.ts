@@ -2,12 +2,22 @@ import { Router } from 'express';
 import { sql } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
 
+const CHECK_TIMEOUT_MS = 3000;
+
 const state = async (f: () => Promise<unknown>): Promise<string> => {
+  let timer: NodeJS.Timeout | undefined;
   try {
-    await f();
+    await Promise.race([
+      f(),
+      new Promise((_, reject) => {
+        timer = setTimeout(() => reject(new Error(`no answer within ${CHECK_TIMEOUT_MS} ms`)), CHECK_TIMEOUT_MS);
+      }),
+    ]);
     return 'ok';
   } catch (e) {
     return (e as Error).message || 'unreachable';
+  } finally {
+    clearTimeout(timer);
   }
 };
 

@@ -42,7 +42,7 @@ describe('npm start', () => {
     });
     child.stdout!.on('data', (d: Buffer) => (output += d.toString()));
     child.stderr!.on('data', (d: Buffer) => (output += d.toString()));
-    await waitFor(async () => (await fetch(`${url}/api/health`)).ok, '/api/health', 150_000);
+    await waitFor(async () => (await fetch(`${url}/api/health`, { signal: AbortSignal.timeout(5000) })).ok, '/api/health', 150_000);
     await waitFor(async () => output.includes('Demo sign-ins'), 'the welcome text', 10_000);
     expect(output).toContain(`Legwork is running at ${url}`);
 

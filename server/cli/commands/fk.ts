@@ -8,8 +8,10 @@ import type { CliIo } from '../io';
 import { CAUTION, CliInputError, readMotionBaseFile, readTrackFile, strokeWarnings, writeCsv } from '../io';
 import { parseBaseInOut } from './ik';
 
+/** One line for `legwork --help`. */
 export const summary = 'pose offsets from a leg-length track (forward kinematics, continuity from neutral)';
 
+/** `legwork fk --help`, with the caution. */
 export const help = `Usage: legwork fk --base BASE.json --in LEGS.csv[.gz] [--out POSE.csv]
 
 Forward kinematics: reads a motion base (hexapod or planar3) and a leg-length track
@@ -30,6 +32,7 @@ Exit codes: 0 done, 2 bad input or usage.
 ${CAUTION}
 `;
 
+/** Turns a leg-length track into pose offsets (m, rad) at the same times; resolves to the exit code, throws CliInputError on bad input. */
 export async function run(argv: string[], io: CliIo): Promise<number> {
   const args = parseBaseInOut(argv);
   if (args.help) {

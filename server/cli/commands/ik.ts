@@ -7,8 +7,10 @@ import { trackColumn, trackColumnNames } from '../../../shared/motion/track-read
 import type { CliIo } from '../io';
 import { CAUTION, CliInputError, readMotionBaseFile, readTrackFile, strokeWarnings, writeCsv } from '../io';
 
+/** One line for `legwork --help`. */
 export const summary = 'leg lengths at the input times of a pose track (inverse kinematics)';
 
+/** `legwork ik --help`, with the caution. */
 export const help = `Usage: legwork ik --base BASE.json --in POSE.csv[.gz] [--out LEGS.csv]
 
 Inverse kinematics: reads a motion base (hexapod or planar3) and a pose track (offsets from
@@ -56,6 +58,7 @@ export function parseBaseInOut(argv: string[]): {
   return { base: values.base, input: values.in, out: values.out, help: false };
 }
 
+/** Turns a pose track into leg lengths (m) at the same times; resolves to the exit code, throws CliInputError on bad input. */
 export async function run(argv: string[], io: CliIo): Promise<number> {
   const args = parseBaseInOut(argv);
   if (args.help) {
