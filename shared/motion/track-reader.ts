@@ -81,7 +81,9 @@ export interface TrackReaderOptions {
   maxBytes?: number;
 }
 
+/** Default most data rows of a track file (33 min at 1 kHz). */
 export const DEFAULT_MAX_ROWS = 2_000_000;
+/** Default most characters of a track file's text, 256 MiB. */
 export const DEFAULT_MAX_BYTES = 256 * 1024 * 1024;
 
 type Quantity = 'time' | 'length' | 'angle' | 'accel' | 'rate';
