@@ -7,6 +7,7 @@
 // a section every field is required, and unknown keys are errors so a misspelt field is never ignored.
 
 import { z } from 'zod';
+import { formatJsonPath, lineColumn, scanJson } from './budget';
 
 /** The profile format version this code reads and writes. */
 export const CUEING_PROFILE_VERSION = 1;
@@ -160,28 +161,24 @@ export interface ProfileIssue {
 export type ProfileParseResult = { ok: true; profile: CueingProfile } | { ok: false; issues: ProfileIssue[] };
 
 function pathString(path: readonly PropertyKey[]): string {
-  let s = '';
-  for (const key of path) {
-    if (typeof key === 'number') s += `[${key}]`;
-    else s += s === '' ? String(key) : `.${String(key)}`;
-  }
-  return s === '' ? '(profile)' : s;
+  return path.length === 0 ? '(profile)' : formatJsonPath(path);
+}
+
+function toIssue(i: z.core.$ZodIssue): ProfileIssue {
+  return {
+    path: pathString(i.path),
+    message:
+      i.code === 'invalid_type' && /received undefined$/.test(i.message)
+        ? 'required field is missing'
+        : i.message,
+  };
 }
 
 /** Validates an already parsed value as a cueing profile; every bad field is named by its path. */
 export function parseCueingProfile(input: unknown): ProfileParseResult {
   const r = cueingProfileSchema.safeParse(input);
   if (r.success) return { ok: true, profile: r.data };
-  return {
-    ok: false,
-    issues: r.error.issues.map((i) => ({
-      path: pathString(i.path),
-      message:
-        i.code === 'invalid_type' && /received undefined$/.test(i.message)
-          ? 'required field is missing'
-          : i.message,
-    })),
-  };
+  return { ok: false, issues: r.error.issues.map(toIssue) };
 }
 
 /** The default profile as a validated object (a fresh copy each call). */
@@ -191,104 +188,28 @@ export function defaultCueingProfile(): CueingProfile {
   return r.profile;
 }
 
-/** 1-based line and column of a character offset in text. */
-function lineColumn(text: string, offset: number): { line: number; column: number } {
-  let line = 1;
-  let start = 0;
-  for (let i = 0; i < offset && i < text.length; i++) {
-    if (text.charCodeAt(i) === 10) {
-      line++;
-      start = i + 1;
-    }
-  }
-  return { line, column: offset - start + 1 };
-}
-
-/**
- * Offsets of every value in JSON text by path (the same dotted form as ProfileIssue.path). A small
- * scanner, run only after JSON.parse has accepted the text, so it can assume well-formed input.
- */
-function valueOffsets(text: string): Map<string, number> {
-  const out = new Map<string, number>();
-  let i = 0;
-  const ws = () => {
-    while (i < text.length && /\s/.test(text[i] as string)) i++;
-  };
-  const str = (): string => {
-    const start = i;
-    i++;
-    while (i < text.length && text[i] !== '"') i += text[i] === '\\' ? 2 : 1;
-    i++;
-    return JSON.parse(text.slice(start, i)) as string;
-  };
-  const value = (path: PropertyKey[]): void => {
-    ws();
-    out.set(pathString(path), i);
-    const ch = text[i];
-    if (ch === '{') {
-      i++;
-      ws();
-      if (text[i] === '}') {
-        i++;
-        return;
-      }
-      for (;;) {
-        ws();
-        const key = str();
-        ws();
-        i++; // ':'
-        value([...path, key]);
-        ws();
-        if (text[i++] === '}') return;
-      }
-    } else if (ch === '[') {
-      i++;
-      ws();
-      if (text[i] === ']') {
-        i++;
-        return;
-      }
-      for (let k = 0; ; k++) {
-        value([...path, k]);
-        ws();
-        if (text[i++] === ']') return;
-      }
-    } else if (ch === '"') {
-      str();
-    } else {
-      while (i < text.length && /[^\s,\]}]/.test(text[i] as string)) i++;
-    }
-  };
-  value([]);
-  return out;
-}
-
 /** Parses a profile from JSON text; syntax errors and bad fields come back with line and column. */
 export function parseCueingProfileJson(text: string): ProfileParseResult {
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (e) {
-    const message = e instanceof Error ? e.message : String(e);
-    const m = /position (\d+)/.exec(message);
-    const at = m ? lineColumn(text, Number(m[1])) : undefined;
-    return { ok: false, issues: [{ path: '(profile)', message: `not valid JSON: ${message}`, ...at }] };
+  const scan = scanJson(text);
+  if (!scan.ok) {
+    return {
+      ok: false,
+      issues: [
+        { path: '(profile)', message: `not valid JSON: ${scan.reason}`, ...lineColumn(text, scan.offset) },
+      ],
+    };
   }
-  const r = parseCueingProfile(value);
-  if (r.ok) return r;
-  const offsets = valueOffsets(text);
+  const r = cueingProfileSchema.safeParse(JSON.parse(text));
+  if (r.success) return { ok: true, profile: r.data };
   return {
     ok: false,
-    issues: r.issues.map((issue) => {
-      // A missing key has no offset of its own: point at the nearest enclosing value that exists.
-      let p = issue.path;
-      let off = offsets.get(p);
-      while (off === undefined && p !== '(profile)') {
-        const cut = Math.max(p.lastIndexOf('.'), p.lastIndexOf('['));
-        p = cut > 0 ? p.slice(0, cut) : '(profile)';
-        off = offsets.get(p);
+    issues: r.error.issues.map((i) => {
+      // A missing key has no position of its own: point at the nearest enclosing value in the file.
+      let at: number | undefined;
+      for (let k = i.path.length; k >= 0 && at === undefined; k--) {
+        at = scan.positions.get(i.path.slice(0, k).map(String).join('/'));
       }
-      return off === undefined ? issue : { ...issue, ...lineColumn(text, off) };
+      return at === undefined ? toIssue(i) : { ...toIssue(i), ...lineColumn(text, at) };
     }),
   };
 }
