@@ -92,3 +92,27 @@ describe('ISO 2631-1 weighting factors through seat force, weighting and r.m.s. 
     expect(crestFactor(weighted)).toBeCloseTo(Math.SQRT2, 2); // crest factor of a sine (textbook)
   });
 });
+
+describe('worst seat', () => {
+  it('takes the seat that feels the most: a roll gives vertical acceleration only off the roll axis', () => {
+    // Roll phi = P sin(wt) about x: a seat at lateral offset y feels alpha x r, a vertical
+    // acceleration of amplitude P w^2 y (rigid-body kinematics); a seat on the axis feels almost none.
+    const rate = 100;
+    const f = 2;
+    const w = 2 * Math.PI * f;
+    const P = 0.02;
+    const track = makePoseTrackFrom(rate, 30, (t) => [0, 0, 0, P * Math.sin(w * t), 0, 0]);
+    const base = makeHexapodBase({
+      controllerRate_hz: rate,
+      seats_m: [
+        [0, 0, 0.9],
+        [0, 0.6, 0.9],
+      ],
+    });
+    const c = processTrack({ track, base, chartBuckets: 0 }).check.comfort;
+    expect(c?.wrmsSeat.z).toBe('seat2');
+    // Wk(2 Hz) = 0.531, ISO 2631-1 table, from memory; 3 % covers the small centripetal and gravity terms.
+    const expected = (0.531 * P * w * w * 0.6) / Math.SQRT2;
+    expect(Math.abs((c?.wrms_mps2.z ?? NaN) / expected - 1)).toBeLessThan(0.03);
+  });
+});
