@@ -32,18 +32,18 @@ function navFor(membership: Membership): NavItem[] {
   return items;
 }
 
-function Account({ me }: { me: Me }) {
+function Account({ me, onDark = true }: { me: Me; onDark?: boolean }) {
   const logout = useLogout();
   const navigate = useNavigate();
   return (
     <div className="flex items-center gap-3 text-sm">
-      <span className="text-ink-100" title={me.user.email}>
+      <span className={onDark ? 'text-ink-100' : 'text-ink-800'} title={me.user.email}>
         {me.user.name}
       </span>
       {logout.error ? <span className="text-xs text-signal-400">{logout.error.message}</span> : null}
       <Button
         size="sm"
-        variant="onDark"
+        variant={onDark ? 'onDark' : 'secondary'}
         busy={logout.isPending}
         onClick={() =>
           logout.mutate(undefined, { onSuccess: () => void navigate('/sign-in', { replace: true }) })
@@ -124,6 +124,7 @@ export function RootRedirect() {
           You are signed in as {me.data.user.email} but belong to no studio. Ask a studio admin for an
           invitation.
         </p>
+        <Account me={me.data} onDark={false} />
       </PublicLayout>
     );
   }
