@@ -5,6 +5,7 @@ import { createReadStream, createWriteStream } from 'node:fs';
 import { readFile, stat } from 'node:fs/promises';
 import { once } from 'node:events';
 import { createGunzip } from 'node:zlib';
+import { parseArgs } from 'node:util';
 import type { Readable } from 'node:stream';
 import { TrackFileError, TrackReader } from '../../shared/motion/track-reader';
 import type { Track, TrackReaderOptions } from '../../shared/motion/track-reader';
@@ -308,4 +309,33 @@ export function strokeWarnings(
     }
   }
   return out;
+}
+
+/** Parses the shared `--base --in [--out]` options; throws CliInputError on any misuse. */
+export function parseBaseInOut(argv: string[]): {
+  base: string;
+  input: string;
+  out: string | undefined;
+  help: boolean;
+} {
+  let values: { base?: string; in?: string; out?: string; help?: boolean };
+  try {
+    values = parseArgs({
+      args: argv,
+      options: {
+        base: { type: 'string' },
+        in: { type: 'string' },
+        out: { type: 'string' },
+        help: { type: 'boolean', short: 'h' },
+      },
+      strict: true,
+      allowPositionals: false,
+    }).values;
+  } catch (e) {
+    throw new CliInputError((e as Error).message);
+  }
+  if (values.help) return { base: '', input: '', out: undefined, help: true };
+  if (!values.base) throw new CliInputError('missing --base FILE');
+  if (!values.in) throw new CliInputError('missing --in FILE');
+  return { base: values.base, input: values.in, out: values.out, help: false };
 }

@@ -117,6 +117,7 @@ function strokeIssues(
   leg: HexapodBase['leg'],
   neutral: Float64Array,
   count: number,
+  neutralPath: string,
   issues: MotionBaseIssue[],
 ): void {
   if (leg.min_m >= leg.max_m) {
@@ -130,7 +131,7 @@ function strokeIssues(
     const l = neutral[i] as number;
     if (!(l >= leg.min_m && l <= leg.max_m)) {
       issues.push({
-        path: 'neutralHeight_m',
+        path: neutralPath,
         message: `leg ${i + 1} is ${fmt(l)} m long at the neutral pose, outside the stroke [${fmt(leg.min_m)}, ${fmt(leg.max_m)}] m`,
       });
     }
@@ -144,7 +145,7 @@ function checkHexapod(b: HexapodBase): MotionBaseIssue[] {
   const g = hexapodGeometry(b);
   const neutral = new Float64Array(6);
   hexapodLegLengthsInto(g, 0, 0, 0, 0, 0, 0, neutral);
-  strokeIssues(b.leg, neutral, 6, issues);
+  strokeIssues(b.leg, neutral, 6, 'neutralHeight_m', issues);
   if (issues.length === 0) {
     const J = new Float64Array(36);
     hexapodJacobianInto(g, 0, 0, 0, 0, 0, 0, J);
@@ -166,13 +167,8 @@ function checkPlanar3(b: Planar3Base): MotionBaseIssue[] {
   const g = planar3Geometry(b);
   const neutral = new Float64Array(3);
   planar3LegLengthsInto(g, 0, 0, 0, neutral);
-  const before = issues.length;
-  strokeIssues(b.leg, neutral, 3, issues);
   // A planar stage has no neutral height: a neutral stroke problem is in the joints.
-  for (let i = before; i < issues.length; i++) {
-    const issue = issues[i];
-    if (issue && issue.path === 'neutralHeight_m') issue.path = 'platformJoints_m';
-  }
+  strokeIssues(b.leg, neutral, 3, 'platformJoints_m', issues);
   if (issues.length === 0) {
     const J = new Float64Array(9);
     planar3JacobianInto(g, 0, 0, 0, J);

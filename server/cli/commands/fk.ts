@@ -5,8 +5,15 @@ import { hexapodForward, hexapodGeometry } from '../../../shared/motion/hexapod'
 import { planar3Forward, planar3Geometry } from '../../../shared/motion/planar3';
 import { trackColumnNames } from '../../../shared/motion/track-reader';
 import type { CliIo } from '../io';
-import { CAUTION, CliInputError, readMotionBaseFile, readTrackFile, strokeWarnings, writeCsv } from '../io';
-import { parseBaseInOut } from './ik';
+import {
+  CAUTION,
+  CliInputError,
+  parseBaseInOut,
+  readMotionBaseFile,
+  readTrackFile,
+  strokeWarnings,
+  writeCsv,
+} from '../io';
 
 /** One line for `legwork --help`. */
 export const summary = 'pose offsets from a leg-length track (forward kinematics, continuity from neutral)';

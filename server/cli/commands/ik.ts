@@ -1,11 +1,18 @@
 // `legwork ik`: leg lengths at the input times of a pose track, for a hexapod or a planar3 base.
 
-import { parseArgs } from 'node:util';
 import { hexapodGeometry, hexapodInverse } from '../../../shared/motion/hexapod';
 import { planar3Geometry, planar3Inverse } from '../../../shared/motion/planar3';
 import { trackColumn, trackColumnNames } from '../../../shared/motion/track-reader';
 import type { CliIo } from '../io';
-import { CAUTION, CliInputError, readMotionBaseFile, readTrackFile, strokeWarnings, writeCsv } from '../io';
+import {
+  CAUTION,
+  CliInputError,
+  parseBaseInOut,
+  readMotionBaseFile,
+  readTrackFile,
+  strokeWarnings,
+  writeCsv,
+} from '../io';
 
 /** One line for `legwork --help`. */
 export const summary = 'leg lengths at the input times of a pose track (inverse kinematics)';
@@ -28,35 +35,6 @@ Exit codes: 0 done, 2 bad input or usage.
 
 ${CAUTION}
 `;
-
-/** Parses the shared `--base --in [--out]` options; throws CliInputError on any misuse. */
-export function parseBaseInOut(argv: string[]): {
-  base: string;
-  input: string;
-  out: string | undefined;
-  help: boolean;
-} {
-  let values: { base?: string; in?: string; out?: string; help?: boolean };
-  try {
-    values = parseArgs({
-      args: argv,
-      options: {
-        base: { type: 'string' },
-        in: { type: 'string' },
-        out: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-      strict: true,
-      allowPositionals: false,
-    }).values;
-  } catch (e) {
-    throw new CliInputError((e as Error).message);
-  }
-  if (values.help) return { base: '', input: '', out: undefined, help: true };
-  if (!values.base) throw new CliInputError('missing --base FILE');
-  if (!values.in) throw new CliInputError('missing --in FILE');
-  return { base: values.base, input: values.in, out: values.out, help: false };
-}
 
 /** Turns a pose track into leg lengths (m) at the same times; resolves to the exit code, throws CliInputError on bad input. */
 export async function run(argv: string[], io: CliIo): Promise<number> {
