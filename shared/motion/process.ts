@@ -9,8 +9,9 @@ import { defaultCueingProfile } from '../schemas/cueing-profile';
 import type { CheckResult } from '../schemas/findings';
 import { exitCodeFor } from '../schemas/findings';
 import type { MotionBase } from '../schemas/motion-base';
+import { REPORT_CAUTION, buildReport } from './report';
 import type { BudgetCheck } from './checks';
-import { runChecks } from './checks';
+import { RIDER_LOWPASS_HZ, runChecks } from './checks';
 import type { MinMaxSeries } from './decimate';
 import { decimateMinMax } from './decimate';
 import type { PoseColumns } from './hexapod';
@@ -446,4 +447,106 @@ function columnsCsv(header: string, time_s: Float64Array, cols: readonly Float64
     lines[i + 1] = row.join(',');
   }
   return lines.join('\n') + '\n';
+}
+
+/** A file named and hashed by the caller (hashing needs I/O or node:crypto, which shared/ has not). */
+export interface SourceFile {
+  /** Base name, as shown in the manifest and the report. */
+  file: string;
+  sha256: string;
+  size_bytes?: number;
+}
+
+/** Where a run's inputs came from, for the manifest and the report. */
+export interface PackageSource {
+  input: SourceFile;
+  /** The parsed input track (before resampling): rows and time span. */
+  track: Pick<Track, 'kind' | 'layout' | 'length' | 'time_s'>;
+  base: SourceFile;
+  /** Absent when the default profile was used or the track was not cued. */
+  profile?: SourceFile;
+  /** Absent when the demo budget was used. */
+  budget?: SourceFile;
+  softwareVersion: string;
+}
+
+/**
+ * The files of a package (all but manifest.json) and the manifest's parameters, from a pipeline result.
+ * The writer adds each file's SHA-256 and size to the manifest; the CLI and the worker share this.
+ */
+export function packageContents(
+  result: ProcessResult,
+  base: MotionBase,
+  source: PackageSource,
+): { files: { name: string; content: string }[]; manifest: Record<string, unknown> } {
+  const n = source.track.length;
+  const start_s = source.track.time_s[0] as number;
+  const end_s = source.track.time_s[n - 1] as number;
+  const spectra = result.spectra;
+  const report = buildReport(result.findings, {
+    inputFile: source.input.file,
+    inputKind: source.track.kind,
+    inputRows: n,
+    start_s,
+    end_s,
+    baseName: base.name ?? source.base.file,
+    baseKind: base.kind,
+    seats: base.seats_m.length,
+    rate_hz: result.rate_hz,
+    profileName: result.profile ? result.profile.name : null,
+    budget: result.budget,
+    budgetIsDemo: result.budgetIsDemo,
+    softwareVersion: source.softwareVersion,
+    ...(spectra
+      ? {
+          sicknessBandShare: {
+            x: spectra.axes.x.bandShare,
+            y: spectra.axes.y.bandShare,
+            z: spectra.axes.z.bandShare,
+          },
+        }
+      : {}),
+  });
+  const manifest = {
+    format: 'legwork-package',
+    formatVersion: 1,
+    software: { name: 'legwork', version: source.softwareVersion },
+    caution: REPORT_CAUTION,
+    result: { within: result.findings.within, exitCode: result.exitCode },
+    input: {
+      ...source.input,
+      kind: source.track.kind,
+      layout: source.track.layout,
+      rows: n,
+      start_s,
+      end_s,
+      meanRate_hz: n > 1 && end_s > start_s ? (n - 1) / (end_s - start_s) : null,
+    },
+    rates: {
+      controller_hz: result.rate_hz,
+      samples: result.time_s.length,
+      resampling:
+        source.track.kind === 'vehicle'
+          ? 'linear interpolation onto the controller grid'
+          : 'cubic Hermite interpolation (three-point slopes) onto the controller grid',
+      riderLowPass: `4-pole Butterworth, ${RIDER_LOWPASS_HZ} Hz (common practice)`,
+      weighting: result.findings.comfort?.weightingNote ?? null,
+    },
+    base: { ...source.base, parameters: base },
+    profile: result.profile
+      ? { ...(source.profile ?? {}), default: source.profile === undefined, parameters: result.profile }
+      : null,
+    budget: { ...(source.budget ?? {}), demo: result.budgetIsDemo, parameters: result.budget },
+    notes: result.notes,
+  };
+  return {
+    files: [
+      { name: 'legs.csv', content: legsCsv(result) },
+      { name: 'pose.csv', content: poseCsv(result) },
+      { name: 'findings.json', content: `${JSON.stringify(result.findings, null, 2)}\n` },
+      { name: 'spectra.json', content: `${JSON.stringify(spectra)}\n` },
+      { name: 'report.txt', content: report },
+    ],
+    manifest,
+  };
 }

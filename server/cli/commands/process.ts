@@ -5,9 +5,8 @@ import { createReadStream, readFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
-import { legsCsv, poseCsv, processTrack } from '../../../shared/motion/process';
+import { packageContents, processTrack } from '../../../shared/motion/process';
 import type { ProcessResult } from '../../../shared/motion/process';
-import { REPORT_CAUTION, buildReport } from '../../../shared/motion/report';
 import type { Budget } from '../../../shared/schemas/budget';
 import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
 import type { CliIo } from '../io';
@@ -122,88 +121,21 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
     });
   }
 
-  const version = softwareVersion();
-  const n = track.length;
-  const start_s = track.time_s[0] as number;
-  const end_s = track.time_s[n - 1] as number;
-  const spectra = result.spectra;
-  const report = buildReport(result.findings, {
-    inputFile: basename(inPath),
-    inputKind: track.kind,
-    inputRows: n,
-    start_s,
-    end_s,
-    baseName: base.name ?? basename(basePath),
-    baseKind: base.kind,
-    seats: base.seats_m.length,
-    rate_hz: result.rate_hz,
-    profileName: result.profile ? result.profile.name : null,
-    budget: result.budget,
-    budgetIsDemo: result.budgetIsDemo,
-    softwareVersion: version,
-    ...(spectra
-      ? {
-          sicknessBandShare: {
-            x: spectra.axes.x.bandShare,
-            y: spectra.axes.y.bandShare,
-            z: spectra.axes.z.bandShare,
-          },
-        }
+  const contents = packageContents(result, base, {
+    input: { file: basename(inPath), ...inputHash },
+    track,
+    base: { file: basename(basePath), sha256: sha256Hex(baseText) },
+    ...(values.profile && profileText !== undefined
+      ? { profile: { file: basename(values.profile), sha256: sha256Hex(profileText) } }
       : {}),
+    ...(values.budget && budgetText !== undefined
+      ? { budget: { file: basename(values.budget), sha256: sha256Hex(budgetText) } }
+      : {}),
+    softwareVersion: softwareVersion(),
   });
 
-  const manifest = {
-    format: 'legwork-package',
-    formatVersion: 1,
-    software: { name: 'legwork', version },
-    caution: REPORT_CAUTION,
-    result: { within: result.findings.within, exitCode: result.exitCode },
-    input: {
-      file: basename(inPath),
-      ...inputHash,
-      kind: track.kind,
-      layout: track.layout,
-      rows: n,
-      start_s,
-      end_s,
-      meanRate_hz: n > 1 ? (n - 1) / (end_s - start_s) : null,
-    },
-    rates: {
-      controller_hz: result.rate_hz,
-      samples: result.time_s.length,
-      riderLowPass: '4-pole Butterworth, 5 Hz (common practice)',
-      weighting: result.findings.comfort?.weightingNote ?? null,
-    },
-    base: { file: basename(basePath), sha256: sha256Hex(baseText), parameters: base },
-    profile: result.profile
-      ? {
-          file: values.profile ? basename(values.profile) : null,
-          sha256: profileText === undefined ? null : sha256Hex(profileText),
-          default: profileText === undefined,
-          parameters: result.profile,
-        }
-      : null,
-    budget: {
-      file: values.budget ? basename(values.budget) : null,
-      sha256: budgetText === undefined ? null : sha256Hex(budgetText),
-      demo: result.budgetIsDemo,
-      parameters: result.budget,
-    },
-    notes: result.notes,
-  };
-
   try {
-    await writePackage(
-      values.out,
-      [
-        { name: 'legs.csv', content: legsCsv(result) },
-        { name: 'pose.csv', content: poseCsv(result) },
-        { name: 'findings.json', content: `${JSON.stringify(result.findings, null, 2)}\n` },
-        { name: 'spectra.json', content: `${JSON.stringify(spectra)}\n` },
-        { name: 'report.txt', content: report },
-      ],
-      manifest,
-    );
+    await writePackage(values.out, contents.files, contents.manifest);
   } catch (e) {
     throw new CliInputError(`${values.out}: cannot write the package: ${(e as Error).message}`);
   }
