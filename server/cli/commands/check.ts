@@ -155,6 +155,7 @@ export function describePipelineError(
   throw e;
 }
 
+/** Runs `legwork check`; resolves to the exit code (0, 3 or 4; bad input throws CliInputError for 2). */
 export async function run(argv: string[], io: CliIo): Promise<number> {
   let values: { base?: string; budget?: string; in?: string; out?: string; help?: boolean };
   try {

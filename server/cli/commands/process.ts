@@ -64,6 +64,7 @@ async function fileSha256(path: string): Promise<{ sha256: string; size_bytes: n
   return { sha256: hash.digest('hex'), size_bytes: size };
 }
 
+/** Runs `legwork process`; resolves to the exit code (0, 3 or 4; bad input throws CliInputError for 2). */
 export async function run(argv: string[], io: CliIo): Promise<number> {
   let values: { base?: string; profile?: string; budget?: string; in?: string; out?: string; help?: boolean };
   try {
