@@ -31,6 +31,9 @@ import { G0_MPS2 } from './units';
 /** Rider low-pass (common practice): 4-pole Butterworth at this corner, Hz. */
 export const RIDER_LOWPASS_HZ = 5;
 
+/** Condition number written for a singular pose (the kinematics report Infinity). */
+export const SINGULAR_CONDITION = 1e12;
+
 /** Actuator limits of a motion base's legs (m, m/s, m/s^2). */
 export interface LegLimits {
   min_m: number;
@@ -319,9 +322,10 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
   }
 
   if (input.conditioning && c.conditioningMax !== undefined) {
-    const k = input.conditioning;
     const kMax = c.conditioningMax;
-    assertFinite('Jacobian condition number', k, time_s);
+    // A singular pose has an infinite condition number: it is the worst finding, not bad input, so it
+    // is written as SINGULAR_CONDITION to keep the JSON finite.
+    const k = input.conditioning.map((v) => (Number.isFinite(v) ? v : SINGULAR_CONDITION));
     for (let i = 0; i < n; i++) ratio[i] = (k[i] as number) / kMax;
     out.scan(
       'conditioning',

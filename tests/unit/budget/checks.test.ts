@@ -225,3 +225,38 @@ describe('comfort limits only', () => {
     expect(cond.every((f) => f.subject === 'platform' && f.severity === 'comfort')).toBe(true);
   });
 });
+
+describe('a singular pose', () => {
+  it('is a conditioning finding with a finite value, not an error', async () => {
+    const { runChecks, SINGULAR_CONDITION } = await import('../../../shared/motion/checks');
+    const n = 50;
+    const time_s = Float64Array.from({ length: n }, (_, i) => i / 100);
+    const zeros = () => new Float64Array(n);
+    const rest = () => [zeros(), zeros(), new Float64Array(n).fill(G0_MPS2)] as const;
+    const conditioning = new Float64Array(n).fill(3);
+    conditioning[20] = Infinity;
+    const r = runChecks(
+      {
+        time_s,
+        rate_hz: 100,
+        legLength_m: [new Float64Array(n).fill(1.9)],
+        legSpeed_mps: [zeros()],
+        legAccel_mps2: [zeros()],
+        seatForce_mps2: [rest()],
+        omega_radps: [zeros(), zeros(), zeros()],
+        conditioning,
+        legLimits: base.leg,
+      },
+      makeBudget({ comfort: { conditioningMax: 100 } }),
+    );
+    expect(r.findings).toHaveLength(1);
+    expect(r.findings[0]).toMatchObject({
+      check: 'conditioning',
+      subject: 'platform',
+      value: SINGULAR_CONDITION,
+      limit: 100,
+    });
+    expect(r.findings[0]?.start_s).toBeCloseTo(0.195, 12);
+    expect(r.findings[0]?.end_s).toBeCloseTo(0.205, 12);
+  });
+});
