@@ -286,6 +286,24 @@ describe('legwork process', () => {
     ]);
   });
 
+  it('exits 2 naming the input line where forward kinematics finds no pose', async () => {
+    // Leg 1 shrinks to 0.3 m from row 52 on: no pose of the platform has legs that unequal.
+    const rows: number[][] = [];
+    for (let i = 0; i <= 100; i++)
+      rows.push([i / 100, i >= 50 ? 0.3 : 1.874, 1.874, 1.874, 1.874, 1.874, 1.874]);
+    const bad = file(
+      'bad-legs.csv',
+      makeCsv(['time_s', 'leg1_m', 'leg2_m', 'leg3_m', 'leg4_m', 'leg5_m', 'leg6_m'], rows),
+    );
+    const r = await run('process', '--base', basePath, '--in', bad, '--out', join(dir, 'never'));
+    expect(r.code).toBe(2);
+    // Header on line 1, so time 0.5 s sits on line 52; the smooth resampling leaves the path a little earlier.
+    const m = /bad-legs\.csv line (\d+): forward kinematics failed/.exec(r.err);
+    expect(m).not.toBeNull();
+    expect(Number(m?.[1])).toBeGreaterThanOrEqual(50);
+    expect(Number(m?.[1])).toBeLessThanOrEqual(52);
+  });
+
   it('exits 2 without --out', async () => {
     const r = await run('process', '--base', basePath, '--in', vehiclePath);
     expect(r.code).toBe(2);
