@@ -199,6 +199,22 @@ export function filterInto(
   }
 }
 
+/** One sample through the cascade (DF2T), updating `state`; for streams produced sample by sample. Unit of x. */
+export function filterSample(cascade: FilterCascade, state: Float64Array, x0: number): number {
+  const c = cascade.coefficients;
+  const sections = c.length / 5;
+  let x = x0;
+  for (let k = 0; k < sections; k++) {
+    const o = 5 * k;
+    const s = 2 * k;
+    const y = (c[o] as number) * x + (state[s] as number);
+    state[s] = (c[o + 1] as number) * x - (c[o + 3] as number) * y + (state[s + 1] as number);
+    state[s + 1] = (c[o + 2] as number) * x - (c[o + 4] as number) * y;
+    x = y;
+  }
+  return x;
+}
+
 /** Filters a whole signal into a new array; `initial: 'steady'` starts as if the first sample had always been there. */
 export function filterSignal(
   cascade: FilterCascade,

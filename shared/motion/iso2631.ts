@@ -5,7 +5,15 @@
 // weighted signal is read back at the input instants; nothing of the definition is left out.
 
 import type { AnalogSection, FilterCascade } from './filters';
-import { analogHighPass2, analogLowPass2, analogMagnitude, cascadeFromAnalog, steadyState } from './filters';
+import {
+  analogHighPass2,
+  analogLowPass2,
+  analogMagnitude,
+  cascadeFromAnalog,
+  filterInto,
+  filterSample,
+  steadyState,
+} from './filters';
 
 /** The frequency weightings of ISO 2631-1:1997 this module implements. */
 export type Weighting = 'Wk' | 'Wd' | 'We' | 'Wf';
@@ -138,18 +146,16 @@ export function weight(signal: Float64Array, rate_hz: number, w: Weighting): Flo
   if (n === 0) return out;
   const L = upsamplingFactor(w, rate_hz);
   const cascade = cascadeFromAnalog(weightingSections(w), rate_hz * L);
-  const c = cascade.coefficients;
-  const sections = c.length / 5;
   const state = steadyState(cascade, signal[0] as number);
   if (L === 1) {
-    for (let i = 0; i < n; i++) out[i] = runSample(c, sections, state, signal[i] as number);
+    filterInto(cascade, signal, out, state);
     return out;
   }
   const H = INTERP_HALF_WIDTH;
   const taps = interpolationTaps(L);
   const last = n - 1;
   for (let i = 0; i < n; i++) {
-    out[i] = runSample(c, sections, state, signal[i] as number);
+    out[i] = filterSample(cascade, state, signal[i] as number);
     for (let p = 1; p < L; p++) {
       const row = p * 2 * H;
       let u = 0;
@@ -158,24 +164,10 @@ export function weight(signal: Float64Array, rate_hz: number, w: Weighting): Flo
         k = k < 0 ? 0 : k > last ? last : k; // constant extension beyond the ends
         u += (taps[row + j] as number) * (signal[k] as number);
       }
-      runSample(c, sections, state, u);
+      filterSample(cascade, state, u);
     }
   }
   return out;
-}
-
-/** One sample through a DF2T cascade, updating `state`. */
-function runSample(c: Float64Array, sections: number, state: Float64Array, x0: number): number {
-  let x = x0;
-  for (let k = 0; k < sections; k++) {
-    const o = 5 * k;
-    const s = 2 * k;
-    const y = (c[o] as number) * x + (state[s] as number);
-    state[s] = (c[o + 1] as number) * x - (c[o + 3] as number) * y + (state[s + 1] as number);
-    state[s + 1] = (c[o + 2] as number) * x - (c[o + 4] as number) * y;
-    x = y;
-  }
-  return x;
 }
 
 /** Root mean square of a signal (its unit); 0 for an empty signal. */

@@ -5,6 +5,7 @@ import {
   analogMagnitude,
   digitalMagnitude,
   filterInto,
+  filterSample,
   filterSignal,
   highPass1,
   highPass2,
@@ -171,5 +172,13 @@ describe('running over arrays', () => {
     filterInto(c, x.subarray(400), b, state);
     for (let i = 0; i < 400; i++) expect(a[i]).toBe(whole[i]);
     for (let i = 0; i < 600; i++) expect(b[i]).toBe(whole[400 + i]);
+  });
+
+  it('one sample at a time gives the same output as a whole-array pass', () => {
+    const c = lowPass3(2, 0.6, 1, 100);
+    const x = Float64Array.from({ length: 300 }, (_, i) => Math.sin(i / 5));
+    const whole = filterSignal(c, x);
+    const state = steadyState(c, 0);
+    for (let i = 0; i < x.length; i++) expect(filterSample(c, state, x[i]!)).toBe(whole[i]);
   });
 });
