@@ -5,8 +5,11 @@
 import { realpathSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { TrackFileError } from '../../shared/motion/track-reader';
+import * as check from './commands/check';
+import * as cue from './commands/cue';
 import * as fk from './commands/fk';
 import * as ik from './commands/ik';
+import * as processCommand from './commands/process';
 import type { CliIo } from './io';
 import { CAUTION, CliInputError, EXIT, processIo } from './io';
 
@@ -21,6 +24,9 @@ export interface Command {
 export const commands: Record<string, Command> = {
   ik,
   fk,
+  cue,
+  check,
+  process: processCommand,
 };
 
 /** The top-level help text. */
