@@ -21,20 +21,18 @@ import { AuditRoute, MembersRoute, VenuesRoute } from './routes/studio-pages';
 /** The app's routes; loaders only start fetches and never throw, so pages own their loading and error states. */
 export function createAppRouter(queryClient: QueryClient) {
   // Waits for the session (so a signed-out visit makes one request, not one per list), then starts
-  // the studio's overview; a failure here is left to the page, which shows it with a retry.
-  const studioLoader = async ({ params }: LoaderFunctionArgs) => {
-    const me = await queryClient.ensureQueryData(getMeQueryOptions()).catch(() => null);
-    const studioId = params.studioId;
-    if (me?.memberships.some((m) => m.studioId === studioId) && studioId) {
-      void queryClient.prefetchQuery(getStudioOverviewQueryOptions(studioId));
-    }
-    return null;
-  };
-  const venuesLoader = async ({ params }: LoaderFunctionArgs) => {
-    const me = await queryClient.ensureQueryData(getMeQueryOptions()).catch(() => null);
-    if (me && params.studioId) void queryClient.prefetchQuery(getVenuesQueryOptions(params.studioId));
-    return null;
-  };
+  // the page's own fetch for a studio the user belongs to; failures are left to the page, which
+  // shows them with a retry.
+  const prefetchInStudio =
+    (prefetch: (studioId: string) => Promise<void>) =>
+    async ({ params }: LoaderFunctionArgs) => {
+      const me = await queryClient.ensureQueryData(getMeQueryOptions()).catch(() => null);
+      const studioId = params.studioId;
+      if (studioId && me?.memberships.some((m) => m.studioId === studioId)) void prefetch(studioId);
+      return null;
+    };
+  const studioLoader = prefetchInStudio((id) => queryClient.prefetchQuery(getStudioOverviewQueryOptions(id)));
+  const venuesLoader = prefetchInStudio((id) => queryClient.prefetchQuery(getVenuesQueryOptions(id)));
 
   return createBrowserRouter([
     {

@@ -2,7 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { meResponse } from '../../../../shared/schemas/api';
 import type { Me } from '../../../../shared/schemas/api';
 import { api, refreshCsrfToken } from '../../../lib/api-client';
-import { meQueryKey } from './get-me';
+import { replaceSession } from './session-cache';
 
 export interface AcceptInvitationInput {
   token: string;
@@ -23,12 +23,9 @@ export function useAcceptInvitation() {
     mutationKey: ['auth', 'accept-invitation'],
     mutationFn: acceptInvitation,
     onSuccess: (me) => {
-      // The accepted invitation stays cached while its page is still mounted; fetching it again would
-      // only answer 410 Gone. Everything else belonged to the previous session.
-      queryClient.removeQueries({
-        predicate: (query) => !['dev', 'invitation'].includes(String(query.queryKey[0])),
-      });
-      queryClient.setQueryData(meQueryKey, me);
+      // The accepted invitation stays cached while its page is still mounted: fetching it again
+      // would only answer 410 Gone.
+      replaceSession(queryClient, me, ['dev', 'invitation']);
     },
   });
 }

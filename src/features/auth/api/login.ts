@@ -2,7 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { meResponse } from '../../../../shared/schemas/api';
 import type { Me } from '../../../../shared/schemas/api';
 import { api, refreshCsrfToken } from '../../../lib/api-client';
-import { meQueryKey } from './get-me';
+import { replaceSession } from './session-cache';
 
 export interface LoginInput {
   email: string;
@@ -22,9 +22,7 @@ export function useLogin() {
     mutationKey: ['auth', 'login'],
     mutationFn: login,
     onSuccess: (me) => {
-      // Whatever was cached belonged to the previous session.
-      queryClient.removeQueries({ predicate: (query) => query.queryKey[0] !== 'dev' });
-      queryClient.setQueryData(meQueryKey, me);
+      replaceSession(queryClient, me);
     },
   });
 }

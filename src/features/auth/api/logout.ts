@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api, refreshCsrfToken } from '../../../lib/api-client';
-import { meQueryKey } from './get-me';
+import { replaceSession } from './session-cache';
 
 /** Ends the session; the CSRF token of the new anonymous session is fetched straight away. */
 export async function logout(): Promise<void> {
@@ -14,8 +14,7 @@ export function useLogout() {
     mutationKey: ['auth', 'logout'],
     mutationFn: logout,
     onSuccess: () => {
-      queryClient.removeQueries({ predicate: (query) => query.queryKey[0] !== 'dev' });
-      queryClient.setQueryData(meQueryKey, null);
+      replaceSession(queryClient, null);
     },
   });
 }
