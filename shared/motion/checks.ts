@@ -57,7 +57,26 @@ export interface CheckInput {
   /** Jacobian condition number per sample, if the kinematics gave one. */
   conditioning?: Float64Array;
   legLimits: LegLimits;
+  /** The rigid platform's specific force as a function of seat position, for many seats (see SeatForceModel). */
+  seatForceModel?: SeatForceModel;
 }
+
+type Triple = readonly [Float64Array, Float64Array, Float64Array];
+
+/**
+ * Specific force on a rigid platform is affine in the seat position r (motion-spec section 5:
+ * f = R^T (a_O - g) + R^T (alpha x R r + w x (w x R r))), so f(r) = origin + sum_j r_j perMetre[j]
+ * (m/s^2 and m/s^2 per m, platform frame). The ISO weightings are linear filters, so they then run on
+ * these four signals per axis instead of once per seat; seats_m lists each seat's r (m, platform frame).
+ */
+export interface SeatForceModel {
+  origin: Triple;
+  perMetre: readonly [Triple, Triple, Triple];
+  seats_m: readonly (readonly [number, number, number])[];
+}
+
+/** Above this many seats the ISO figures come from the SeatForceModel (four weightings per axis). */
+export const DIRECT_WEIGHTING_MAX_SEATS = 4;
 
 /** Intermediate rider signals the pipeline reuses for spectra and charts (m/s^2, m/s^3, rad/s, rad/s^2). */
 export interface RiderSignals {
@@ -352,32 +371,79 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
   };
 }
 
+/** Per seat: weighted r.m.s. (signal unit), VDV (unit s^0.25) and MSDV (unit s^0.5) of one axis. */
+type SeatDose = (seat: number) => { rms: number; vdv: number; msdv: number };
+
+/** Weights each seat's own signal (a filter run per seat and axis). */
+function directDose(input: CheckInput, axis: 0 | 1 | 2, w: 'Wk' | 'Wd' | 'Wf', rate_hz: number): SeatDose {
+  return (s) => {
+    const weighted = weight((input.seatForce_mps2[s] as Triple)[axis], rate_hz, w);
+    return { rms: rms(weighted), vdv: vdv(weighted, rate_hz), msdv: msdv(weighted, rate_hz) };
+  };
+}
+
+/** Weights the four model signals once, then combines them per seat (filters are linear). */
+function modelDose(model: SeatForceModel, axis: 0 | 1 | 2, w: 'Wk' | 'Wd' | 'Wf', rate_hz: number): SeatDose {
+  const w0 = weight(model.origin[axis], rate_hz, w);
+  const w1 = weight(model.perMetre[0][axis], rate_hz, w);
+  const w2 = weight(model.perMetre[1][axis], rate_hz, w);
+  const w3 = weight(model.perMetre[2][axis], rate_hz, w);
+  const n = w0.length;
+  return (s) => {
+    const [rx, ry, rz] = model.seats_m[s] as readonly [number, number, number];
+    let sum2 = 0;
+    let sum4 = 0;
+    for (let i = 0; i < n; i++) {
+      const v = (w0[i] as number) + rx * (w1[i] as number) + ry * (w2[i] as number) + rz * (w3[i] as number);
+      const v2 = v * v;
+      sum2 += v2;
+      sum4 += v2 * v2;
+    }
+    return {
+      rms: n > 0 ? Math.sqrt(sum2 / n) : 0,
+      vdv: Math.pow(sum4 / rate_hz, 0.25),
+      msdv: Math.sqrt(sum2 / rate_hz),
+    };
+  };
+}
+
 /** ISO 2631-1 figures over the whole track at the worst seat per axis; undefined without seats or samples. */
 export function comfortFigures(input: CheckInput, rate_hz: number): ComfortSummary | undefined {
-  const seats = input.seatForce_mps2;
-  if (seats.length === 0 || input.time_s.length < 2) return undefined;
+  const seats = input.seatForce_mps2.length;
+  if (seats === 0 || input.time_s.length < 2) return undefined;
+  const model =
+    input.seatForceModel &&
+    seats > DIRECT_WEIGHTING_MAX_SEATS &&
+    input.seatForceModel.seats_m.length === seats
+      ? input.seatForceModel
+      : undefined;
+  const dose = (axis: 0 | 1 | 2, w: 'Wk' | 'Wd' | 'Wf') =>
+    model ? modelDose(model, axis, w, rate_hz) : directDose(input, axis, w, rate_hz);
   const wrms = { x: 0, y: 0, z: 0 };
   const wrmsSeat = { x: 'seat1', y: 'seat1', z: 'seat1' };
   const vdvs = { x: 0, y: 0, z: 0 };
-  let msdvZ = 0;
-  let msdvSeat = 'seat1';
-  seats.forEach((force, s) => {
-    const seat = `seat${s + 1}`;
-    for (const axis of ENVELOPE_AXES) {
-      const weighted = weight(force[AXIS_INDEX[axis]], rate_hz, axis === 'z' ? 'Wk' : 'Wd');
-      const r = rms(weighted);
-      if (r > wrms[axis] || s === 0) {
-        wrms[axis] = r;
-        wrmsSeat[axis] = seat;
-        vdvs[axis] = vdv(weighted, rate_hz);
+  for (const axis of ENVELOPE_AXES) {
+    const a = AXIS_INDEX[axis];
+    const of = dose(a, axis === 'z' ? 'Wk' : 'Wd');
+    for (let s = 0; s < seats; s++) {
+      const d = of(s);
+      if (d.rms > wrms[axis] || s === 0) {
+        wrms[axis] = d.rms;
+        wrmsSeat[axis] = `seat${s + 1}`;
+        vdvs[axis] = d.vdv;
       }
     }
-    const m = msdv(weight(force[2], rate_hz, 'Wf'), rate_hz);
+  }
+  let msdvZ = 0;
+  let msdvSeat = 'seat1';
+  const sick = dose(2, 'Wf');
+  for (let s = 0; s < seats; s++) {
+    const m = sick(s).msdv;
     if (m > msdvZ || s === 0) {
       msdvZ = m;
-      msdvSeat = seat;
+      msdvSeat = `seat${s + 1}`;
     }
-  });
+  }
   const up = upsamplingFactor('Wk', rate_hz);
   const weightingNote =
     up > 1

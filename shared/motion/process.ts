@@ -10,8 +10,8 @@ import type { CheckResult } from '../schemas/findings';
 import { exitCodeFor } from '../schemas/findings';
 import type { MotionBase } from '../schemas/motion-base';
 import { REPORT_CAUTION, buildReport } from './report';
-import type { BudgetCheck } from './checks';
-import { RIDER_LOWPASS_HZ, runChecks } from './checks';
+import type { BudgetCheck, SeatForceModel } from './checks';
+import { DIRECT_WEIGHTING_MAX_SEATS, RIDER_LOWPASS_HZ, runChecks } from './checks';
 import type { MinMaxSeries } from './decimate';
 import { decimateMinMax } from './decimate';
 import type { PoseColumns } from './hexapod';
@@ -218,6 +218,28 @@ export function processTrack(input: ProcessInput): ProcessResult {
     const f = seatForceFromMotion(motion, seat);
     return [f.x, f.y, f.z] as const;
   });
+  let seatForceModel: SeatForceModel | undefined;
+  if (base.seats_m.length > DIRECT_WEIGHTING_MAX_SEATS) {
+    const at = (r: [number, number, number]) => {
+      const f = seatForceFromMotion(motion, r);
+      return [f.x, f.y, f.z] as const;
+    };
+    const origin = at([0, 0, 0]);
+    const unit = (r: [number, number, number]) => {
+      const f = at(r);
+      for (let a = 0; a < 3; a++) {
+        const fa = f[a] as Float64Array;
+        const oa = origin[a] as Float64Array;
+        for (let i = 0; i < n; i++) fa[i] = (fa[i] as number) - (oa[i] as number);
+      }
+      return f;
+    };
+    seatForceModel = {
+      origin,
+      perMetre: [unit([1, 0, 0]), unit([0, 1, 0]), unit([0, 0, 1])],
+      seats_m: base.seats_m,
+    };
+  }
   const omega: [Float64Array, Float64Array, Float64Array] = [zeros(), zeros(), zeros()];
   {
     // Platform-frame angular velocity R^T w, the rotation a rider feels.
@@ -246,6 +268,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
       seatForce_mps2: seatForce,
       omega_radps: omega,
       ...(conditioning ? { conditioning } : {}),
+      ...(seatForceModel ? { seatForceModel } : {}),
       legLimits: base.leg,
     },
     budget,

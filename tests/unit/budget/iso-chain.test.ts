@@ -3,7 +3,7 @@
 // forms for a sinusoid.
 import { describe, expect, it } from 'vitest';
 import { processTrack } from '../../../shared/motion/process';
-import { crestFactor, weight } from '../../../shared/motion/iso2631';
+import { crestFactor, msdv, rms, vdv, weight } from '../../../shared/motion/iso2631';
 import { seatSpecificForce } from '../../../shared/motion/seat-force';
 import { G0_MPS2 } from '../../../shared/motion/units';
 import { makeHexapodBase } from '../../factories/motion';
@@ -114,5 +114,53 @@ describe('worst seat', () => {
     // Wk(2 Hz) = 0.531, ISO 2631-1 table, from memory; 3 % covers the small centripetal and gravity terms.
     const expected = (0.531 * P * w * w * 0.6) / Math.SQRT2;
     expect(Math.abs((c?.wrms_mps2.z ?? NaN) / expected - 1)).toBeLessThan(0.03);
+  });
+});
+
+describe('many seats', () => {
+  it('gives the same figures from the affine seat-force model as from weighting every seat', () => {
+    // Linear filters commute with the sum f(r) = f(0) + sum_j r_j (f(e_j) - f(0)) (linear systems, textbook).
+    const rate = 100;
+    const track = makePoseTrackFrom(rate, 60, (t) => [
+      0.05 * Math.sin(1.3 * t),
+      0.04 * Math.sin(2.1 * t + 1),
+      0.03 * Math.sin(3.7 * t),
+      0.04 * Math.sin(1.1 * t),
+      0.03 * Math.sin(0.9 * t + 2),
+      0.05 * Math.sin(0.7 * t),
+    ]);
+    const seats: [number, number, number][] = [
+      [0.3, 0.5, 0.9],
+      [0.3, -0.5, 0.9],
+      [-0.3, 0.5, 0.9],
+      [-0.3, -0.5, 0.9],
+      [0, 0.9, 1.1],
+      [0.6, 0, 0.7],
+    ];
+    const base = makeHexapodBase({ controllerRate_hz: rate, seats_m: seats });
+    const c = processTrack({ track, base, chartBuckets: 0 }).check.comfort;
+    const [x_m, y_m, z_m, roll_rad, pitch_rad, yaw_rad] = track.columns as Float64Array[];
+    const pose = { rate_hz: rate, x_m, y_m, z_m, roll_rad, pitch_rad, yaw_rad } as Parameters<
+      typeof seatSpecificForce
+    >[0];
+    let best = { z: -1, seat: '' };
+    let bestMsdv = { v: -1, seat: '' };
+    let vdvZ = 0;
+    seats.forEach((r, s) => {
+      const f = seatSpecificForce(pose, r);
+      const wz = weight(f.z, rate, 'Wk');
+      const rz = rms(wz);
+      if (rz > best.z) {
+        best = { z: rz, seat: `seat${s + 1}` };
+        vdvZ = vdv(wz, rate);
+      }
+      const m = msdv(weight(f.z, rate, 'Wf'), rate);
+      if (m > bestMsdv.v) bestMsdv = { v: m, seat: `seat${s + 1}` };
+    });
+    expect(c?.wrmsSeat.z).toBe(best.seat);
+    expect((c?.wrms_mps2.z ?? NaN) / best.z).toBeCloseTo(1, 9);
+    expect((c?.vdv_mps1_75.z ?? NaN) / vdvZ).toBeCloseTo(1, 9);
+    expect(c?.msdvSeat).toBe(bestMsdv.seat);
+    expect((c?.msdvZ_mps1_5 ?? NaN) / bestMsdv.v).toBeCloseTo(1, 9);
   });
 });
