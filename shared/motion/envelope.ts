@@ -25,7 +25,7 @@ export interface EnvelopeViolation {
 
 /** Worst use of one axis signal against its envelope rows. */
 export interface EnvelopeAxisResult {
-  /** Worst use ratio over all rows (see ratioOf in the module notes). */
+  /** Worst use ratio over all rows: bandRatio for absolute rows, time outside / duration for timed rows. */
   ratio: number;
   /** Row that gave the worst ratio. */
   worstRow: number;
@@ -101,7 +101,7 @@ export function checkEnvelopeAxis(
       const v = signal_g[offset + i * stride] as number;
       const outside = v < lo || v > hi;
       if (d_s === 0) {
-        const q = v >= rest_g ? (v - rest_g) / (hi - rest_g) : (rest_g - v) / (rest_g - lo);
+        const q = bandRatio(v, lo, hi, rest_g);
         if (q > rowRatio) rowRatio = q;
         if (outside) {
           if (runFirst < 0) {
