@@ -7,15 +7,11 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { rmSync } from 'node:fs';
-import { commands, main } from '../../../server/cli/legwork';
-import * as check from '../../../server/cli/commands/check';
-import * as processCommand from '../../../server/cli/commands/process';
+import { main } from '../../../server/cli/legwork';
 import { checkResultSchema } from '../../../shared/schemas/findings';
 import { demoHexapodInput } from '../../../shared/schemas/motion-base';
 import { makeCsv } from '../../factories/motion';
 import { makePoseTrackFrom, poseTrackCsv, smoothStep } from './helpers';
-
-Object.assign(commands, { check, process: processCommand });
 
 const dir = mkdtempSync(join(tmpdir(), 'legwork-budget-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
