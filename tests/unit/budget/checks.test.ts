@@ -5,7 +5,7 @@ import { processTrack } from '../../../shared/motion/process';
 import { checkResultSchema, exitCodeFor } from '../../../shared/schemas/findings';
 import { demoHexapodBase, demoHexapodInput } from '../../../shared/schemas/motion-base';
 import { G0_MPS2 } from '../../../shared/motion/units';
-import { makeBudget, makePoseTrackFrom, smoothStep } from './helpers';
+import { makeBudget, makePoseTrackFrom, smoothStep } from './track-builders';
 
 const base = demoHexapodBase;
 const RATE = base.controllerRate_hz;

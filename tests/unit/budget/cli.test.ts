@@ -11,7 +11,7 @@ import { main } from '../../../server/cli/legwork';
 import { checkResultSchema } from '../../../shared/schemas/findings';
 import { demoHexapodInput } from '../../../shared/schemas/motion-base';
 import { makeCsv } from '../../factories/motion';
-import { makePoseTrackFrom, poseTrackCsv, smoothStep } from './helpers';
+import { makePoseTrackFrom, poseTrackCsv, smoothStep } from './track-builders';
 
 const dir = mkdtempSync(join(tmpdir(), 'legwork-budget-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));

@@ -7,7 +7,7 @@ import { crestFactor, msdv, rms, vdv, weight } from '../../../shared/motion/iso2
 import { seatSpecificForce } from '../../../shared/motion/seat-force';
 import { G0_MPS2 } from '../../../shared/motion/units';
 import { makeHexapodBase } from '../../factories/motion';
-import { makePoseTrackFrom } from './helpers';
+import { makePoseTrackFrom } from './track-builders';
 
 const ONE_SEAT = [[0, 0, 0.9]] as [number, number, number][];
 

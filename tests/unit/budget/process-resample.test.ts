@@ -5,7 +5,7 @@ import { processTrack, resampleHermite } from '../../../shared/motion/process';
 import type { Track } from '../../../shared/motion/track-reader';
 import { demoHexapodInput } from '../../../shared/schemas/motion-base';
 import { makeHexapodBase } from '../../factories/motion';
-import { makePoseTrackFrom } from './helpers';
+import { makePoseTrackFrom } from './track-builders';
 
 describe('Hermite resampling', () => {
   it('reproduces a quadratic exactly on an uneven grid (three-point slopes are exact for quadratics)', () => {
