@@ -17,6 +17,12 @@ import { RouteErrorScreen } from './routes/route-error';
 import { StudioHomeRoute } from './routes/studio-home';
 import { RootRedirect, StudioLayout } from './routes/studio-layout';
 import { AuditRoute, MembersRoute, VenuesRoute } from './routes/studio-pages';
+import { ProfilesRoute } from './routes/profiles';
+import { RunRoute } from './routes/run';
+import { TokensRoute } from './routes/tokens';
+import { TrackRoute } from './routes/track';
+import { TracksRoute } from './routes/tracks';
+import { VenueSettingsRoute } from './routes/venue-settings';
 
 /** The app's routes; loaders only start fetches and never throw, so pages own their loading and error states. */
 export function createAppRouter(queryClient: QueryClient) {
@@ -54,6 +60,12 @@ export function createAppRouter(queryClient: QueryClient) {
             { path: 'venues', element: <VenuesRoute />, loader: venuesLoader },
             { path: 'members', element: <MembersRoute />, loader: venuesLoader },
             { path: 'audit', element: <AuditRoute /> },
+            { path: 'tracks', element: <TracksRoute />, loader: venuesLoader },
+            { path: 'tracks/:trackId', element: <TrackRoute />, loader: venuesLoader },
+            { path: 'runs/:runId', element: <RunRoute /> },
+            { path: 'venues/:venueId', element: <VenueSettingsRoute /> },
+            { path: 'profiles', element: <ProfilesRoute /> },
+            { path: 'tokens', element: <TokensRoute /> },
           ],
         },
         { path: '*', element: <NotFoundRoute /> },

@@ -26,8 +26,17 @@ function navFor(membership: Membership): NavItem[] {
     { to: base, label: 'Home', end: true },
     { to: `${base}/venues`, label: 'Venues' },
   ];
+  const has = (...roles: Membership['roles']) => roles.some((role) => membership.roles.includes(role));
+  if (has('producer', 'motion_engineer', 'safety_reviewer', 'studio_admin')) {
+    items.push({ to: `${base}/tracks`, label: 'Tracks' });
+  }
+  if (has('motion_engineer', 'safety_reviewer')) items.push({ to: `${base}/profiles`, label: 'Profiles' });
   if (membership.roles.includes('studio_admin')) {
-    items.push({ to: `${base}/members`, label: 'Members' }, { to: `${base}/audit`, label: 'Audit log' });
+    items.push(
+      { to: `${base}/members`, label: 'Members' },
+      { to: `${base}/audit`, label: 'Audit log' },
+      { to: `${base}/tokens`, label: 'API tokens' },
+    );
   }
   return items;
 }

@@ -1,0 +1,16 @@
+// `/s/:studioId/runs/:runId`: one cue run, its charts and its budget.
+import { useParams } from 'react-router-dom';
+import { PageHeading } from '../../components/ui/section';
+import { RunView } from '../../features/runs/components/run-view';
+import { useStudioContext } from './studio-layout';
+
+export function RunRoute() {
+  const { membership } = useStudioContext();
+  const { runId = '' } = useParams();
+  return (
+    <>
+      <PageHeading title="Cue run" subtitle="Input and cued motion, actuator use and the safety budget." />
+      <RunView key={runId} studioId={membership.studioId} runId={runId} />
+    </>
+  );
+}

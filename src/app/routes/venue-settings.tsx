@@ -1,0 +1,42 @@
+// `/s/:studioId/venues/:venueId`: the venue's motion base and the profile versions its runs use.
+import { useParams } from 'react-router-dom';
+import { PageHeading, Section } from '../../components/ui/section';
+import { ErrorNotice, Loading } from '../../components/ui/status';
+import { useVenueDetail } from '../../features/venue-settings/api/get-venue-detail';
+import { BaseSummary } from '../../features/venue-settings/components/base-summary';
+import { ProfileVersionSelect } from '../../features/venue-settings/components/profile-version-select';
+import { useStudioContext } from './studio-layout';
+
+export function VenueSettingsRoute() {
+  const { membership } = useStudioContext();
+  const { venueId = '' } = useParams();
+  const studioId = membership.studioId;
+  const venue = useVenueDetail(studioId, venueId);
+  if (venue.isPending) return <Loading what="Loading the venue" />;
+  if (venue.isError) return <ErrorNotice error={venue.error} retry={() => void venue.refetch()} />;
+  const detail = venue.data;
+  return (
+    <>
+      <PageHeading title={detail.name} subtitle={`${detail.site} · ${detail.timeZone}`} />
+      <Section title="Motion base">
+        <BaseSummary base={detail.base} />
+      </Section>
+      <Section title="Cueing profile">
+        <ProfileVersionSelect
+          key={`c-${detail.cueingVersion?.id ?? ''}`}
+          studioId={studioId}
+          venue={detail}
+          kind="cueing"
+        />
+      </Section>
+      <Section title="Budget profile">
+        <ProfileVersionSelect
+          key={`b-${detail.budgetVersion?.id ?? ''}`}
+          studioId={studioId}
+          venue={detail}
+          kind="budget"
+        />
+      </Section>
+    </>
+  );
+}

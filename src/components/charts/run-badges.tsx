@@ -1,0 +1,87 @@
+// Small status graphics shared by the tracks table, the track page and the run page.
+import { RUN_STATE_LABELS } from '../../../shared/schemas/pipeline';
+import type { RunStateName } from '../../../shared/schemas/pipeline';
+
+const STATE_TONE: Record<RunStateName, string> = {
+  queued: 'border-ink-200 bg-ink-50 text-ink-600',
+  cueing: 'border-ink-400 bg-ink-50 text-ink-800',
+  awaiting_review: 'border-tealdeep-500 bg-white text-tealdeep-700',
+  held_by_budget: 'border-signal-400 bg-signal-400/15 text-signal-600',
+  failed: 'border-stop-500 bg-white text-stop-700',
+  cleared: 'border-tealdeep-600 bg-tealdeep-600 text-white',
+  held: 'border-signal-400 bg-signal-400/15 text-signal-600',
+  released: 'border-tealdeep-700 bg-tealdeep-700 text-white',
+  withdrawn: 'border-ink-200 bg-white text-ink-400',
+  superseded: 'border-ink-200 bg-white text-ink-400',
+};
+
+/** A run state as a small labelled badge. */
+export function RunStateBadge({ state }: { state: RunStateName }) {
+  return (
+    <span
+      className={`inline-flex items-center rounded border px-1.5 py-px text-xs font-medium whitespace-nowrap ${STATE_TONE[state]}`}
+    >
+      {RUN_STATE_LABELS[state]}
+    </span>
+  );
+}
+
+/** Use ratio bands: comfortable below 0.8, close from 0.8 to 1, over the limit at 1 and above. */
+export function ratioTone(ratio: number): 'ok' | 'close' | 'over' {
+  if (ratio >= 1) return 'over';
+  return ratio >= 0.8 ? 'close' : 'ok';
+}
+
+const BAR_TONE = { ok: 'bg-tealdeep-500', close: 'bg-signal-400', over: 'bg-stop-500' } as const;
+const TEXT_TONE = { ok: 'text-ink-800', close: 'text-signal-600', over: 'text-stop-700' } as const;
+// The bar spans 0..1.25 so a ratio over 1 still shows how far over; the tick marks the limit.
+const BAR_FULL = 1.25;
+
+/** A budget use ratio (worst value / limit) as a bar with its number; over 1 is over the limit. */
+export function UseRatioBar({ ratio, label }: { ratio: number | null; label?: string | undefined }) {
+  if (ratio === null || !Number.isFinite(ratio)) return <span className="text-xs text-ink-400">—</span>;
+  const tone = ratioTone(ratio);
+  const width = `${(Math.min(Math.max(ratio, 0), BAR_FULL) / BAR_FULL) * 100}%`;
+  return (
+    <span
+      className="inline-flex items-center gap-1.5"
+      title={label ? `${label}: ${ratio.toFixed(3)} of the limit` : `${ratio.toFixed(3)} of the limit`}
+    >
+      <span
+        role="meter"
+        aria-label={label ? `Use ratio ${label}` : 'Use ratio'}
+        aria-valuemin={0}
+        aria-valuemax={BAR_FULL}
+        aria-valuenow={Number(ratio.toFixed(3))}
+        className="relative inline-block h-2 w-20 overflow-hidden rounded-sm bg-ink-100"
+      >
+        <span className={`absolute inset-y-0 left-0 ${BAR_TONE[tone]}`} style={{ width }} />
+        <span className="absolute inset-y-0 w-px bg-ink-800" style={{ left: `${100 / BAR_FULL}%` }} />
+      </span>
+      <span className={`font-mono text-xs ${TEXT_TONE[tone]}`}>{ratio.toFixed(2)}</span>
+    </span>
+  );
+}
+
+/** A progress bar from 0 to 100 per cent with its number. */
+export function ProgressBar({ percent, label }: { percent: number; label: string }) {
+  const clamped = Math.min(Math.max(Number.isFinite(percent) ? percent : 0, 0), 100);
+  return (
+    <span className="inline-flex items-center gap-2">
+      <span
+        role="progressbar"
+        aria-label={label}
+        aria-valuemin={0}
+        aria-valuemax={100}
+        aria-valuenow={Math.round(clamped)}
+        className="relative inline-block h-2 w-40 overflow-hidden rounded-sm bg-ink-100"
+      >
+        <span
+          className="absolute inset-y-0 left-0 bg-tealdeep-500 transition-[width]"
+          style={{ width: `${clamped}%` }}
+        />
+      </span>
+      <span className="font-mono text-xs text-ink-600">{Math.round(clamped)} %</span>
+    </span>
+  );
+}

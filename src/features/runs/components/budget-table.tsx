@@ -1,0 +1,50 @@
+import { CHECK_SEVERITY } from '../../../../shared/schemas/findings';
+import type { Use } from '../../../../shared/schemas/findings';
+import { UseRatioBar } from '../../../components/charts/run-badges';
+import { Empty } from '../../../components/ui/status';
+import { Table, Td, Th } from '../../../components/ui/table';
+
+/** "envelope seat2 (z)": the subject with the axis when the check has one. */
+export function subjectText(use: Pick<Use, 'subject' | 'axis'>): string {
+  return use.axis && use.axis !== use.subject ? `${use.subject} (${use.axis})` : use.subject;
+}
+
+export function SeverityText({ severity }: { severity: 'hard' | 'comfort' }) {
+  return severity === 'hard' ? (
+    <span className="text-xs font-medium text-stop-700">hard limit</span>
+  ) : (
+    <span className="text-xs font-medium text-signal-600">comfort limit</span>
+  );
+}
+
+/** Every check's worst use of its limit, largest first: the budget at a glance. */
+export function BudgetTable({ uses }: { uses: readonly Use[] }) {
+  if (uses.length === 0) return <Empty>The run reported no uses.</Empty>;
+  const sorted = [...uses].sort((a, b) => b.ratio - a.ratio);
+  return (
+    <Table caption="Budget uses, largest first">
+      <thead>
+        <tr>
+          <Th>Check</Th>
+          <Th>Subject</Th>
+          <Th>Use of limit</Th>
+          <Th>Severity</Th>
+        </tr>
+      </thead>
+      <tbody>
+        {sorted.map((use, i) => (
+          <tr key={`${use.check}-${use.subject}-${use.axis ?? ''}-${i}`}>
+            <Td className="font-mono text-xs">{use.check}</Td>
+            <Td className="font-mono text-xs">{subjectText(use)}</Td>
+            <Td>
+              <UseRatioBar ratio={use.ratio} label={`${use.check} ${subjectText(use)}`} />
+            </Td>
+            <Td>
+              <SeverityText severity={CHECK_SEVERITY[use.check]} />
+            </Td>
+          </tr>
+        ))}
+      </tbody>
+    </Table>
+  );
+}

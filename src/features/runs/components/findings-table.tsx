@@ -1,0 +1,54 @@
+import { CHECK_UNIT } from '../../../../shared/schemas/findings';
+import type { Finding } from '../../../../shared/schemas/findings';
+import { formatValue } from '../../../components/charts/format-units';
+import { UseRatioBar } from '../../../components/charts/run-badges';
+import { Empty } from '../../../components/ui/status';
+import { Table, Td, Th } from '../../../components/ui/table';
+import { SeverityText, subjectText } from './budget-table';
+
+/** The checks at or over their limit, in time order, with the span a plot marks. */
+export function FindingsTable({ findings }: { findings: readonly Finding[] }) {
+  if (findings.length === 0) return <Empty>No findings: every check stayed below its limit.</Empty>;
+  const sorted = [...findings].sort((a, b) => a.start_s - b.start_s || b.ratio - a.ratio);
+  return (
+    <Table caption="Findings">
+      <thead>
+        <tr>
+          <Th>Check</Th>
+          <Th>Subject</Th>
+          <Th>Span (s)</Th>
+          <Th className="text-right">Value</Th>
+          <Th className="text-right">Limit</Th>
+          <Th>Ratio</Th>
+          <Th>Severity</Th>
+        </tr>
+      </thead>
+      <tbody>
+        {sorted.map((f, i) => (
+          <tr key={`${f.check}-${f.subject}-${f.start_s}-${i}`}>
+            <Td className="font-mono text-xs">
+              {f.check}
+              {f.row !== undefined ? <span className="text-ink-400"> row {f.row}</span> : null}
+            </Td>
+            <Td className="font-mono text-xs">{subjectText(f)}</Td>
+            <Td className="font-mono text-xs whitespace-nowrap">
+              {f.start_s.toFixed(2)}–{f.end_s.toFixed(2)}
+            </Td>
+            <Td className="text-right font-mono text-xs whitespace-nowrap">
+              {formatValue(f.value)} {CHECK_UNIT[f.check]}
+            </Td>
+            <Td className="text-right font-mono text-xs whitespace-nowrap">
+              {formatValue(f.limit)} {CHECK_UNIT[f.check]}
+            </Td>
+            <Td>
+              <UseRatioBar ratio={f.ratio} label={`${f.check} ${subjectText(f)}`} />
+            </Td>
+            <Td>
+              <SeverityText severity={f.severity} />
+            </Td>
+          </tr>
+        ))}
+      </tbody>
+    </Table>
+  );
+}

@@ -1,0 +1,156 @@
+// The run's charts from its decimated series. Values stay SI in the data; millimetres and degrees
+// exist only here, for display.
+import { useMemo } from 'react';
+import type { Finding } from '../../../../shared/schemas/findings';
+import type { RunSeries, SeriesBand } from '../../../../shared/schemas/run-series';
+import { BandChart } from '../../../components/charts/band-chart';
+import type { ChartBand, ChartLine, ChartSpan } from '../../../components/charts/band-chart';
+import { CHART_COLORS, withAlpha } from '../../../components/charts/palette';
+
+const M_TO_MM = 1000;
+const RAD_TO_DEG = 180 / Math.PI;
+
+const AXIS_NAMES = { x: 'x (surge)', y: 'y (sway)', z: 'z (heave)' } as const;
+const POSE_LABELS: Record<string, string> = {
+  x_m: 'x',
+  y_m: 'y',
+  z_m: 'z',
+  roll_rad: 'roll',
+  pitch_rad: 'pitch',
+  yaw_rad: 'yaw',
+};
+
+/** Finding spans coloured by severity: hard red, comfort amber. */
+export function findingSpans(findings: readonly Finding[]): ChartSpan[] {
+  return findings.map((f) => ({
+    start_s: f.start_s,
+    end_s: f.end_s,
+    color: f.severity === 'hard' ? CHART_COLORS.hard : CHART_COLORS.comfort,
+  }));
+}
+
+function poseBands(pose: Record<string, SeriesBand>, suffix: '_m' | '_rad'): ChartBand[] {
+  return Object.entries(pose)
+    .filter(([key]) => key.endsWith(suffix))
+    .map(([key, band], i) => ({
+      label: POSE_LABELS[key] ?? key,
+      color: CHART_COLORS.series[i % CHART_COLORS.series.length] ?? CHART_COLORS.cued,
+      min: band.min,
+      max: band.max,
+    }));
+}
+
+/** Force per axis (input vs felt at seat 1), pose offsets and leg lengths inside the stroke band, with findings shaded. */
+export function RunCharts({ series, findings }: { series: RunSeries; findings: readonly Finding[] }) {
+  const spans = useMemo(() => findingSpans(findings), [findings]);
+  const force = useMemo(
+    () =>
+      (['x', 'y', 'z'] as const).map((axis) => {
+        const { input, cued } = series.force[axis];
+        const bands: ChartBand[] = [];
+        if (input)
+          bands.push({ label: 'input (vehicle)', color: CHART_COLORS.input, min: input.min, max: input.max });
+        bands.push({ label: 'cued (seat 1)', color: CHART_COLORS.cued, min: cued.min, max: cued.max });
+        return { axis, bands };
+      }),
+    [series],
+  );
+  const translation = useMemo(() => poseBands(series.pose, '_m'), [series]);
+  const rotation = useMemo(() => poseBands(series.pose, '_rad'), [series]);
+  const legs = useMemo(
+    () =>
+      series.legs.map((band, i) => ({
+        label: `leg${i + 1}`,
+        color: CHART_COLORS.series[i % CHART_COLORS.series.length] ?? CHART_COLORS.cued,
+        min: band.min,
+        max: band.max,
+      })),
+    [series],
+  );
+  const strokeLines = useMemo<ChartLine[]>(() => {
+    const { min_m, max_m, margin_m } = series.stroke;
+    return [
+      {
+        value: max_m - margin_m,
+        label: `max − margin ${(max_m - margin_m).toFixed(3)} m`,
+        color: CHART_COLORS.stroke,
+      },
+      {
+        value: min_m + margin_m,
+        label: `min + margin ${(min_m + margin_m).toFixed(3)} m`,
+        color: CHART_COLORS.stroke,
+      },
+    ];
+  }, [series]);
+
+  return (
+    <div className="flex flex-col gap-4" data-testid="run-charts">
+      <p className="flex flex-wrap items-center gap-3 text-xs text-ink-600">
+        <span>
+          {series.samples.toLocaleString('en-GB')} samples at {series.rate_hz} Hz, drawn as min/max per
+          bucket.
+        </span>
+        <span className="inline-flex items-center gap-1">
+          <span
+            aria-hidden="true"
+            className="inline-block h-3 w-3"
+            style={{ background: withAlpha(CHART_COLORS.hard, 0.35) }}
+          />
+          hard finding
+        </span>
+        <span className="inline-flex items-center gap-1">
+          <span
+            aria-hidden="true"
+            className="inline-block h-3 w-3"
+            style={{ background: withAlpha(CHART_COLORS.comfort, 0.35) }}
+          />
+          comfort finding
+        </span>
+      </p>
+      <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
+        {force.map(({ axis, bands }) => (
+          <BandChart
+            key={axis}
+            title={`Specific force ${AXIS_NAMES[axis]}`}
+            yLabel="m/s²"
+            time_s={series.time_s}
+            bands={bands}
+            spans={spans}
+            height_px={170}
+          />
+        ))}
+      </div>
+      <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
+        {translation.length > 0 ? (
+          <BandChart
+            title="Pose offset, translation"
+            yLabel="mm"
+            time_s={series.time_s}
+            bands={translation}
+            spans={spans}
+            scale={M_TO_MM}
+          />
+        ) : null}
+        {rotation.length > 0 ? (
+          <BandChart
+            title="Pose offset, rotation"
+            yLabel="deg"
+            time_s={series.time_s}
+            bands={rotation}
+            spans={spans}
+            scale={RAD_TO_DEG}
+          />
+        ) : null}
+      </div>
+      <BandChart
+        title="Leg lengths inside the stroke band"
+        yLabel="m"
+        time_s={series.time_s}
+        bands={legs}
+        spans={spans}
+        lines={strokeLines}
+        height_px={220}
+      />
+    </div>
+  );
+}

@@ -1,0 +1,105 @@
+import type { ReactNode } from 'react';
+import { Link } from 'react-router-dom';
+import type { RunDetail } from '../../../../shared/schemas/pipeline';
+import { formatBytes, formatDuration_s, shortSha } from '../../../components/charts/format-units';
+import { ProgressBar, RunStateBadge, UseRatioBar } from '../../../components/charts/run-badges';
+import { formatDateTime } from '../../../lib/format';
+import { isRunActive } from '../api/get-run';
+
+function Fact({ label, children }: { label: string; children: ReactNode }) {
+  return (
+    <div className="flex flex-col">
+      <dt className="text-xs text-ink-600">{label}</dt>
+      <dd className="text-sm text-ink-900">{children}</dd>
+    </div>
+  );
+}
+
+/** What the run is (track, take, venue, profile versions), where it stands, and why it failed if it did. */
+export function RunHeader({ studioId, run }: { studioId: string; run: RunDetail }) {
+  return (
+    <div className="flex flex-col gap-3">
+      <dl className="grid grid-cols-2 gap-x-6 gap-y-2 rounded border border-ink-200 bg-white p-4 md:grid-cols-4">
+        <Fact label="Track">
+          <Link to={`/s/${studioId}/tracks/${run.trackId}`} className="text-tealdeep-600 underline">
+            {run.trackTitle}
+          </Link>
+        </Fact>
+        <Fact label="Take">
+          <span className="font-mono">#{run.take.number}</span> {run.take.fileName}
+          <span className="block text-xs text-ink-600">
+            {formatDuration_s(run.take.duration_s)} · {formatBytes(run.take.sizeBytes)} ·{' '}
+            <span className="font-mono" title={run.take.sha256}>
+              {shortSha(run.take.sha256)}
+            </span>
+          </span>
+        </Fact>
+        <Fact label="Venue">
+          <Link to={`/s/${studioId}/venues/${run.venueId}`} className="text-tealdeep-600 underline">
+            {run.venueName}
+          </Link>
+        </Fact>
+        <Fact label="State">
+          <RunStateBadge state={run.state} />
+        </Fact>
+        <Fact label="Cueing profile">
+          {run.cueingVersion
+            ? `${run.cueingVersion.name} v${run.cueingVersion.version}`
+            : 'none (the take is already a pose or legs track)'}
+        </Fact>
+        <Fact label="Budget profile">
+          {run.budgetVersion.name} v{run.budgetVersion.version}
+        </Fact>
+        <Fact label="Worst use">
+          <UseRatioBar ratio={run.worstRatio} label={run.worstCheck ?? undefined} />
+          {run.worstCheck ? (
+            <span className="ml-2 font-mono text-xs text-ink-600">{run.worstCheck}</span>
+          ) : null}
+        </Fact>
+        <Fact label="Queued / finished">
+          <span className="text-xs">
+            {formatDateTime(run.createdAt)}
+            {run.finishedAt ? ` / ${formatDateTime(run.finishedAt)}` : ''}
+          </span>
+        </Fact>
+      </dl>
+      {isRunActive(run.state) ? (
+        <div
+          className="flex items-center gap-3 rounded border border-ink-200 bg-white px-4 py-3"
+          role="status"
+        >
+          <span className="text-sm text-ink-800">
+            {run.state === 'queued' ? 'Waiting for a worker' : 'Cueing and checking'}
+          </span>
+          <ProgressBar percent={run.state === 'queued' ? 0 : run.progress} label="Run progress" />
+          {run.lastError ? (
+            <span className="text-xs text-signal-600">
+              Attempt {run.attempts} failed ({run.lastError}); trying again.
+            </span>
+          ) : null}
+        </div>
+      ) : null}
+      {run.state === 'failed' ? (
+        <div
+          role="alert"
+          className="rounded border border-stop-500 bg-stop-500/10 px-4 py-3 text-sm text-stop-700"
+        >
+          <p className="font-semibold">This run failed.</p>
+          <p>{run.failureReason ?? run.lastError ?? 'The worker gave no reason.'}</p>
+        </div>
+      ) : null}
+      {run.budgetIsDemo ? (
+        <div
+          role="note"
+          className="rounded border border-signal-400 bg-signal-400/15 px-4 py-3 text-sm text-signal-600"
+        >
+          <p className="font-semibold">Checked against the DEMO budget.</p>
+          <p>
+            Its envelope and limits are invented numbers for trying Legwork, not from any standard or code. A
+            safety reviewer must set the venue’s own budget before any result here means anything for riders.
+          </p>
+        </div>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,29 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { z } from 'zod';
+import { runSummarySchema } from '../../../../shared/schemas/pipeline';
+import type { RunSummary } from '../../../../shared/schemas/pipeline';
+import { api } from '../../../lib/api-client';
+import { tracksQueryKey } from './get-tracks';
+
+export interface RequestRunsInput {
+  studioId: string;
+  takeId: string;
+  venueIds: string[];
+}
+
+/** Queues one cue run of the take per venue, each with the venue's current profile versions. */
+export function requestRuns({ studioId, takeId, venueIds }: RequestRunsInput): Promise<RunSummary[]> {
+  return api.post(
+    `/api/studios/${encodeURIComponent(studioId)}/takes/${encodeURIComponent(takeId)}/runs`,
+    { venueIds },
+    z.array(runSummarySchema),
+  );
+}
+
+export function useRequestRuns(studioId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: requestRuns,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: tracksQueryKey(studioId) }),
+  });
+}

@@ -1,0 +1,97 @@
+import { Link } from 'react-router-dom';
+import type { RunSummary } from '../../../../shared/schemas/pipeline';
+import { ProgressBar, RunStateBadge, UseRatioBar } from '../../../components/charts/run-badges';
+import { Empty } from '../../../components/ui/status';
+import { Table, Td, Th } from '../../../components/ui/table';
+import { formatDateTime } from '../../../lib/format';
+
+function groupByVenue(
+  runs: readonly RunSummary[],
+): { venueId: string; venueName: string; runs: RunSummary[] }[] {
+  const groups = new Map<string, { venueId: string; venueName: string; runs: RunSummary[] }>();
+  for (const run of runs) {
+    const group = groups.get(run.venueId) ?? { venueId: run.venueId, venueName: run.venueName, runs: [] };
+    group.runs.push(run);
+    groups.set(run.venueId, group);
+  }
+  for (const group of groups.values()) group.runs.sort((a, b) => b.createdAt.localeCompare(a.createdAt));
+  return [...groups.values()].sort((a, b) => a.venueName.localeCompare(b.venueName));
+}
+
+function RunStatus({ run }: { run: RunSummary }) {
+  if (run.state === 'queued' || run.state === 'cueing') {
+    return (
+      <ProgressBar
+        percent={run.state === 'queued' ? 0 : run.progress}
+        label={`Progress of run for take ${run.takeNumber} at ${run.venueName}`}
+      />
+    );
+  }
+  if (run.state === 'failed')
+    return <span className="text-xs text-stop-700">{run.failureReason ?? 'failed'}</span>;
+  return (
+    <span className="inline-flex flex-wrap items-center gap-2">
+      <UseRatioBar ratio={run.worstRatio} label={run.worstCheck ?? undefined} />
+      {run.worstCheck ? <span className="font-mono text-xs text-ink-600">{run.worstCheck}</span> : null}
+      {run.findingCount !== null ? (
+        <span className="text-xs text-ink-600">
+          {run.findingCount} finding{run.findingCount === 1 ? '' : 's'}
+        </span>
+      ) : null}
+    </span>
+  );
+}
+
+/** Every cue run of the track, grouped per venue, newest first, with live progress while the worker runs them. */
+export function TrackRuns({ studioId, runs }: { studioId: string; runs: readonly RunSummary[] }) {
+  if (runs.length === 0) return <Empty>No cue runs yet. Choose “Cue for venues” on a take.</Empty>;
+  return (
+    <div className="flex flex-col gap-4">
+      {groupByVenue(runs).map((group) => (
+        <div key={group.venueId} className="flex flex-col gap-1.5">
+          <h3 className="text-sm font-medium text-ink-800">
+            <Link to={`/s/${studioId}/venues/${group.venueId}`} className="hover:underline">
+              {group.venueName}
+            </Link>
+          </h3>
+          <Table caption={`Runs at ${group.venueName}`}>
+            <thead>
+              <tr>
+                <Th className="text-right">Take</Th>
+                <Th>State</Th>
+                <Th>Worst use / progress</Th>
+                <Th>Queued</Th>
+                <Th>
+                  <span className="sr-only">Open</span>
+                </Th>
+              </tr>
+            </thead>
+            <tbody>
+              {group.runs.map((run) => (
+                <tr key={run.id}>
+                  <Td className="text-right font-mono">{run.takeNumber}</Td>
+                  <Td>
+                    <RunStateBadge state={run.state} />
+                  </Td>
+                  <Td>
+                    <RunStatus run={run} />
+                  </Td>
+                  <Td className="text-xs whitespace-nowrap text-ink-600">{formatDateTime(run.createdAt)}</Td>
+                  <Td className="text-right">
+                    <Link
+                      to={`/s/${studioId}/runs/${run.id}`}
+                      className="text-sm text-tealdeep-600 underline"
+                      aria-label={`Open run of take ${run.takeNumber} at ${run.venueName}`}
+                    >
+                      Open run
+                    </Link>
+                  </Td>
+                </tr>
+              ))}
+            </tbody>
+          </Table>
+        </div>
+      ))}
+    </div>
+  );
+}
