@@ -37,7 +37,9 @@ export function createApp(deps: AppDeps): LegworkApp {
   api.use('/invitations', invitationsRouter(deps));
   api.use('/studios/:studioId', studioRouter(deps));
   api.use('/dev/mailbox', devMailboxRouter(deps));
-  api.use((req, _res, next) => next(new HttpError(404, `No API route ${req.method} ${req.baseUrl}${req.path}.`)));
+  api.use((req, _res, next) =>
+    next(new HttpError(404, `No API route ${req.method} ${req.baseUrl}${req.path}.`)),
+  );
   app.use('/api', api);
 
   const staticDir = resolve(deps.env.STATIC_DIR);

@@ -31,7 +31,16 @@ export const envSchema = z.object({
   LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
   LOGIN_RATE_WINDOW_S: z.coerce.number().int().min(1).default(60),
   STATIC_DIR: z.string().default('dist'),
-  UPLOAD_MAX_BYTES: z.coerce.number().int().min(1).default(200 * 1024 * 1024),
+  /** How often an idle worker asks the queue for work (s). */
+  WORKER_POLL_S: z.coerce.number().min(0.5).max(60).default(1),
+  /** Retries of a cue-run job that throws (with exponential backoff from the delay). */
+  CUE_RUN_RETRY_LIMIT: z.coerce.number().int().min(0).max(20).default(3),
+  CUE_RUN_RETRY_DELAY_S: z.coerce.number().int().min(1).max(600).default(5),
+  UPLOAD_MAX_BYTES: z.coerce
+    .number()
+    .int()
+    .min(1)
+    .default(200 * 1024 * 1024),
 });
 
 export type Env = z.infer<typeof envSchema>;

@@ -12,7 +12,13 @@ export async function startQueue(databaseUrl: string, opts: { schema?: string } 
   for (const name of Object.values(QUEUES)) {
     const existing = await boss.getQueue(name);
     if (!existing) {
-      await boss.createQueue(name, { name, retryLimit: 3, retryDelay: 2, retryBackoff: true, expireInSeconds: 15 * 60 });
+      await boss.createQueue(name, {
+        name,
+        retryLimit: 3,
+        retryDelay: 2,
+        retryBackoff: true,
+        expireInSeconds: 15 * 60,
+      });
     }
   }
   return boss;

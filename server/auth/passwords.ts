@@ -1,7 +1,8 @@
 import argon2 from 'argon2';
 
 /** argon2id hash of a password. */
-export const hashPassword = (password: string): Promise<string> => argon2.hash(password, { type: argon2.argon2id });
+export const hashPassword = (password: string): Promise<string> =>
+  argon2.hash(password, { type: argon2.argon2id });
 
 // Verifying against this when the user is unknown keeps the timing of "unknown user" and
 // "wrong password" alike.

@@ -17,7 +17,12 @@ export const SESSION_COOKIE = 'legwork.sid';
 /** Session middleware with the store in the `session` table (created by the migrations). */
 export function sessionMiddleware(deps: AppDeps): { handler: RequestHandler; close: () => void } {
   const PgStore = connectPgSimple(session);
-  const store = new PgStore({ pool: deps.pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 600 });
+  const store = new PgStore({
+    pool: deps.pool,
+    tableName: 'session',
+    createTableIfMissing: false,
+    pruneSessionInterval: 600,
+  });
   const handler = session({
     name: SESSION_COOKIE,
     secret: deps.env.SESSION_SECRET,
@@ -82,7 +87,9 @@ export const requireCsrf: RequestHandler = (req, _res, next) => {
   const a = Buffer.from(sent);
   const b = Buffer.from(expected);
   if (!expected || a.length !== b.length || !timingSafeEqual(a, b)) {
-    return next(new HttpError(403, 'Missing or wrong CSRF token: fetch /api/auth/csrf and send it as x-csrf-token.'));
+    return next(
+      new HttpError(403, 'Missing or wrong CSRF token: fetch /api/auth/csrf and send it as x-csrf-token.'),
+    );
   }
   next();
 };

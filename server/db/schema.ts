@@ -2,7 +2,10 @@
 // server/db/scope.ts.
 import { sql } from 'drizzle-orm';
 import {
+  bigint,
   bigserial,
+  doublePrecision,
+  integer,
   index,
   jsonb,
   json,
@@ -10,6 +13,7 @@ import {
   primaryKey,
   text,
   timestamp,
+  unique,
   uniqueIndex,
   uuid,
   varchar,
@@ -52,7 +56,10 @@ export const memberships = pgTable(
       .notNull()
       .references(() => users.id, { onDelete: 'cascade' }),
     roles: text('roles').array().notNull(),
-    venueIds: uuid('venue_ids').array().notNull().default(sql`'{}'::uuid[]`),
+    venueIds: uuid('venue_ids')
+      .array()
+      .notNull()
+      .default(sql`'{}'::uuid[]`),
     createdAt: createdAt(),
   },
   (t) => [primaryKey({ columns: [t.studioId, t.userId] }), index('memberships_user_idx').on(t.userId)],
@@ -68,7 +75,10 @@ export const invitations = pgTable(
       .references(() => studios.id, { onDelete: 'cascade' }),
     email: text('email').notNull(),
     roles: text('roles').array().notNull(),
-    venueIds: uuid('venue_ids').array().notNull().default(sql`'{}'::uuid[]`),
+    venueIds: uuid('venue_ids')
+      .array()
+      .notNull()
+      .default(sql`'{}'::uuid[]`),
     tokenHash: text('token_hash').notNull(),
     invitedBy: uuid('invited_by').references(() => users.id, { onDelete: 'set null' }),
     expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
@@ -76,7 +86,10 @@ export const invitations = pgTable(
     revokedAt: timestamp('revoked_at', { withTimezone: true }),
     createdAt: createdAt(),
   },
-  (t) => [uniqueIndex('invitations_token_key').on(t.tokenHash), index('invitations_studio_idx').on(t.studioId)],
+  (t) => [
+    uniqueIndex('invitations_token_key').on(t.tokenHash),
+    index('invitations_studio_idx').on(t.studioId),
+  ],
 );
 export type InvitationRow = typeof invitations.$inferSelect;
 
@@ -124,7 +137,9 @@ export const auditEvents = pgTable(
     action: text('action').notNull(),
     subjectType: text('subject_type').notNull(),
     subjectId: text('subject_id'),
-    detail: jsonb('detail').notNull().default(sql`'{}'::jsonb`),
+    detail: jsonb('detail')
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [index('audit_events_studio_idx').on(t.studioId, t.id)],
@@ -139,4 +154,177 @@ export const sessions = pgTable(
     expire: timestamp('expire', { precision: 6 }).notNull(),
   },
   (t) => [index('IDX_session_expire').on(t.expire)],
+);
+
+// ── The pipeline: profiles, tracks, takes and cue runs ────────────────────────────────────────────
+
+/** A cueing or budget profile; its versions hold the parameters. */
+export const profiles = pgTable(
+  'profiles',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: uuid('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    kind: text('kind').$type<'cueing' | 'budget'>().notNull(),
+    name: text('name').notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index('profiles_studio_idx').on(t.studioId, t.kind)],
+);
+
+/** One version of a profile. Immutable once a run used it (`usedAt` set): edits make a new version. */
+export const profileVersions = pgTable(
+  'profile_versions',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: uuid('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    profileId: uuid('profile_id')
+      .notNull()
+      .references(() => profiles.id, { onDelete: 'cascade' }),
+    version: integer('version').notNull(),
+    params: jsonb('params').notNull(),
+    note: text('note').notNull().default(''),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    usedAt: timestamp('used_at', { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('profile_versions_key').on(t.profileId, t.version)],
+);
+export type ProfileVersionRow = typeof profileVersions.$inferSelect;
+
+/** Which profile versions a venue runs with now. */
+export const venueSettings = pgTable('venue_settings', {
+  venueId: uuid('venue_id')
+    .primaryKey()
+    .references(() => venues.id, { onDelete: 'cascade' }),
+  studioId: uuid('studio_id')
+    .notNull()
+    .references(() => studios.id, { onDelete: 'cascade' }),
+  cueingVersionId: uuid('cueing_version_id').references(() => profileVersions.id),
+  budgetVersionId: uuid('budget_version_id').references(() => profileVersions.id),
+});
+
+export const tracks = pgTable(
+  'tracks',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: uuid('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    title: text('title').notNull(),
+    film: text('film').notNull().default(''),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('tracks_studio_idx').on(t.studioId, t.updatedAt)],
+);
+export type TrackRow = typeof tracks.$inferSelect;
+
+export const takes = pgTable(
+  'takes',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: uuid('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    trackId: uuid('track_id')
+      .notNull()
+      .references(() => tracks.id, { onDelete: 'cascade' }),
+    number: integer('number').notNull(),
+    kind: text('kind').$type<'vehicle' | 'pose' | 'legs'>().notNull(),
+    layout: text('layout').$type<'vehicle' | 'hexapod' | 'planar3'>().notNull(),
+    fileName: text('file_name').notNull(),
+    storageKey: text('storage_key').notNull(),
+    sizeBytes: bigint('size_bytes', { mode: 'number' }).notNull(),
+    sha256: text('sha256').notNull(),
+    samples: integer('samples').notNull(),
+    duration_s: doublePrecision('duration_s').notNull(),
+    uploadedBy: uuid('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+    uploadedVia: text('uploaded_via').$type<'browser' | 'token'>().notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('takes_number_key').on(t.trackId, t.number), index('takes_studio_idx').on(t.studioId)],
+);
+export type TakeRow = typeof takes.$inferSelect;
+
+export const RUN_STATES = [
+  'queued',
+  'cueing',
+  'awaiting_review',
+  'held_by_budget',
+  'failed',
+  'cleared',
+  'held',
+  'released',
+  'withdrawn',
+  'superseded',
+] as const;
+export type RunState = (typeof RUN_STATES)[number];
+
+/** take x venue x cueing version x budget version; the worker's result lives in storage, its summary here. */
+export const cueRuns = pgTable(
+  'cue_runs',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: uuid('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    trackId: uuid('track_id')
+      .notNull()
+      .references(() => tracks.id, { onDelete: 'cascade' }),
+    takeId: uuid('take_id')
+      .notNull()
+      .references(() => takes.id, { onDelete: 'cascade' }),
+    venueId: uuid('venue_id')
+      .notNull()
+      .references(() => venues.id, { onDelete: 'cascade' }),
+    cueingVersionId: uuid('cueing_version_id').references(() => profileVersions.id),
+    budgetVersionId: uuid('budget_version_id')
+      .notNull()
+      .references(() => profileVersions.id),
+    state: text('state').$type<RunState>().notNull().default('queued'),
+    progress: integer('progress').notNull().default(0),
+    attempts: integer('attempts').notNull().default(0),
+    failureReason: text('failure_reason'),
+    lastError: text('last_error'),
+    /** Worst use ratio per check and subject, findings, exit code, notes: what lists and the run page need. */
+    summary: jsonb('summary'),
+    artifactPrefix: text('artifact_prefix'),
+    requestedBy: uuid('requested_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    startedAt: timestamp('started_at', { withTimezone: true }),
+    finishedAt: timestamp('finished_at', { withTimezone: true }),
+  },
+  (t) => [
+    // A pose or legs take has no cueing version: NULLs must count as equal here.
+    unique('cue_runs_inputs_key')
+      .on(t.takeId, t.venueId, t.cueingVersionId, t.budgetVersionId)
+      .nullsNotDistinct(),
+    index('cue_runs_studio_idx').on(t.studioId, t.state),
+    index('cue_runs_track_idx').on(t.trackId),
+  ],
+);
+export type CueRunRow = typeof cueRuns.$inferSelect;
+
+/** Per-studio tokens for pipelines that push takes; only the hash is kept. */
+export const apiTokens = pgTable(
+  'api_tokens',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: uuid('studio_id')
+      .notNull()
+      .references(() => studios.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    tokenHash: text('token_hash').notNull(),
+    prefix: text('prefix').notNull(),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    lastUsedAt: timestamp('last_used_at', { withTimezone: true }),
+    revokedAt: timestamp('revoked_at', { withTimezone: true }),
+  },
+  (t) => [uniqueIndex('api_tokens_hash_key').on(t.tokenHash), index('api_tokens_studio_idx').on(t.studioId)],
 );

@@ -6,7 +6,10 @@ export function parseBody<S extends z.ZodType>(schema: S, data: unknown, what = 
   const r = schema.safeParse(data ?? {});
   if (!r.success) {
     const issues = r.error.issues.map((i) => ({ path: i.path.join('.') || '(body)', message: i.message }));
-    throw badRequest(`${what} has ${issues.length === 1 ? 'a problem' : 'problems'}: ${issues.map((i) => `${i.path}: ${i.message}`).join('; ')}`, issues);
+    throw badRequest(
+      `${what} has ${issues.length === 1 ? 'a problem' : 'problems'}: ${issues.map((i) => `${i.path}: ${i.message}`).join('; ')}`,
+      issues,
+    );
   }
   return r.data;
 }

@@ -19,7 +19,8 @@ if (major < 20 || (major === 20 && minor < 19)) {
 const modules = join(root, 'node_modules');
 const lock = join(root, 'package-lock.json');
 const stamp = join(modules, '.package-lock.json');
-const stale = !existsSync(stamp) || (existsSync(lock) && statSync(lock).mtimeMs > statSync(stamp).mtimeMs + 1000);
+const stale =
+  !existsSync(stamp) || (existsSync(lock) && statSync(lock).mtimeMs > statSync(stamp).mtimeMs + 1000);
 if (!existsSync(modules) || stale) {
   console.log('legwork: installing node modules (npm ci) ...');
   const r = spawnSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: root, stdio: 'inherit' });

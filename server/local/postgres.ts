@@ -1,7 +1,15 @@
 // A private PostgreSQL cluster from Debian's packages, in a project folder, on 127.0.0.1 and a
 // non-default port. initdb refuses to run as root, so as root every step runs as `postgres`.
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readdirSync, writeFileSync, appendFileSync, chmodSync, statSync } from 'node:fs';
+import {
+  existsSync,
+  mkdirSync,
+  readdirSync,
+  writeFileSync,
+  appendFileSync,
+  chmodSync,
+  statSync,
+} from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import pg from 'pg';
 
@@ -28,7 +36,7 @@ export function ensurePostgresInstalled(log: (s: string) => void): string {
   if (bin) return bin;
   if (!isRoot) {
     throw new Error(
-      'PostgreSQL server binaries were not found. Install Debian\'s package with:\n  sudo apt-get install -y postgresql\nthen run the command again.',
+      "PostgreSQL server binaries were not found. Install Debian's package with:\n  sudo apt-get install -y postgresql\nthen run the command again.",
     );
   }
   log('installing PostgreSQL from Debian packages (apt-get install postgresql) ...');
@@ -97,7 +105,16 @@ export function startPostgres(opts: PostgresOptions): PostgresHandle {
     opts.log(`creating a PostgreSQL cluster in ${dataDir}`);
     mkdirSync(dataDir, { recursive: true, mode: 0o700 });
     if (isRoot) execFileSync('chown', ['postgres:postgres', dataDir]);
-    run(join(bin, 'initdb'), ['-D', dataDir, '-U', 'postgres', '--auth=trust', '-E', 'UTF8', '--locale=C.UTF-8']);
+    run(join(bin, 'initdb'), [
+      '-D',
+      dataDir,
+      '-U',
+      'postgres',
+      '--auth=trust',
+      '-E',
+      'UTF8',
+      '--locale=C.UTF-8',
+    ]);
     const conf = [
       '',
       '# Legwork: a private cluster on loopback only.',
@@ -121,7 +138,18 @@ export function startPostgres(opts: PostgresOptions): PostgresHandle {
     run(join(bin, 'pg_ctl'), ['-D', dataDir, '-m', 'fast', '-w', 'stop']);
   }
   // The port is given at start so a cluster can be reused on another port.
-  run(join(bin, 'pg_ctl'), ['-D', dataDir, '-l', logFile, '-o', `-p ${opts.port}`, '-w', '-t', '60', 'start']);
+  run(join(bin, 'pg_ctl'), [
+    '-D',
+    dataDir,
+    '-l',
+    logFile,
+    '-o',
+    `-p ${opts.port}`,
+    '-w',
+    '-t',
+    '60',
+    'start',
+  ]);
   let stopped = false;
   return {
     port: opts.port,

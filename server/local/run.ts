@@ -3,7 +3,16 @@
 // check). Every port and folder can be moved with LEGWORK_* variables.
 import { spawn, spawnSync } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync, mkdirSync } from 'node:fs';
+import {
+  existsSync,
+  mkdtempSync,
+  readFileSync,
+  readdirSync,
+  rmSync,
+  statSync,
+  writeFileSync,
+  mkdirSync,
+} from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { randomBytes } from 'node:crypto';
@@ -27,7 +36,9 @@ const root = resolve(import.meta.dirname, '..', '..');
 const log = (s: string) => console.log(`legwork: ${s}`);
 const bin = (name: string) => join(root, 'node_modules', '.bin', name);
 
-const basePort = Number(process.env.LEGWORK_PORT_BASE ?? (mode === 'test' || mode === 'services' ? 5580 : 5480));
+const basePort = Number(
+  process.env.LEGWORK_PORT_BASE ?? (mode === 'test' || mode === 'services' ? 5580 : 5480),
+);
 const ports = {
   app: Number(process.env.LEGWORK_APP_PORT ?? basePort),
   pg: Number(process.env.LEGWORK_PG_PORT ?? basePort + 1),
@@ -36,10 +47,9 @@ const ports = {
   vite: Number(process.env.LEGWORK_VITE_PORT ?? basePort - 1),
 };
 const throwaway = mode === 'test' || mode === 'services';
-const home =
-  throwaway
-    ? mkdtempSync(join(process.env.LEGWORK_TEST_TMP ?? tmpdir(), 'legwork-test-'))
-    : resolve(process.env.LEGWORK_HOME ?? join(root, '.legwork'));
+const home = throwaway
+  ? mkdtempSync(join(process.env.LEGWORK_TEST_TMP ?? tmpdir(), 'legwork-test-'))
+  : resolve(process.env.LEGWORK_HOME ?? join(root, '.legwork'));
 mkdirSync(home, { recursive: true });
 
 const children: ChildProcess[] = [];
@@ -100,7 +110,11 @@ function newestMtime(dir: string): number {
 /** Builds the client when dist/ is missing or older than its sources. */
 function ensureClientBuilt(force = false): void {
   const index = join(root, 'dist', 'index.html');
-  const sources = Math.max(newestMtime(join(root, 'src')), newestMtime(join(root, 'shared')), statSync(join(root, 'index.html')).mtimeMs);
+  const sources = Math.max(
+    newestMtime(join(root, 'src')),
+    newestMtime(join(root, 'shared')),
+    statSync(join(root, 'index.html')).mtimeMs,
+  );
   if (!force && existsSync(index) && statSync(index).mtimeMs >= sources) return;
   log('building the client (vite build) ...');
   const r = spawnSync(bin('vite'), ['build', '--logLevel', 'warn'], { cwd: root, stdio: 'inherit' });
@@ -135,7 +149,9 @@ async function startServices(database: string): Promise<Services> {
     HOST: '127.0.0.1',
     PORT: String(ports.app),
   };
-  log(`PostgreSQL on 127.0.0.1:${ports.pg}, S3 fake on 127.0.0.1:${ports.s3}, SMTP capture on 127.0.0.1:${ports.smtp}`);
+  log(
+    `PostgreSQL on 127.0.0.1:${ports.pg}, S3 fake on 127.0.0.1:${ports.s3}, SMTP capture on 127.0.0.1:${ports.smtp}`,
+  );
   return { pg, env };
 }
 
@@ -182,29 +198,47 @@ function printWelcome(url: string): void {
     ...DEMO_USERS.map((u) => `  ${u.email.padEnd(38)} ${u.roles.map((r) => ROLE_LABELS[r]).join(', ')}`),
     '',
     `Mail sent by the app lands in the local mailbox: ${url}/mailbox`,
-    'Motion can injure riders and staff: Legwork supports, and never replaces, the ride manufacturer\'s',
-    'engineering, the applicable codes and a qualified person\'s sign-off.',
+    "Motion can injure riders and staff: Legwork supports, and never replaces, the ride manufacturer's",
+    "engineering, the applicable codes and a qualified person's sign-off.",
     'Press Ctrl-C to stop everything.',
     '',
   ];
   console.log(lines.join('\n'));
 }
 
-function step(name: string, cmd: string, args: string[], env: Record<string, string> = {}): boolean {
+/** Runs one check as a child process. Asynchronous on purpose: the S3 fake and the SMTP capture live in
+ * this process, and a blocking spawnSync would leave them deaf while the tests talk to them. */
+async function step(
+  name: string,
+  cmd: string,
+  args: string[],
+  env: Record<string, string> = {},
+): Promise<boolean> {
   log(`── ${name}`);
   const t0 = Date.now();
-  const r = spawnSync(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
-  const ok = r.status === 0;
-  log(`── ${name}: ${ok ? 'passed' : `FAILED (exit ${r.status ?? r.signal})`} in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
+  const child = spawn(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
+  children.push(child);
+  const [code, signal] = await new Promise<[number | null, NodeJS.Signals | null]>((res) =>
+    child.once('exit', (c, s) => res([c, s])),
+  );
+  children.splice(children.indexOf(child), 1);
+  const ok = code === 0;
+  log(
+    `── ${name}: ${ok ? 'passed' : `FAILED (exit ${code ?? signal})`} in ${((Date.now() - t0) / 1000).toFixed(1)} s`,
+  );
   return ok;
 }
 
 function ensureChromium(): string {
-  const candidates = [process.env.CHROMIUM_PATH, '/usr/lib/chromium/chromium', '/usr/bin/chromium'].filter(Boolean) as string[];
+  const candidates = [process.env.CHROMIUM_PATH, '/usr/lib/chromium/chromium', '/usr/bin/chromium'].filter(
+    Boolean,
+  ) as string[];
   const found = candidates.find((p) => existsSync(p));
   if (found) return found;
   if (process.getuid?.() !== 0) {
-    throw new Error("Chromium for the browser tests is missing. Install Debian's package: sudo apt-get install -y chromium");
+    throw new Error(
+      "Chromium for the browser tests is missing. Install Debian's package: sudo apt-get install -y chromium",
+    );
   }
   log('installing Chromium from Debian packages for the browser tests ...');
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
@@ -223,10 +257,19 @@ async function main(): Promise<void> {
     env.PUBLIC_URL = url;
     if (mode === 'start') {
       ensureClientBuilt();
-      launch('server', bin('tsx'), ['server/index.ts'], { ...env, NODE_ENV: 'production', STATIC_DIR: join(root, 'dist') });
+      launch('server', bin('tsx'), ['server/index.ts'], {
+        ...env,
+        NODE_ENV: 'production',
+        STATIC_DIR: join(root, 'dist'),
+      });
     } else {
-      launch('server', bin('tsx'), ['watch', '--clear-screen=false', 'server/index.ts'], { ...env, STATIC_DIR: join(home, 'no-static') });
-      launch('vite', bin('vite'), ['--port', String(ports.vite), '--strictPort'], { PORT: String(ports.app) });
+      launch('server', bin('tsx'), ['watch', '--clear-screen=false', 'server/index.ts'], {
+        ...env,
+        STATIC_DIR: join(home, 'no-static'),
+      });
+      launch('vite', bin('vite'), ['--port', String(ports.vite), '--strictPort'], {
+        PORT: String(ports.app),
+      });
     }
     launch('worker', bin('tsx'), ['worker/index.ts'], env);
     await waitForHealth(`http://127.0.0.1:${ports.app}`);
@@ -239,7 +282,12 @@ async function main(): Promise<void> {
     const { pg, env } = await startServices('legwork_browser');
     const vars = { ...env, LEGWORK_TEST_PG_ADMIN_URL: pg.adminUrl(), NODE_ENV: 'test' };
     const file = join(home, 'env.sh');
-    writeFileSync(file, Object.entries(vars).map(([k, v]) => `export ${k}='${v}'`).join('\n') + '\n');
+    writeFileSync(
+      file,
+      Object.entries(vars)
+        .map(([k, v]) => `export ${k}='${v}'`)
+        .join('\n') + '\n',
+    );
     log(`services are up; their variables are in ${file}. Ctrl-C stops them.`);
     return;
   }
@@ -254,8 +302,12 @@ async function main(): Promise<void> {
     LEGWORK_SMOKE_PORT_BASE: String(basePort + 100),
     NODE_ENV: 'test',
   };
-  record('typecheck', step('typecheck', bin('tsc'), ['-p', 'tsconfig.json', '--noEmit']));
-  record('lint', step('lint (eslint)', bin('eslint'), ['.', '--max-warnings', '0']) && step('lint (prettier)', bin('prettier'), ['--check', '.', '--log-level', 'warn']));
+  record('typecheck', await step('typecheck', bin('tsc'), ['-p', 'tsconfig.json', '--noEmit']));
+  record(
+    'lint',
+    (await step('lint (eslint)', bin('eslint'), ['.', '--max-warnings', '0'])) &&
+      (await step('lint (prettier)', bin('prettier'), ['--check', '.', '--log-level', 'warn'])),
+  );
   let built = true;
   try {
     ensureClientBuilt(true);
@@ -263,17 +315,34 @@ async function main(): Promise<void> {
     built = false;
   }
   record('build', built);
-  record('unit and integration tests', step('unit and integration tests', bin('vitest'), ['run', '--project', 'unit', '--project', 'integration'], testEnv));
+  record(
+    'unit and integration tests',
+    await step(
+      'unit and integration tests',
+      bin('vitest'),
+      ['run', '--project', 'unit', '--project', 'integration'],
+      testEnv,
+    ),
+  );
   if (built) {
     let browserOk = false;
     try {
       const chromium = ensureChromium();
       await prepareDatabase(env.DATABASE_URL!);
       const url = `http://127.0.0.1:${ports.app}`;
-      launch('server', bin('tsx'), ['server/index.ts'], { ...env, PUBLIC_URL: url, STATIC_DIR: join(root, 'dist'), LOGIN_RATE_LIMIT: '1000' });
+      launch('server', bin('tsx'), ['server/index.ts'], {
+        ...env,
+        PUBLIC_URL: url,
+        STATIC_DIR: join(root, 'dist'),
+        LOGIN_RATE_LIMIT: '1000',
+      });
       launch('worker', bin('tsx'), ['worker/index.ts'], env);
       await waitForHealth(url);
-      browserOk = step('browser tests', bin('vitest'), ['run', '--project', 'browser'], { ...testEnv, LEGWORK_BASE_URL: url, CHROMIUM_PATH: chromium });
+      browserOk = await step('browser tests', bin('vitest'), ['run', '--project', 'browser'], {
+        ...testEnv,
+        LEGWORK_BASE_URL: url,
+        CHROMIUM_PATH: chromium,
+      });
     } catch (e) {
       log(`browser tests could not run: ${(e as Error).message}`);
     }

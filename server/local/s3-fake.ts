@@ -9,7 +9,11 @@ export interface S3FakeHandle {
 }
 
 /** Starts s3rver on `port` storing into `dir`, and makes sure `bucket` exists. */
-export async function startS3Fake(opts: { dir: string; port: number; bucket: string }): Promise<S3FakeHandle> {
+export async function startS3Fake(opts: {
+  dir: string;
+  port: number;
+  bucket: string;
+}): Promise<S3FakeHandle> {
   mkdirSync(opts.dir, { recursive: true });
   const server = new S3rver({
     address: '127.0.0.1',

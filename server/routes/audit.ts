@@ -21,13 +21,19 @@ export function auditRouter(deps: AppDeps): Router {
   r.get('/', requirePermission('audit.read'), async (req, res) => {
     const q = parseBody(query, req.query, 'The audit query');
     const studioId = req.member!.studioId;
-    const memberIds = deps.db.select({ id: memberships.userId }).from(memberships).where(eq(memberships.studioId, studioId));
+    const memberIds = deps.db
+      .select({ id: memberships.userId })
+      .from(memberships)
+      .where(eq(memberships.studioId, studioId));
     const rows = await deps.db
       .select()
       .from(auditEvents)
       .where(
         and(
-          or(eq(auditEvents.studioId, studioId), and(isNull(auditEvents.studioId), inArray(auditEvents.actorUserId, memberIds))),
+          or(
+            eq(auditEvents.studioId, studioId),
+            and(isNull(auditEvents.studioId), inArray(auditEvents.actorUserId, memberIds)),
+          ),
           q.before ? lt(auditEvents.id, q.before) : undefined,
         ),
       )

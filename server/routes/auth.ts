@@ -37,7 +37,8 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic): Router
     skipSuccessfulRequests: true,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
+    keyGenerator: (req) =>
+      `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
     handler: (_req, res) => {
       res.status(429).json({ error: 'Too many sign-in attempts. Wait a minute and try again.' });
     },
@@ -63,7 +64,13 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic): Router
       throw new HttpError(401, 'Wrong e-mail or password.');
     }
     await logIn(req, user);
-    await recordAudit(deps.db, { studioId: null, actor: user, action: 'auth.signed_in', subjectType: 'user', subjectId: user.id });
+    await recordAudit(deps.db, {
+      studioId: null,
+      actor: user,
+      action: 'auth.signed_in',
+      subjectType: 'user',
+      subjectId: user.id,
+    });
     res.json(await loadMe(deps.db, user));
   });
 
@@ -71,7 +78,13 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic): Router
     const user = req.user;
     await new Promise<void>((resolve, reject) => req.logout((e) => (e ? reject(e) : resolve())));
     if (user) {
-      await recordAudit(deps.db, { studioId: null, actor: user, action: 'auth.signed_out', subjectType: 'user', subjectId: user.id });
+      await recordAudit(deps.db, {
+        studioId: null,
+        actor: user,
+        action: 'auth.signed_out',
+        subjectType: 'user',
+        subjectId: user.id,
+      });
     }
     res.status(204).end();
   });
@@ -97,7 +110,13 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic): Router
         subject: 'Legwork: choose a new password',
         text: `Hello ${u.name},\n\nSomeone asked to reset your Legwork password. To choose a new one, open this link within an hour:\n\n${link}\n\nIf it was not you, ignore this message; your password stays as it is.\n`,
       });
-      await recordAudit(deps.db, { studioId: null, actor: null, action: 'auth.reset_requested', subjectType: 'user', subjectId: u.id });
+      await recordAudit(deps.db, {
+        studioId: null,
+        actor: null,
+        action: 'auth.reset_requested',
+        subjectType: 'user',
+        subjectId: u.id,
+      });
     }
     // The same answer whether or not the address is known.
     res.status(202).json({ sent: true });
@@ -108,7 +127,13 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic): Router
     const [reset] = await deps.db
       .select()
       .from(passwordResets)
-      .where(and(eq(passwordResets.tokenHash, hashToken(body.token)), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, now())))
+      .where(
+        and(
+          eq(passwordResets.tokenHash, hashToken(body.token)),
+          isNull(passwordResets.usedAt),
+          gt(passwordResets.expiresAt, now()),
+        ),
+      )
       .limit(1);
     if (!reset) throw new HttpError(400, 'This reset link is not valid any more. Ask for a new one.');
     const hash = await hashPassword(body.password);
@@ -117,7 +142,13 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic): Router
       await tx.update(passwordResets).set({ usedAt: now() }).where(eq(passwordResets.id, reset.id));
       // Sign the user out everywhere: a reset often follows a lost device.
       await tx.execute(sql`delete from "session" where sess->'passport'->>'user' = ${reset.userId}`);
-      await recordAudit(tx, { studioId: null, actor: null, action: 'auth.password_reset', subjectType: 'user', subjectId: reset.userId });
+      await recordAudit(tx, {
+        studioId: null,
+        actor: null,
+        action: 'auth.password_reset',
+        subjectType: 'user',
+        subjectId: reset.userId,
+      });
     });
     res.status(204).end();
   });

@@ -10,7 +10,10 @@ const state = async (f: () => Promise<unknown>): Promise<string> => {
     await Promise.race([
       f(),
       new Promise((_, reject) => {
-        timer = setTimeout(() => reject(new Error(`no answer within ${CHECK_TIMEOUT_MS} ms`)), CHECK_TIMEOUT_MS);
+        timer = setTimeout(
+          () => reject(new Error(`no answer within ${CHECK_TIMEOUT_MS} ms`)),
+          CHECK_TIMEOUT_MS,
+        );
       }),
     ]);
     return 'ok';

@@ -25,7 +25,8 @@ export function invitationsRouter(deps: AppDeps): Router {
       .limit(1);
     if (!row) throw notFound('This invitation does not exist or was revoked.');
     if (row.inv.acceptedAt) throw new HttpError(410, 'This invitation was already accepted.');
-    if (row.inv.expiresAt <= now()) throw new HttpError(410, 'This invitation has expired. Ask the studio admin for a new one.');
+    if (row.inv.expiresAt <= now())
+      throw new HttpError(410, 'This invitation has expired. Ask the studio admin for a new one.');
     return row;
   };
 
@@ -42,7 +43,10 @@ export function invitationsRouter(deps: AppDeps): Router {
     let user: Express.User;
     if (existing) {
       const signedInAsInvitee = req.user?.id === existing.id;
-      if (!signedInAsInvitee && !(body.password && (await verifyPassword(existing.passwordHash, body.password)))) {
+      if (
+        !signedInAsInvitee &&
+        !(body.password && (await verifyPassword(existing.passwordHash, body.password)))
+      ) {
         throw new HttpError(401, `Sign in as ${inv.email}, or enter that account's password, to accept.`);
       }
       user = { id: existing.id, email: existing.email, name: existing.name };
@@ -54,14 +58,20 @@ export function invitationsRouter(deps: AppDeps): Router {
         ]);
       }
       const passwordHash = await hashPassword(body.password);
-      const [created] = await deps.db.insert(users).values({ email: inv.email, name: body.name, passwordHash }).returning();
+      const [created] = await deps.db
+        .insert(users)
+        .values({ email: inv.email, name: body.name, passwordHash })
+        .returning();
       user = { id: created!.id, email: created!.email, name: created!.name };
     }
     await deps.db.transaction(async (tx) => {
       await tx
         .insert(memberships)
         .values({ studioId: inv.studioId, userId: user.id, roles: inv.roles, venueIds: inv.venueIds })
-        .onConflictDoUpdate({ target: [memberships.studioId, memberships.userId], set: { roles: inv.roles, venueIds: inv.venueIds } });
+        .onConflictDoUpdate({
+          target: [memberships.studioId, memberships.userId],
+          set: { roles: inv.roles, venueIds: inv.venueIds },
+        });
       await tx.update(invitations).set({ acceptedAt: now() }).where(eq(invitations.id, inv.id));
       await recordAudit(tx, {
         studioId: inv.studioId,

@@ -20,16 +20,26 @@ import { studios } from '../db/schema';
 const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000;
 
 /** Venue ids must name venues of this studio; an operator needs at least one. */
-async function checkVenueScope(db: Db | Tx, studioId: string, roles: string[], venueIds: string[]): Promise<string[]> {
+async function checkVenueScope(
+  db: Db | Tx,
+  studioId: string,
+  roles: string[],
+  venueIds: string[],
+): Promise<string[]> {
   const unique = [...new Set(venueIds)];
   if (unique.length) {
     const found = await db.select({ id: venues.id }).from(venues).where(inStudio(venues, studioId));
     const ok = new Set(found.map((v) => v.id));
     const bad = unique.filter((id) => !ok.has(id));
-    if (bad.length) throw badRequest('Unknown venue.', [{ path: 'venueIds', message: `not a venue of this studio: ${bad.join(', ')}` }]);
+    if (bad.length)
+      throw badRequest('Unknown venue.', [
+        { path: 'venueIds', message: `not a venue of this studio: ${bad.join(', ')}` },
+      ]);
   }
   if (roles.includes('venue_operator') && unique.length === 0) {
-    throw badRequest('A venue operator needs at least one venue.', [{ path: 'venueIds', message: 'choose the venues this operator works at' }]);
+    throw badRequest('A venue operator needs at least one venue.', [
+      { path: 'venueIds', message: 'choose the venues this operator works at' },
+    ]);
   }
   return roles.includes('venue_operator') ? unique : [];
 }
@@ -73,12 +83,19 @@ export function membersRouter(deps: AppDeps): Router {
     const m = req.member!;
     const body = parseBody(memberUpdateBody, req.body, 'The member form');
     const userId = String(req.params.userId);
-    const [before] = await listMembers(m.studioId, /^[0-9a-f-]{36}$/i.test(userId) ? userId : '00000000-0000-0000-0000-000000000000');
+    const [before] = await listMembers(
+      m.studioId,
+      /^[0-9a-f-]{36}$/i.test(userId) ? userId : '00000000-0000-0000-0000-000000000000',
+    );
     if (!before) throw notFound('No such member in this studio.');
     await deps.db.transaction(async (tx) => {
       const venueIds = await checkVenueScope(tx, m.studioId, body.roles, body.venueIds);
-      if (before.roles.includes('studio_admin') && !body.roles.includes('studio_admin')) await keepOneAdmin(tx, m.studioId, userId);
-      await tx.update(memberships).set({ roles: body.roles, venueIds }).where(inStudio(memberships, m.studioId, eq(memberships.userId, userId)));
+      if (before.roles.includes('studio_admin') && !body.roles.includes('studio_admin'))
+        await keepOneAdmin(tx, m.studioId, userId);
+      await tx
+        .update(memberships)
+        .set({ roles: body.roles, venueIds })
+        .where(inStudio(memberships, m.studioId, eq(memberships.userId, userId)));
       await recordAudit(tx, {
         studioId: m.studioId,
         actor: req.user!,
@@ -95,7 +112,10 @@ export function membersRouter(deps: AppDeps): Router {
   r.delete('/members/:userId', admin, async (req, res) => {
     const m = req.member!;
     const userId = String(req.params.userId);
-    const [before] = await listMembers(m.studioId, /^[0-9a-f-]{36}$/i.test(userId) ? userId : '00000000-0000-0000-0000-000000000000');
+    const [before] = await listMembers(
+      m.studioId,
+      /^[0-9a-f-]{36}$/i.test(userId) ? userId : '00000000-0000-0000-0000-000000000000',
+    );
     if (!before) throw notFound('No such member in this studio.');
     await deps.db.transaction(async (tx) => {
       if (before.roles.includes('studio_admin')) await keepOneAdmin(tx, m.studioId, userId);
@@ -116,7 +136,15 @@ export function membersRouter(deps: AppDeps): Router {
     const rows = await deps.db
       .select()
       .from(invitations)
-      .where(inStudio(invitations, req.member!.studioId, isNull(invitations.revokedAt), isNull(invitations.acceptedAt), gt(invitations.expiresAt, now())))
+      .where(
+        inStudio(
+          invitations,
+          req.member!.studioId,
+          isNull(invitations.revokedAt),
+          isNull(invitations.acceptedAt),
+          gt(invitations.expiresAt, now()),
+        ),
+      )
       .orderBy(desc(invitations.createdAt));
     res.json(rows.map(toInvitation));
   });
@@ -129,7 +157,10 @@ export function membersRouter(deps: AppDeps): Router {
       .from(users)
       .innerJoin(memberships, and(eq(memberships.userId, users.id), eq(memberships.studioId, m.studioId)))
       .where(eq(users.email, body.email));
-    if (existing) throw badRequest('Already a member.', [{ path: 'email', message: 'this person is already a member of the studio' }]);
+    if (existing)
+      throw badRequest('Already a member.', [
+        { path: 'email', message: 'this person is already a member of the studio' },
+      ]);
     const venueIds = await checkVenueScope(deps.db, m.studioId, body.roles, body.venueIds);
     const token = newToken();
     const [studio] = await deps.db.select().from(studios).where(eq(studios.id, m.studioId));
@@ -175,7 +206,14 @@ export function membersRouter(deps: AppDeps): Router {
       .where(inStudio(invitations, m.studioId, eq(invitations.id, id), isNull(invitations.revokedAt)))
       .returning();
     if (!row) throw notFound('No such invitation.');
-    await recordAudit(deps.db, { studioId: m.studioId, actor: req.user!, action: 'invitation.revoked', subjectType: 'invitation', subjectId: id, detail: { email: row.email } });
+    await recordAudit(deps.db, {
+      studioId: m.studioId,
+      actor: req.user!,
+      action: 'invitation.revoked',
+      subjectType: 'invitation',
+      subjectId: id,
+      detail: { email: row.email },
+    });
     res.status(204).end();
   });
 
@@ -189,6 +227,8 @@ async function keepOneAdmin(tx: Tx, studioId: string, leavingUserId: string): Pr
     .from(memberships)
     .where(inStudio(memberships, studioId, ne(memberships.userId, leavingUserId)));
   if (!others.some((o) => o.roles.includes('studio_admin'))) {
-    throw badRequest('A studio needs at least one studio admin.', [{ path: 'roles', message: 'keep at least one studio admin' }]);
+    throw badRequest('A studio needs at least one studio admin.', [
+      { path: 'roles', message: 'keep at least one studio admin' },
+    ]);
   }
 }

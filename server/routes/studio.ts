@@ -1,24 +1,42 @@
 // Everything under /api/studios/:studioId. Membership is checked once here: a studio the user does
 // not belong to answers 404, exactly like one that does not exist.
 import { Router } from 'express';
-import { and, eq } from 'drizzle-orm';
+import { and, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppDeps } from '../deps';
-import { memberships, studios } from '../db/schema';
-import { notFound } from '../lib/http-error';
-import { requireUser } from '../auth/session';
+import { apiTokens, memberships, studios } from '../db/schema';
+import { HttpError, notFound } from '../lib/http-error';
+import { TOKEN_ROLE } from '../auth/permissions';
+import { hashToken } from '../lib/tokens';
 import { membersRouter } from './members';
 import { venuesRouter } from './venues';
 import { auditRouter } from './audit';
 import { overviewRouter } from './overview';
+import { tracksRouter } from './pipeline-tracks';
+import { runsRouter, takeRunsRouter } from './pipeline-runs';
+import { profilesRouter, tokensRouter, venueSettingsRouter } from './pipeline-profiles';
 
 const uuid = z.string().uuid();
 
 export function studioRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
-  r.use(requireUser);
   r.use(async (req, _res, next) => {
     const studioId = String((req.params as Record<string, string>).studioId ?? '');
+    const bearer = req.headers.authorization?.match(/^Bearer\s+(\S+)$/)?.[1];
+    if (bearer) {
+      // A pipeline's API token: it belongs to one studio; any other studio is not found.
+      const [tok] = await deps.db
+        .select({ id: apiTokens.id, studioId: apiTokens.studioId })
+        .from(apiTokens)
+        .where(and(eq(apiTokens.tokenHash, hashToken(bearer)), isNull(apiTokens.revokedAt)))
+        .limit(1);
+      if (!tok) throw new HttpError(401, 'This API token is not valid (unknown or revoked).');
+      if (tok.studioId !== studioId) throw notFound('No such studio.');
+      await deps.db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.id, tok.id));
+      req.member = { studioId, userId: null, tokenId: tok.id, roles: [TOKEN_ROLE], venueIds: [] };
+      return next();
+    }
+    if (!req.user) throw new HttpError(401, 'Sign in first.');
     if (!uuid.safeParse(studioId).success) throw notFound('No such studio.');
     const [m] = await deps.db
       .select({ roles: memberships.roles, venueIds: memberships.venueIds })
@@ -27,11 +45,17 @@ export function studioRouter(deps: AppDeps): Router {
       .where(and(eq(memberships.studioId, studioId), eq(memberships.userId, req.user!.id)))
       .limit(1);
     if (!m) throw notFound('No such studio.');
-    req.member = { studioId, userId: req.user!.id, roles: m.roles, venueIds: m.venueIds };
+    req.member = { studioId, userId: req.user!.id, tokenId: null, roles: m.roles, venueIds: m.venueIds };
     next();
   });
   r.use('/overview', overviewRouter(deps));
   r.use('/venues', venuesRouter(deps));
+  r.use('/venues', venueSettingsRouter(deps));
+  r.use('/tracks', tracksRouter(deps));
+  r.use('/takes', takeRunsRouter(deps));
+  r.use('/runs', runsRouter(deps));
+  r.use('/profiles', profilesRouter(deps));
+  r.use('/tokens', tokensRouter(deps));
   r.use('/', membersRouter(deps));
   r.use('/audit', auditRouter(deps));
   return r;

@@ -11,7 +11,10 @@ import type { Venue } from '../../shared/schemas/api';
 export function visibleVenueFilter(member: { roles: string[]; venueIds: string[] }): SQL | undefined {
   const onlyOperator = member.roles.every((r) => r === 'venue_operator');
   if (!onlyOperator) return undefined;
-  return inArray(venues.id, member.venueIds.length ? member.venueIds : ['00000000-0000-0000-0000-000000000000']);
+  return inArray(
+    venues.id,
+    member.venueIds.length ? member.venueIds : ['00000000-0000-0000-0000-000000000000'],
+  );
 }
 
 interface BaseSummary {
@@ -25,7 +28,11 @@ export function venuesRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
   r.get('/', requirePermission('venues.read'), async (req, res) => {
     const m = req.member!;
-    const rows = await deps.db.select().from(venues).where(inStudio(venues, m.studioId, visibleVenueFilter(m))).orderBy(asc(venues.name));
+    const rows = await deps.db
+      .select()
+      .from(venues)
+      .where(inStudio(venues, m.studioId, visibleVenueFilter(m)))
+      .orderBy(asc(venues.name));
     const out: Venue[] = rows.map((v) => {
       const base = v.base as BaseSummary;
       return {

@@ -1,7 +1,6 @@
 import 'express-session';
 
 declare global {
-  // eslint-disable-next-line @typescript-eslint/no-namespace
   namespace Express {
     interface User {
       id: string;
@@ -10,7 +9,13 @@ declare global {
     }
     interface Request {
       /** Set by the studio router once membership is checked. */
-      member?: { studioId: string; userId: string; roles: string[]; venueIds: string[] };
+      member?: {
+        studioId: string;
+        userId: string | null;
+        tokenId: string | null;
+        roles: string[];
+        venueIds: string[];
+      };
     }
   }
 }

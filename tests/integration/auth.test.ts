@@ -64,7 +64,8 @@ describe('sign-in', () => {
   it('rate-limits repeated sign-in attempts for one address', async () => {
     const c = new Client(t.app);
     const statuses: number[] = [];
-    for (let i = 0; i < 5; i++) statuses.push((await c.signIn('pia.producer@lanternfish.example', 'guess-' + i)).status);
+    for (let i = 0; i < 5; i++)
+      statuses.push((await c.signIn('pia.producer@lanternfish.example', 'guess-' + i)).status);
     // LOGIN_RATE_LIMIT is 3 for this file: three answers, then refusals.
     expect(statuses).toEqual([401, 401, 401, 429, 429]);
   });
@@ -98,13 +99,19 @@ describe('password reset by e-mail', () => {
     const link = firstLink(mail.text);
     expect(link.pathname).toBe('/reset-password');
     const token = link.searchParams.get('token')!;
-    const done = await c.send('post', '/api/auth/password-reset/confirm', { token, password: 'a-brand-new-password' });
+    const done = await c.send('post', '/api/auth/password-reset/confirm', {
+      token,
+      password: 'a-brand-new-password',
+    });
     expect(done.status).toBe(204);
     expect((await old.get('/api/auth/me')).status).toBe(401);
     expect((await new Client(t.app).signIn(email, 'a-brand-new-password')).status).toBe(200);
     expect((await new Client(t.app).signIn(email)).status).toBe(401);
     // The link works once.
-    const again = await c.send('post', '/api/auth/password-reset/confirm', { token, password: 'another-new-password' });
+    const again = await c.send('post', '/api/auth/password-reset/confirm', {
+      token,
+      password: 'another-new-password',
+    });
     expect(again.status).toBe(400);
   });
 
@@ -136,9 +143,16 @@ describe('invitations by e-mail', () => {
     await c.refreshCsrf();
     const missing = await c.send('post', `/api/invitations/${token}/accept`, {});
     expect(missing.status).toBe(400);
-    const acc = await c.send('post', `/api/invitations/${token}/accept`, { name: 'Noor Haddad', password: 'long-enough-pass' });
+    const acc = await c.send('post', `/api/invitations/${token}/accept`, {
+      name: 'Noor Haddad',
+      password: 'long-enough-pass',
+    });
     expect(acc.status).toBe(200);
-    expect(acc.body.memberships[0]).toMatchObject({ studioId: t.seed.studioId, roles: ['venue_operator'], venueIds: [t.seed.venueIds.arcade] });
+    expect(acc.body.memberships[0]).toMatchObject({
+      studioId: t.seed.studioId,
+      roles: ['venue_operator'],
+      venueIds: [t.seed.venueIds.arcade],
+    });
     // Used once only.
     expect((await c.get(`/api/invitations/${token}`)).status).toBe(410);
     const log = await admin.get(`/api/studios/${t.seed.studioId}/audit`).expect(200);
@@ -150,7 +164,10 @@ describe('invitations by e-mail', () => {
   it('refuses an invitation form with bad fields and says which', async () => {
     const admin = new Client(t.app);
     await admin.signIn('ada.admin@lanternfish.example');
-    const res = await admin.send('post', `/api/studios/${t.seed.studioId}/invitations`, { email: 'not-an-email', roles: [] });
+    const res = await admin.send('post', `/api/studios/${t.seed.studioId}/invitations`, {
+      email: 'not-an-email',
+      roles: [],
+    });
     expect(res.status).toBe(400);
     const paths = res.body.issues.map((i: { path: string }) => i.path).sort();
     expect(paths).toEqual(['email', 'roles']);
@@ -160,11 +177,16 @@ describe('invitations by e-mail', () => {
     const admin = new Client(t.app);
     await admin.signIn('ada.admin@lanternfish.example');
     const rosa = t.seed.userIds['rosa.reviewer@lanternfish.example']!;
-    const ch = await admin.send('patch', `/api/studios/${t.seed.studioId}/members/${rosa}`, { roles: ['safety_reviewer', 'motion_engineer'] });
+    const ch = await admin.send('patch', `/api/studios/${t.seed.studioId}/members/${rosa}`, {
+      roles: ['safety_reviewer', 'motion_engineer'],
+    });
     expect(ch.status).toBe(200);
     expect(ch.body.roles).toEqual(['safety_reviewer', 'motion_engineer']);
     const log = await admin.get(`/api/studios/${t.seed.studioId}/audit?limit=5`).expect(200);
     const ev = log.body.events.find((e: { action: string }) => e.action === 'member.roles_changed');
-    expect(ev.detail).toMatchObject({ from: ['safety_reviewer'], to: ['safety_reviewer', 'motion_engineer'] });
+    expect(ev.detail).toMatchObject({
+      from: ['safety_reviewer'],
+      to: ['safety_reviewer', 'motion_engineer'],
+    });
   });
 });

@@ -33,19 +33,47 @@ interface RouteCase {
 
 const ALL: Role[] = ['producer', 'motion_engineer', 'safety_reviewer', 'venue_operator', 'studio_admin'];
 const ROUTES: RouteCase[] = [
-  { name: 'overview', method: 'get', path: (i) => `/api/studios/${i.studio}/overview`, allowed: ALL, ok: 200 },
+  {
+    name: 'overview',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/overview`,
+    allowed: ALL,
+    ok: 200,
+  },
   { name: 'venues', method: 'get', path: (i) => `/api/studios/${i.studio}/venues`, allowed: ALL, ok: 200 },
-  { name: 'members list', method: 'get', path: (i) => `/api/studios/${i.studio}/members`, allowed: ['studio_admin'], ok: 200 },
-  { name: 'invitations list', method: 'get', path: (i) => `/api/studios/${i.studio}/invitations`, allowed: ['studio_admin'], ok: 200 },
+  {
+    name: 'members list',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/members`,
+    allowed: ['studio_admin'],
+    ok: 200,
+  },
+  {
+    name: 'invitations list',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/invitations`,
+    allowed: ['studio_admin'],
+    ok: 200,
+  },
   {
     name: 'invite',
     method: 'post',
     path: (i) => `/api/studios/${i.studio}/invitations`,
-    body: () => ({ email: `someone.${Math.random().toString(36).slice(2)}@example.test`, roles: ['producer'] }),
+    body: () => ({
+      email: `someone.${Math.random().toString(36).slice(2)}@example.test`,
+      roles: ['producer'],
+    }),
     allowed: ['studio_admin'],
     ok: 201,
   },
-  { name: 'revoke invitation', method: 'delete', path: (i) => `/api/studios/${i.studio}/invitations/${i.invitation}`, allowed: ['studio_admin'], ok: 204, targets: true },
+  {
+    name: 'revoke invitation',
+    method: 'delete',
+    path: (i) => `/api/studios/${i.studio}/invitations/${i.invitation}`,
+    allowed: ['studio_admin'],
+    ok: 204,
+    targets: true,
+  },
   {
     name: 'change roles',
     method: 'patch',
@@ -55,11 +83,28 @@ const ROUTES: RouteCase[] = [
     ok: 200,
     targets: true,
   },
-  { name: 'audit log', method: 'get', path: (i) => `/api/studios/${i.studio}/audit`, allowed: ['studio_admin'], ok: 200 },
-  { name: 'remove member', method: 'delete', path: (i) => `/api/studios/${i.studio}/members/${i.member}`, allowed: ['studio_admin'], ok: 204, targets: true },
+  {
+    name: 'audit log',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/audit`,
+    allowed: ['studio_admin'],
+    ok: 200,
+  },
+  {
+    name: 'remove member',
+    method: 'delete',
+    path: (i) => `/api/studios/${i.studio}/members/${i.member}`,
+    allowed: ['studio_admin'],
+    ok: 204,
+    targets: true,
+  },
 ];
 
-async function call(c: Client, r: RouteCase, ids: { studio: string; member: string; invitation: string; venue: string }) {
+async function call(
+  c: Client,
+  r: RouteCase,
+  ids: { studio: string; member: string; invitation: string; venue: string },
+) {
   const path = r.path(ids);
   return r.method === 'get' ? c.get(path) : c.send(r.method, path, r.body?.(ids));
 }
@@ -71,13 +116,19 @@ async function freshTargets(admin: Client, studio: string) {
   expect(inv.status).toBe(201);
   const invitation = (inv.body as { id: string }).id;
   const memberEmail = `member.${Math.random().toString(36).slice(2)}@example.test`;
-  const inv2 = await admin.send('post', `/api/studios/${studio}/invitations`, { email: memberEmail, roles: ['producer'] });
+  const inv2 = await admin.send('post', `/api/studios/${studio}/invitations`, {
+    email: memberEmail,
+    roles: ['producer'],
+  });
   const { waitForMail, firstLink } = await import('./support/services');
   const mail = await waitForMail(memberEmail, /invites you/);
   const token = firstLink(mail.text).pathname.split('/').pop()!;
   const joiner = new Client(t.app);
   await joiner.refreshCsrf();
-  const acc = await joiner.send('post', `/api/invitations/${token}/accept`, { name: 'Target Person', password: 'a-long-password-1' });
+  const acc = await joiner.send('post', `/api/invitations/${token}/accept`, {
+    name: 'Target Person',
+    password: 'a-long-password-1',
+  });
   expect(acc.status, JSON.stringify(acc.body)).toBe(200);
   expect(inv2.status).toBe(201);
   const member = (acc.body as { user: { id: string } }).user.id;
@@ -94,7 +145,10 @@ describe('role by route matrix', () => {
           const admin = clients.get('ada.admin@lanternfish.example')!;
           const targets = r.targets
             ? await freshTargets(admin, t.seed.studioId)
-            : { invitation: '00000000-0000-4000-8000-000000000000', member: '00000000-0000-4000-8000-000000000000' };
+            : {
+                invitation: '00000000-0000-4000-8000-000000000000',
+                member: '00000000-0000-4000-8000-000000000000',
+              };
           const c = clients.get(user.email)!;
           const res = await call(c, r, { studio: t.seed.studioId, venue: t.seed.venueIds.dome, ...targets });
           if (allowed) expect(res.status, JSON.stringify(res.body)).toBe(r.ok);
@@ -107,19 +161,29 @@ describe('role by route matrix', () => {
   it('refuses every studio route without a session (401)', async () => {
     const c = new Client(t.app);
     for (const r of ROUTES) {
-      const res = await call(c, r, { studio: t.seed.studioId, member: t.seed.userIds['pia.producer@lanternfish.example']!, invitation: t.seed.venueIds.dome, venue: t.seed.venueIds.dome });
+      const res = await call(c, r, {
+        studio: t.seed.studioId,
+        member: t.seed.userIds['pia.producer@lanternfish.example']!,
+        invitation: t.seed.venueIds.dome,
+        venue: t.seed.venueIds.dome,
+      });
       expect(res.status, r.name).toBe(401);
     }
   });
 });
 
 describe('tenancy', () => {
-  it("answers 404 on every route of a studio the user does not belong to, even for its admin", async () => {
+  it('answers 404 on every route of a studio the user does not belong to, even for its admin', async () => {
     // The demo admin of Lanternfish is also an admin of Quarry Hill; the producer is only in Lanternfish.
     const c = new Client(t.app);
     await c.signIn('pia.producer@lanternfish.example');
     for (const r of ROUTES) {
-      const res = await call(c, r, { studio: t.seed.secondStudioId, member: t.seed.userIds['ada.admin@lanternfish.example']!, invitation: t.seed.venueIds.dome, venue: t.seed.venueIds.dome });
+      const res = await call(c, r, {
+        studio: t.seed.secondStudioId,
+        member: t.seed.userIds['ada.admin@lanternfish.example']!,
+        invitation: t.seed.venueIds.dome,
+        venue: t.seed.venueIds.dome,
+      });
       expect(res.status, r.name).toBe(404);
     }
   });
@@ -128,14 +192,27 @@ describe('tenancy', () => {
     const admin = new Client(t.app);
     await admin.signIn('ada.admin@lanternfish.example');
     // Quarry Hill's admin makes an invitation there; Lanternfish routes must not reach it.
-    const inv = await admin.send('post', `/api/studios/${t.seed.secondStudioId}/invitations`, { email: 'cross.check@example.test', roles: ['producer'] });
+    const inv = await admin.send('post', `/api/studios/${t.seed.secondStudioId}/invitations`, {
+      email: 'cross.check@example.test',
+      roles: ['producer'],
+    });
     expect(inv.status).toBe(201);
     const id = (inv.body as { id: string }).id;
-    expect((await admin.send('delete', `/api/studios/${t.seed.studioId}/invitations/${id}`)).status).toBe(404);
+    expect((await admin.send('delete', `/api/studios/${t.seed.studioId}/invitations/${id}`)).status).toBe(
+      404,
+    );
     // A Lanternfish member id through the Quarry Hill path: not a member there, so 404.
     const pia = t.seed.userIds['pia.producer@lanternfish.example']!;
-    expect((await admin.send('patch', `/api/studios/${t.seed.secondStudioId}/members/${pia}`, { roles: ['producer'] })).status).toBe(404);
-    expect((await admin.send('delete', `/api/studios/${t.seed.secondStudioId}/members/${pia}`)).status).toBe(404);
+    expect(
+      (
+        await admin.send('patch', `/api/studios/${t.seed.secondStudioId}/members/${pia}`, {
+          roles: ['producer'],
+        })
+      ).status,
+    ).toBe(404);
+    expect((await admin.send('delete', `/api/studios/${t.seed.secondStudioId}/members/${pia}`)).status).toBe(
+      404,
+    );
   });
 
   it('answers 404 for a studio id that is not a uuid or does not exist', async () => {
@@ -172,7 +249,9 @@ describe('tenancy', () => {
     const admin = new Client(t.app);
     await admin.signIn('ada.admin@lanternfish.example');
     const ada = t.seed.userIds['ada.admin@lanternfish.example']!;
-    const res = await admin.send('patch', `/api/studios/${t.seed.studioId}/members/${ada}`, { roles: ['producer'] });
+    const res = await admin.send('patch', `/api/studios/${t.seed.studioId}/members/${ada}`, {
+      roles: ['producer'],
+    });
     expect(res.status).toBe(400);
     expect((res.body as { error: string }).error).toMatch(/at least one studio admin/);
   });

@@ -37,12 +37,22 @@ describe('npm start', () => {
   it('starts every service, serves the sign-in page, signs in, and stops on request', async () => {
     child = spawn('node', [join(root, 'server/local/bootstrap.mjs'), 'start'], {
       cwd: root,
-      env: { ...process.env, LEGWORK_HOME: home, LEGWORK_PORT_BASE: String(base), SESSION_SECRET: '', DATABASE_URL: '' },
+      env: {
+        ...process.env,
+        LEGWORK_HOME: home,
+        LEGWORK_PORT_BASE: String(base),
+        SESSION_SECRET: '',
+        DATABASE_URL: '',
+      },
       stdio: ['ignore', 'pipe', 'pipe'],
     });
     child.stdout!.on('data', (d: Buffer) => (output += d.toString()));
     child.stderr!.on('data', (d: Buffer) => (output += d.toString()));
-    await waitFor(async () => (await fetch(`${url}/api/health`, { signal: AbortSignal.timeout(5000) })).ok, '/api/health', 150_000);
+    await waitFor(
+      async () => (await fetch(`${url}/api/health`, { signal: AbortSignal.timeout(5000) })).ok,
+      '/api/health',
+      150_000,
+    );
     await waitFor(async () => output.includes('Demo sign-ins'), 'the welcome text', 10_000);
     expect(output).toContain(`Legwork is running at ${url}`);
 

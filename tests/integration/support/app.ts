@@ -19,14 +19,24 @@ export interface TestApp {
 }
 
 /** createApp over a fresh seeded database and the real local storage and mail. */
-export async function startTestApp(opts: { env?: Record<string, string>; queue?: boolean } = {}): Promise<TestApp> {
+export async function startTestApp(
+  opts: { env?: Record<string, string>; queue?: boolean } = {},
+): Promise<TestApp> {
   const tdb = await createTestDb();
   const env = testEnv(tdb.url, opts.env);
   const seed = await seedDemo(tdb.db);
   const storage = createStorage(env);
   const mailer = createMailer(env);
   const boss = opts.queue ? await startQueue(tdb.url) : null;
-  const { app, close } = createApp({ env, db: tdb.db, pool: tdb.pool, storage, mailer, boss, log: () => undefined });
+  const { app, close } = createApp({
+    env,
+    db: tdb.db,
+    pool: tdb.pool,
+    storage,
+    mailer,
+    boss,
+    log: () => undefined,
+  });
   return {
     app,
     tdb,
@@ -61,6 +71,10 @@ export class Client {
     if (!this.csrf) await this.refreshCsrf();
     const req = this.agent[method](path).set('x-csrf-token', this.csrf);
     return body ? req.send(body) : req;
+  }
+  /** An unsent request carrying the CSRF token (call refreshCsrf or signIn first); for raw bodies. */
+  raw(method: 'post' | 'put', path: string) {
+    return this.agent[method](path).set('x-csrf-token', this.csrf);
   }
   async signIn(email: string, password = DEMO_PASSWORD) {
     await this.refreshCsrf();

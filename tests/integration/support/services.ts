@@ -13,7 +13,9 @@ import type { Env } from '../../../server/env';
 export function adminUrl(): string {
   const url = process.env.LEGWORK_TEST_PG_ADMIN_URL;
   if (!url) {
-    throw new Error('LEGWORK_TEST_PG_ADMIN_URL is not set: run the integration tests through `npm test`, which starts the services.');
+    throw new Error(
+      'LEGWORK_TEST_PG_ADMIN_URL is not set: run the integration tests through `npm test`, which starts the services.',
+    );
   }
   return url;
 }
@@ -51,7 +53,12 @@ export async function createTestDb(): Promise<TestDb> {
 
 /** The environment the server would see, pointed at this test database. */
 export function testEnv(databaseUrl: string, overrides: Record<string, string> = {}): Env {
-  return parseEnv({ ...process.env, DATABASE_URL: databaseUrl, PUBLIC_URL: 'http://legwork.test', ...overrides });
+  return parseEnv({
+    ...process.env,
+    DATABASE_URL: databaseUrl,
+    PUBLIC_URL: 'http://legwork.test',
+    ...overrides,
+  });
 }
 
 export interface Mail {
@@ -67,7 +74,10 @@ export async function waitForMail(to: string, subject: RegExp, timeout_ms = 15_0
   if (!dir) throw new Error('MAIL_CAPTURE_DIR is not set: run through `npm test`.');
   const until = Date.now() + timeout_ms;
   while (Date.now() < until) {
-    const names = (await readdir(dir)).filter((n) => n.endsWith('.json')).sort().reverse();
+    const names = (await readdir(dir))
+      .filter((n) => n.endsWith('.json'))
+      .sort()
+      .reverse();
     for (const n of names) {
       const m = JSON.parse(await readFile(join(dir, n), 'utf8')) as Mail;
       if (m.to.includes(to) && subject.test(m.subject)) return m;

@@ -1,0 +1,83 @@
+// Rows to API shapes, and the small queries the pipeline routes share.
+import { and, desc, eq, inArray } from 'drizzle-orm';
+import type { Db } from '../db/client';
+import { cueRuns, profileVersions, profiles, takes, venues } from '../db/schema';
+import type { CueRunRow, TakeRow } from '../db/schema';
+import { inStudio } from '../db/scope';
+import type { RunSummary, Take } from '../../shared/schemas/pipeline';
+
+export const toTake = (t: TakeRow): Take => ({
+  id: t.id,
+  trackId: t.trackId,
+  number: t.number,
+  kind: t.kind,
+  layout: t.layout,
+  fileName: t.fileName,
+  sizeBytes: t.sizeBytes,
+  sha256: t.sha256,
+  samples: t.samples,
+  duration_s: t.duration_s,
+  uploadedVia: t.uploadedVia,
+  createdAt: t.createdAt.toISOString(),
+});
+
+interface StoredSummary {
+  uses?: { check: string; subject: string; ratio: number }[];
+  findings?: unknown[];
+}
+
+/** The worst use of a finished run (the headline number of lists). */
+export function worstUse(summary: unknown): { ratio: number; check: string } | null {
+  const uses = (summary as StoredSummary | null)?.uses;
+  if (!uses?.length) return null;
+  let worst = uses[0]!;
+  for (const u of uses) if (u.ratio > worst.ratio) worst = u;
+  return { ratio: worst.ratio, check: `${worst.check} ${worst.subject}` };
+}
+
+export function toRunSummary(r: CueRunRow, takeNumber: number, venueName: string): RunSummary {
+  const w = worstUse(r.summary);
+  const findings = (r.summary as StoredSummary | null)?.findings;
+  return {
+    id: r.id,
+    trackId: r.trackId,
+    takeId: r.takeId,
+    takeNumber,
+    venueId: r.venueId,
+    venueName,
+    state: r.state,
+    progress: r.progress,
+    failureReason: r.failureReason,
+    lastError: r.lastError,
+    attempts: r.attempts,
+    worstRatio: w?.ratio ?? null,
+    worstCheck: w?.check ?? null,
+    findingCount: findings ? findings.length : null,
+    createdAt: r.createdAt.toISOString(),
+    finishedAt: r.finishedAt?.toISOString() ?? null,
+  };
+}
+
+/** Runs of a studio (optionally of some tracks), newest first, with take number and venue name. */
+export async function listRuns(db: Db, studioId: string, trackIds?: string[]): Promise<RunSummary[]> {
+  if (trackIds && trackIds.length === 0) return [];
+  const rows = await db
+    .select({ run: cueRuns, takeNumber: takes.number, venueName: venues.name })
+    .from(cueRuns)
+    .innerJoin(takes, eq(takes.id, cueRuns.takeId))
+    .innerJoin(venues, eq(venues.id, cueRuns.venueId))
+    .where(inStudio(cueRuns, studioId, trackIds ? inArray(cueRuns.trackId, trackIds) : undefined))
+    .orderBy(desc(cueRuns.createdAt));
+  return rows.map((r) => toRunSummary(r.run, r.takeNumber, r.venueName));
+}
+
+/** Name and number of a profile version of this studio, or null. */
+export async function versionRef(db: Db, studioId: string, id: string | null) {
+  if (!id) return null;
+  const [v] = await db
+    .select({ id: profileVersions.id, version: profileVersions.version, name: profiles.name })
+    .from(profileVersions)
+    .innerJoin(profiles, and(eq(profiles.id, profileVersions.profileId)))
+    .where(inStudio(profileVersions, studioId, eq(profileVersions.id, id)));
+  return v ?? null;
+}

@@ -1,0 +1,145 @@
+// Cue runs: queue them for venues, read them, their chart series and their artifacts.
+import { Router } from 'express';
+import type { Response } from 'express';
+import type { Readable } from 'node:stream';
+import { GetObjectCommand } from '@aws-sdk/client-s3';
+import { eq } from 'drizzle-orm';
+import type { AppDeps } from '../deps';
+import { cueRuns, takes, tracks, venues } from '../db/schema';
+import { inStudio } from '../db/scope';
+import { requirePermission } from '../auth/require-permission';
+import { parseBody } from '../lib/validate';
+import { HttpError, notFound } from '../lib/http-error';
+import { actorOf } from '../lib/actor';
+import { requestRunsBody } from '../../shared/schemas/pipeline';
+import type { RunDetail } from '../../shared/schemas/pipeline';
+import { queueRuns } from '../pipeline/queue-runs';
+import { toRunSummary, toTake, versionRef } from '../pipeline/views';
+
+const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
+const ARTIFACTS = new Set([
+  'legs.csv',
+  'pose.csv',
+  'findings.json',
+  'spectra.json',
+  'report.txt',
+  'manifest.json',
+  'series.json',
+]);
+
+export function takeRunsRouter(deps: AppDeps): Router {
+  const r = Router({ mergeParams: true });
+  r.post('/:takeId/runs', requirePermission('runs.request'), async (req, res) => {
+    const studioId = req.member!.studioId;
+    const takeId = String(req.params.takeId);
+    const body = parseBody(requestRunsBody, req.body, 'The run request');
+    if (!isUuid(takeId)) throw notFound('No such take.');
+    const [take] = await deps.db
+      .select()
+      .from(takes)
+      .where(inStudio(takes, studioId, eq(takes.id, takeId)));
+    if (!take) throw notFound('No such take.');
+    if (!deps.boss) throw new HttpError(503, 'The job queue is not running; try again shortly.');
+    const made = await queueRuns(deps.pool, deps.boss, {
+      studioId,
+      take,
+      venueIds: [...new Set(body.venueIds)],
+      actor: actorOf(req),
+      now: (deps.now ?? (() => new Date()))(),
+      retry: { limit: deps.env.CUE_RUN_RETRY_LIMIT, delay_s: deps.env.CUE_RUN_RETRY_DELAY_S },
+    });
+    const names = await deps.db
+      .select({ id: venues.id, name: venues.name })
+      .from(venues)
+      .where(inStudio(venues, studioId));
+    res
+      .status(201)
+      .json(
+        made.map((m) =>
+          toRunSummary(m.run, take.number, names.find((v) => v.id === m.run.venueId)?.name ?? ''),
+        ),
+      );
+  });
+  return r;
+}
+
+export function runsRouter(deps: AppDeps): Router {
+  const r = Router({ mergeParams: true });
+
+  const load = async (studioId: string, runId: string) => {
+    if (!isUuid(runId)) throw notFound('No such run.');
+    const [row] = await deps.db
+      .select({ run: cueRuns, take: takes, venueName: venues.name, trackTitle: tracks.title })
+      .from(cueRuns)
+      .innerJoin(takes, eq(takes.id, cueRuns.takeId))
+      .innerJoin(venues, eq(venues.id, cueRuns.venueId))
+      .innerJoin(tracks, eq(tracks.id, cueRuns.trackId))
+      .where(inStudio(cueRuns, studioId, eq(cueRuns.id, runId)));
+    if (!row) throw notFound('No such run.');
+    return row;
+  };
+
+  r.get('/:runId', requirePermission('runs.read'), async (req, res) => {
+    const studioId = req.member!.studioId;
+    const { run, take, venueName, trackTitle } = await load(studioId, String(req.params.runId));
+    const s = run.summary as null | {
+      within: boolean;
+      findings: never[];
+      uses: never[];
+      comfort: unknown;
+      notes: string[];
+      budgetIsDemo: boolean;
+      files: { name: string; sha256: string; size_bytes: number }[];
+    };
+    const budgetVersion = await versionRef(deps.db, studioId, run.budgetVersionId);
+    const out: RunDetail = {
+      ...toRunSummary(run, take.number, venueName),
+      trackTitle,
+      take: toTake(take),
+      cueingVersion: await versionRef(deps.db, studioId, run.cueingVersionId),
+      budgetVersion: budgetVersion ?? { id: run.budgetVersionId, name: '(removed)', version: 0 },
+      result: s
+        ? {
+            within: s.within,
+            findings: s.findings,
+            uses: s.uses,
+            ...(s.comfort ? { comfort: s.comfort as never } : {}),
+            notes: s.notes,
+          }
+        : null,
+      budgetIsDemo: s ? s.budgetIsDemo : null,
+      files: s?.files.filter((f) => f.name !== 'series.json') ?? [],
+    };
+    res.json(out);
+  });
+
+  const streamArtifact = async (
+    studioId: string,
+    runId: string,
+    name: string,
+    res: Response,
+    download: boolean,
+  ) => {
+    const { run } = await load(studioId, runId);
+    if (!run.artifactPrefix) throw notFound('This run has no results yet.');
+    if (!ARTIFACTS.has(name)) throw notFound('No such file in this run.');
+    const obj = await deps.storage.client
+      .send(new GetObjectCommand({ Bucket: deps.storage.bucket, Key: `${run.artifactPrefix}${name}` }))
+      .catch(() => {
+        throw notFound(`${name} is missing from storage.`);
+      });
+    res.type(name.endsWith('.json') ? 'application/json' : name.endsWith('.csv') ? 'text/csv' : 'text/plain');
+    if (download) res.attachment(name);
+    if (obj.ContentLength !== undefined) res.setHeader('content-length', String(obj.ContentLength));
+    (obj.Body as Readable).pipe(res);
+  };
+
+  r.get('/:runId/series', requirePermission('runs.read'), async (req, res) => {
+    await streamArtifact(req.member!.studioId, String(req.params.runId), 'series.json', res, false);
+  });
+
+  r.get('/:runId/files/:name', requirePermission('runs.read'), async (req, res) => {
+    await streamArtifact(req.member!.studioId, String(req.params.runId), String(req.params.name), res, true);
+  });
+  return r;
+}

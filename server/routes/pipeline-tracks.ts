@@ -1,0 +1,210 @@
+// Tracks and takes: list, create, read, and the streamed take upload (browser session or API token).
+import { Router } from 'express';
+import { randomUUID } from 'node:crypto';
+import { and, asc, count, desc, eq, exists, ilike, inArray, max, sql } from 'drizzle-orm';
+import type { AppDeps } from '../deps';
+import { cueRuns, takes, tracks } from '../db/schema';
+import { inStudio } from '../db/scope';
+import { requirePermission } from '../auth/require-permission';
+import { parseBody } from '../lib/validate';
+import { notFound } from '../lib/http-error';
+import { actorOf } from '../lib/actor';
+import { recordAudit } from '../audit';
+import { createTrackBody, tracksQuery, uploadQuery } from '../../shared/schemas/pipeline';
+import type { TrackDetail, TrackPage, TrackSummary } from '../../shared/schemas/pipeline';
+import { receiveTake } from '../pipeline/upload';
+import { listRuns, toTake } from '../pipeline/views';
+
+const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
+
+export function tracksRouter(deps: AppDeps): Router {
+  const r = Router({ mergeParams: true });
+  const now = deps.now ?? (() => new Date());
+
+  const detail = async (studioId: string, trackId: string): Promise<TrackDetail> => {
+    if (!isUuid(trackId)) throw notFound('No such track.');
+    const [t] = await deps.db
+      .select()
+      .from(tracks)
+      .where(inStudio(tracks, studioId, eq(tracks.id, trackId)));
+    if (!t) throw notFound('No such track.');
+    const tk = await deps.db
+      .select()
+      .from(takes)
+      .where(inStudio(takes, studioId, eq(takes.trackId, t.id)))
+      .orderBy(desc(takes.number));
+    return {
+      id: t.id,
+      title: t.title,
+      film: t.film,
+      createdAt: t.createdAt.toISOString(),
+      takes: tk.map(toTake),
+      runs: await listRuns(deps.db, studioId, [t.id]),
+    };
+  };
+
+  r.get('/', requirePermission('tracks.read'), async (req, res) => {
+    const q = parseBody(tracksQuery, req.query, 'The track list query');
+    const studioId = req.member!.studioId;
+    const runFilter =
+      q.state || q.venueId
+        ? exists(
+            deps.db
+              .select({ one: sql`1` })
+              .from(cueRuns)
+              .where(
+                and(
+                  eq(cueRuns.trackId, tracks.id),
+                  q.state ? eq(cueRuns.state, q.state) : undefined,
+                  q.venueId ? eq(cueRuns.venueId, q.venueId) : undefined,
+                ),
+              ),
+          )
+        : undefined;
+    const where = inStudio(
+      tracks,
+      studioId,
+      runFilter,
+      q.q ? ilike(tracks.title, `%${q.q.replace(/[%_\\]/g, (c) => `\\${c}`)}%`) : undefined,
+    );
+    const [total] = await deps.db.select({ n: count() }).from(tracks).where(where);
+    const sortCol =
+      q.sort === 'title' ? tracks.title : q.sort === 'createdAt' ? tracks.createdAt : tracks.updatedAt;
+    const rows = await deps.db
+      .select()
+      .from(tracks)
+      .where(where)
+      .orderBy(q.dir === 'asc' ? asc(sortCol) : desc(sortCol), asc(tracks.id))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize);
+    const ids = rows.map((t) => t.id);
+    const takeCounts = ids.length
+      ? await deps.db
+          .select({ trackId: takes.trackId, n: count() })
+          .from(takes)
+          .where(inStudio(takes, studioId, inArray(takes.trackId, ids)))
+          .groupBy(takes.trackId)
+      : [];
+    const runs = await listRuns(deps.db, studioId, ids);
+    const items: TrackSummary[] = rows.map((t) => {
+      // Latest run per venue (runs come newest first).
+      const seen = new Set<string>();
+      const perVenue: TrackSummary['venues'] = [];
+      for (const run of runs) {
+        if (run.trackId !== t.id || seen.has(run.venueId)) continue;
+        seen.add(run.venueId);
+        perVenue.push({
+          venueId: run.venueId,
+          venueName: run.venueName,
+          state: run.state,
+          worstRatio: run.worstRatio,
+        });
+      }
+      perVenue.sort((a, b) => a.venueName.localeCompare(b.venueName));
+      return {
+        id: t.id,
+        title: t.title,
+        film: t.film,
+        takes: takeCounts.find((c) => c.trackId === t.id)?.n ?? 0,
+        createdAt: t.createdAt.toISOString(),
+        updatedAt: t.updatedAt.toISOString(),
+        venues: perVenue,
+      };
+    });
+    const page: TrackPage = { items, total: total?.n ?? 0, page: q.page, pageSize: q.pageSize };
+    res.json(page);
+  });
+
+  r.post('/', requirePermission('tracks.write'), async (req, res) => {
+    const body = parseBody(createTrackBody, req.body, 'The track form');
+    const studioId = req.member!.studioId;
+    const [t] = await deps.db.transaction(async (tx) => {
+      const rows = await tx
+        .insert(tracks)
+        .values({ studioId, title: body.title, film: body.film, createdBy: req.user?.id ?? null })
+        .returning();
+      await recordAudit(tx, {
+        studioId,
+        actor: actorOf(req),
+        action: 'track.created',
+        subjectType: 'track',
+        subjectId: rows[0]!.id,
+        detail: { title: body.title },
+      });
+      return rows;
+    });
+    res.status(201).json(await detail(studioId, t!.id));
+  });
+
+  r.get('/:trackId', requirePermission('tracks.read'), async (req, res) => {
+    res.json(await detail(req.member!.studioId, String(req.params.trackId)));
+  });
+
+  r.post('/:trackId/takes', requirePermission('takes.upload'), async (req, res) => {
+    const studioId = req.member!.studioId;
+    const trackId = String(req.params.trackId);
+    const { fileName } = parseBody(uploadQuery, req.query, 'The upload');
+    if (!isUuid(trackId)) throw notFound('No such track.');
+    const [t] = await deps.db
+      .select()
+      .from(tracks)
+      .where(inStudio(tracks, studioId, eq(tracks.id, trackId)));
+    if (!t) throw notFound('No such track.');
+    const takeId = randomUUID();
+    const key = `studios/${studioId}/takes/${takeId}/${fileName}`;
+    const got = await receiveTake(req, {
+      storage: deps.storage,
+      key,
+      fileName,
+      maxBytes: deps.env.UPLOAD_MAX_BYTES,
+    });
+    const n = got.track.length;
+    const duration_s = n > 1 ? (got.track.time_s[n - 1] as number) - (got.track.time_s[0] as number) : 0;
+    const row = await deps.db.transaction(async (tx) => {
+      // Numbers per track: lock the track row so two uploads cannot take the same number.
+      await tx.execute(sql`select id from tracks where id = ${t.id} for update`);
+      const [last] = await tx
+        .select({ n: max(takes.number) })
+        .from(takes)
+        .where(inStudio(takes, studioId, eq(takes.trackId, t.id)));
+      const [inserted] = await tx
+        .insert(takes)
+        .values({
+          id: takeId,
+          studioId,
+          trackId: t.id,
+          number: (last?.n ?? 0) + 1,
+          kind: got.track.kind,
+          layout: got.track.layout,
+          fileName,
+          storageKey: key,
+          sizeBytes: got.sizeBytes,
+          sha256: got.sha256,
+          samples: n,
+          duration_s,
+          uploadedBy: req.user?.id ?? null,
+          uploadedVia: req.member!.tokenId ? 'token' : 'browser',
+        })
+        .returning();
+      await tx.update(tracks).set({ updatedAt: now() }).where(eq(tracks.id, t.id));
+      await recordAudit(tx, {
+        studioId,
+        actor: actorOf(req),
+        action: 'take.uploaded',
+        subjectType: 'take',
+        subjectId: takeId,
+        detail: {
+          trackId: t.id,
+          fileName,
+          sha256: got.sha256,
+          sizeBytes: got.sizeBytes,
+          kind: got.track.kind,
+        },
+      });
+      return inserted!;
+    });
+    res.status(201).json(toTake(row));
+  });
+
+  return r;
+}

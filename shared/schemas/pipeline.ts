@@ -1,0 +1,187 @@
+// API shapes of the pipeline: tracks, takes, cue runs, profiles, venue settings and API tokens.
+import { z } from 'zod';
+import { checkResultSchema } from './findings';
+
+export const TAKE_KINDS = ['vehicle', 'pose', 'legs'] as const;
+
+export const RUN_STATE_LABELS = {
+  queued: 'Queued',
+  cueing: 'Cueing',
+  awaiting_review: 'Awaiting review',
+  held_by_budget: 'Held by budget',
+  failed: 'Failed',
+  cleared: 'Cleared',
+  held: 'Held',
+  released: 'Released',
+  withdrawn: 'Withdrawn',
+  superseded: 'Superseded',
+} as const;
+export type RunStateName = keyof typeof RUN_STATE_LABELS;
+export const runStateSchema = z.enum(Object.keys(RUN_STATE_LABELS) as [RunStateName, ...RunStateName[]]);
+
+export const createTrackBody = z.object({
+  title: z.string().trim().min(1, 'required').max(200),
+  film: z.string().trim().max(200).default(''),
+});
+
+export const tracksQuery = z.object({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  sort: z.enum(['title', 'updatedAt', 'createdAt']).default('updatedAt'),
+  dir: z.enum(['asc', 'desc']).default('desc'),
+  state: runStateSchema.optional(),
+  venueId: z.string().uuid().optional(),
+  q: z.string().trim().max(200).optional(),
+});
+
+export const uploadQuery = z.object({
+  fileName: z
+    .string()
+    .trim()
+    .min(1, 'required')
+    .max(200)
+    .regex(/^[^/\\]+\.csv(\.gz)?$/i, 'must be a .csv or .csv.gz file name'),
+});
+
+export const requestRunsBody = z.object({
+  venueIds: z.array(z.string().uuid()).min(1, 'choose at least one venue'),
+});
+
+export const takeSchema = z.object({
+  id: z.string().uuid(),
+  trackId: z.string().uuid(),
+  number: z.number().int(),
+  kind: z.enum(TAKE_KINDS),
+  layout: z.enum(['vehicle', 'hexapod', 'planar3']),
+  fileName: z.string(),
+  sizeBytes: z.number(),
+  sha256: z.string(),
+  samples: z.number().int(),
+  duration_s: z.number(),
+  uploadedVia: z.enum(['browser', 'token']),
+  createdAt: z.string(),
+});
+export type Take = z.infer<typeof takeSchema>;
+
+export const useSummarySchema = z.object({ check: z.string(), subject: z.string(), ratio: z.number() });
+
+export const runSummarySchema = z.object({
+  id: z.string().uuid(),
+  trackId: z.string().uuid(),
+  takeId: z.string().uuid(),
+  takeNumber: z.number().int(),
+  venueId: z.string().uuid(),
+  venueName: z.string(),
+  state: runStateSchema,
+  progress: z.number().int(),
+  failureReason: z.string().nullable(),
+  lastError: z.string().nullable(),
+  attempts: z.number().int(),
+  /** Worst use ratio over every check, or null before the run finished. */
+  worstRatio: z.number().nullable(),
+  worstCheck: z.string().nullable(),
+  findingCount: z.number().int().nullable(),
+  createdAt: z.string(),
+  finishedAt: z.string().nullable(),
+});
+export type RunSummary = z.infer<typeof runSummarySchema>;
+
+export const runDetailSchema = runSummarySchema.extend({
+  trackTitle: z.string(),
+  take: takeSchema,
+  cueingVersion: z.object({ id: z.string(), name: z.string(), version: z.number() }).nullable(),
+  budgetVersion: z.object({ id: z.string(), name: z.string(), version: z.number() }),
+  result: checkResultSchema.extend({ notes: z.array(z.string()).optional() }).nullable(),
+  budgetIsDemo: z.boolean().nullable(),
+  files: z.array(z.object({ name: z.string(), sha256: z.string(), size_bytes: z.number() })),
+});
+export type RunDetail = z.infer<typeof runDetailSchema>;
+
+export const trackSummarySchema = z.object({
+  id: z.string().uuid(),
+  title: z.string(),
+  film: z.string(),
+  takes: z.number().int(),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+  /** Latest run state per venue. */
+  venues: z.array(
+    z.object({
+      venueId: z.string(),
+      venueName: z.string(),
+      state: runStateSchema,
+      worstRatio: z.number().nullable(),
+    }),
+  ),
+});
+export type TrackSummary = z.infer<typeof trackSummarySchema>;
+
+export const trackPageSchema = z.object({
+  items: z.array(trackSummarySchema),
+  total: z.number().int(),
+  page: z.number().int(),
+  pageSize: z.number().int(),
+});
+export type TrackPage = z.infer<typeof trackPageSchema>;
+
+export const trackDetailSchema = z.object({
+  id: z.string().uuid(),
+  title: z.string(),
+  film: z.string(),
+  createdAt: z.string(),
+  takes: z.array(takeSchema),
+  runs: z.array(runSummarySchema),
+});
+export type TrackDetail = z.infer<typeof trackDetailSchema>;
+
+export const profileKindSchema = z.enum(['cueing', 'budget']);
+export const createProfileBody = z.object({
+  kind: profileKindSchema,
+  name: z.string().trim().min(1).max(120),
+  params: z.unknown(),
+  note: z.string().max(2000).default(''),
+});
+export const newVersionBody = z.object({ params: z.unknown(), note: z.string().max(2000).default('') });
+
+export const profileVersionSchema = z.object({
+  id: z.string().uuid(),
+  version: z.number().int(),
+  note: z.string(),
+  used: z.boolean(),
+  createdAt: z.string(),
+  params: z.unknown(),
+});
+export const profileSchema = z.object({
+  id: z.string().uuid(),
+  kind: profileKindSchema,
+  name: z.string(),
+  versions: z.array(profileVersionSchema),
+});
+export type Profile = z.infer<typeof profileSchema>;
+
+export const venueSettingsBody = z.object({
+  cueingVersionId: z.string().uuid().nullable().optional(),
+  budgetVersionId: z.string().uuid().nullable().optional(),
+});
+
+export const venueDetailSchema = z.object({
+  id: z.string().uuid(),
+  name: z.string(),
+  site: z.string(),
+  timeZone: z.string(),
+  base: z.unknown(),
+  cueingVersion: z.object({ id: z.string(), name: z.string(), version: z.number() }).nullable(),
+  budgetVersion: z.object({ id: z.string(), name: z.string(), version: z.number() }).nullable(),
+});
+export type VenueDetail = z.infer<typeof venueDetailSchema>;
+
+export const createTokenBody = z.object({ name: z.string().trim().min(1).max(120) });
+export const apiTokenSchema = z.object({
+  id: z.string().uuid(),
+  name: z.string(),
+  prefix: z.string(),
+  createdAt: z.string(),
+  lastUsedAt: z.string().nullable(),
+  revokedAt: z.string().nullable(),
+});
+export type ApiToken = z.infer<typeof apiTokenSchema>;

@@ -1,0 +1,35 @@
+// The worker process: takes jobs off the pg-boss queues. Run as many as the queue needs, on as many
+// machines as you like; each one only needs the same environment variables as the server.
+import { parseEnv } from './env';
+import { QUEUES, startQueue } from '../server/queue';
+import { openDb } from '../server/db/client';
+import { createStorage } from '../server/storage';
+import { createHandler } from './jobs/cue-run';
+import type { JobMeta } from './jobs/cue-run';
+
+const env = parseEnv();
+const log = (m: string) => console.log(`[worker] ${m}`);
+const { db, pool } = openDb(env.DATABASE_URL, 4);
+const storage = createStorage(env);
+const boss = await startQueue(env.DATABASE_URL);
+const handle = createHandler({ db, storage, log, now: () => new Date() });
+await boss.work<object>(
+  QUEUES.cueRun,
+  { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: env.WORKER_POLL_S },
+  async (jobs) => {
+    for (const job of jobs) await handle(job as unknown as JobMeta);
+  },
+);
+log('ready for jobs');
+
+let stopping = false;
+const stop = async () => {
+  if (stopping) return;
+  stopping = true;
+  await boss.stop({ graceful: true, wait: true, timeout: 10_000 }).catch(() => undefined);
+  storage.close();
+  await pool.end();
+  process.exit(0);
+};
+process.on('SIGINT', stop);
+process.on('SIGTERM', stop);
