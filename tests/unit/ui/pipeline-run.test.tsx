@@ -1,0 +1,261 @@
+// @vitest-environment jsdom
+// Run page against the API contract of GET /runs/:id (RunDetail with findings JSON, motion-spec
+// section 7) and GET /runs/:id/series. uPlot draws on a canvas, which jsdom lacks: it is replaced by a
+// recorder here, and the drawing itself is checked in the browser test.
+import '@testing-library/jest-dom/vitest';
+import { cleanup, screen, waitFor, within } from '@testing-library/react';
+import { unit } from 'mathjs';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { CHECK_SEVERITY } from '../../../shared/schemas/findings';
+import type { RunDetail } from '../../../shared/schemas/pipeline';
+import type { RunSeries } from '../../../shared/schemas/run-series';
+import { bandChartData } from '../../../src/components/charts/band-chart';
+import { RunView } from '../../../src/features/runs/components/run-view';
+import { fakeApi, json, renderWithApp } from './harness';
+
+const plots = vi.hoisted(
+  () => [] as { title: string | undefined; series: number; data: ArrayLike<number>[] }[],
+);
+
+vi.mock('uplot', () => ({
+  default: class {
+    width: number;
+    constructor(opts: { width: number; series: unknown[] }, data: ArrayLike<number>[], el: HTMLElement) {
+      this.width = opts.width;
+      plots.push({ title: el.dataset.chart, series: opts.series.length, data });
+    }
+    setSize() {}
+    destroy() {}
+  },
+}));
+
+const STUDIO = 'a3c1e7b2-5d4f-4e8a-9b6c-1d2e3f4a5b6c';
+const RUN = '3d4e5f6a-7b8c-4d9e-8f0a-2b3c4d5e6f7a';
+const TRACK = '1b2c3d4e-5f6a-4b7c-8d9e-0f1a2b3c4d5e';
+
+function makeRun(overrides: Partial<RunDetail> = {}): RunDetail {
+  return {
+    id: RUN,
+    trackId: TRACK,
+    takeId: '2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f',
+    takeNumber: 2,
+    venueId: 'e7a5c1f6-9b8d-4c2e-8f0a-5b6c7d8e9f0a',
+    venueName: 'Harbour Lights Dome',
+    state: 'held_by_budget',
+    progress: 100,
+    failureReason: null,
+    lastError: null,
+    attempts: 1,
+    worstRatio: 1.014,
+    worstCheck: 'stroke leg3',
+    findingCount: 2,
+    createdAt: '2026-12-01T10:00:00.000Z',
+    finishedAt: '2026-12-01T10:00:09.000Z',
+    trackTitle: 'Lantern Reef dive',
+    take: {
+      id: '2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f',
+      trackId: TRACK,
+      number: 2,
+      kind: 'vehicle',
+      layout: 'vehicle',
+      fileName: 'reef-dive.csv',
+      sizeBytes: 120_000,
+      sha256: 'b'.repeat(64),
+      samples: 2001,
+      duration_s: 20,
+      uploadedVia: 'browser',
+      createdAt: '2026-12-01T09:59:00.000Z',
+    },
+    cueingVersion: { id: '4e5f6a7b-8c9d-4e0f-9a1b-3c4d5e6f7a8b', name: 'Dome washout', version: 3 },
+    budgetVersion: { id: '5f6a7b8c-9d0e-4f1a-8b2c-4d5e6f7a8b9c', name: 'DEMO budget', version: 1 },
+    // The findings example of motion-spec section 7, plus a comfort finding and two uses.
+    result: {
+      within: false,
+      findings: [
+        {
+          check: 'stroke',
+          severity: 'hard',
+          subject: 'leg3',
+          start_s: 12.31,
+          end_s: 12.9,
+          value: 2.312,
+          limit: 2.28,
+          ratio: 1.014,
+        },
+        {
+          check: 'jerk',
+          severity: 'comfort',
+          subject: 'seat2',
+          start_s: 3.5,
+          end_s: 3.7,
+          value: 26,
+          limit: 25,
+          ratio: 1.04,
+        },
+      ],
+      uses: [
+        { check: 'wrms', subject: 'z', ratio: 0.41 },
+        { check: 'stroke', subject: 'leg3', ratio: 1.014 },
+        { check: 'jerk', subject: 'seat2', ratio: 1.04 },
+        { check: 'legSpeed', subject: 'leg1', ratio: 0.86 },
+      ],
+      notes: ['The Wk band above 50 Hz was left out at 100 Hz.'],
+    },
+    budgetIsDemo: true,
+    files: [{ name: 'findings.json', sha256: 'c'.repeat(64), size_bytes: 812 }],
+    ...overrides,
+  };
+}
+
+const band = (values: number[]) => ({ min: values.map((v) => v - 0.01), max: values.map((v) => v + 0.01) });
+const SERIES: RunSeries = {
+  rate_hz: 100,
+  samples: 2001,
+  time_s: [0, 10, 20],
+  force: {
+    x: { input: band([0, 0.5, 0]), cued: band([0, 0.3, 0]) },
+    y: { input: band([0, 0, 0]), cued: band([0, 0, 0]) },
+    z: { input: band([9.80665, 9.9, 9.80665]), cued: band([9.80665, 9.85, 9.80665]) },
+  },
+  pose: {
+    x_m: band([0, 0.05, 0]),
+    y_m: band([0, 0, 0]),
+    z_m: band([0, 0.02, 0]),
+    roll_rad: band([0, 0, 0]),
+    pitch_rad: band([0, -0.03, 0]),
+    yaw_rad: band([0, 0, 0]),
+  },
+  legs: [1, 2, 3, 4, 5, 6].map(() => band([1.9, 2.0, 1.9])),
+  stroke: { min_m: 1.5, max_m: 2.3, margin_m: 0.02 },
+};
+
+beforeEach(() => {
+  plots.length = 0;
+  // uPlot (even mocked) may be asked about media queries by code around it; jsdom has no matchMedia.
+  vi.stubGlobal('matchMedia', (query: string) => ({
+    matches: false,
+    media: query,
+    addEventListener: () => undefined,
+    removeEventListener: () => undefined,
+  }));
+});
+
+afterEach(() => {
+  cleanup();
+  vi.unstubAllGlobals();
+});
+
+describe('run page', () => {
+  it('lists the budget uses largest first with ratio, bar and severity', async () => {
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/runs/${RUN}`]: () => json(makeRun()),
+      [`GET /api/studios/${STUDIO}/runs/${RUN}/series`]: () => json(SERIES),
+    });
+    renderWithApp(<RunView studioId={STUDIO} runId={RUN} />);
+    const table = await screen.findByRole('table', { name: 'Budget uses, largest first' });
+    const rows = within(table).getAllByRole('row').slice(1);
+    expect(rows.map((row) => within(row).getAllByRole('cell')[0]!.textContent)).toEqual([
+      'jerk',
+      'stroke',
+      'legSpeed',
+      'wrms',
+    ]);
+    // Severity per check is motion-spec section 7's: stroke and legSpeed hard, jerk and wrms comfort.
+    const severities = rows.map((row) => within(row).getAllByRole('cell')[3]!.textContent);
+    expect(severities).toEqual(
+      ['jerk', 'stroke', 'legSpeed', 'wrms'].map((c) =>
+        CHECK_SEVERITY[c as keyof typeof CHECK_SEVERITY] === 'hard' ? 'hard limit' : 'comfort limit',
+      ),
+    );
+    expect(severities).toEqual(['comfort limit', 'hard limit', 'hard limit', 'comfort limit']);
+    expect(within(rows[1]!).getByRole('meter')).toHaveAttribute('aria-valuenow', '1.014');
+
+    const findings = screen.getByRole('table', { name: 'Findings' });
+    const strokeRow = within(findings).getByText('leg3').closest('tr')!;
+    expect(strokeRow).toHaveTextContent('12.31–12.90');
+    expect(strokeRow).toHaveTextContent('2.312 m');
+    expect(strokeRow).toHaveTextContent('2.28 m');
+    expect(screen.getByText('Over budget')).toBeInTheDocument();
+    expect(screen.getByText('Checked against the DEMO budget.')).toBeInTheDocument();
+    expect(screen.getByText('The Wk band above 50 Hz was left out at 100 Hz.')).toBeInTheDocument();
+    expect(screen.getByRole('link', { name: 'findings.json' })).toHaveAttribute(
+      'href',
+      `/api/studios/${STUDIO}/runs/${RUN}/files/findings.json`,
+    );
+    expect(screen.getByRole('note', { name: 'Run caution' })).toHaveTextContent(
+      "a qualified person's sign-off",
+    );
+
+    // Three force charts, two pose charts and the legs chart, each band as a min and a max series.
+    await waitFor(() => expect(plots).toHaveLength(6));
+    const legs = plots.find((p) => p.title === 'Leg lengths inside the stroke band')!;
+    expect(legs.series).toBe(1 + 2 * 6);
+  });
+
+  it('shows the failure reason in a red panel and draws no charts for a failed run', async () => {
+    const reason = 'reef-dive.csv line 40, column 2 (fx_mps2): not a number: "--"';
+    const { calls } = fakeApi({
+      [`GET /api/studios/${STUDIO}/runs/${RUN}`]: () =>
+        json(
+          makeRun({
+            state: 'failed',
+            failureReason: reason,
+            result: null,
+            worstRatio: null,
+            worstCheck: null,
+            findingCount: null,
+            files: [],
+            budgetIsDemo: false,
+          }),
+        ),
+    });
+    renderWithApp(<RunView studioId={STUDIO} runId={RUN} />);
+    const panel = await screen.findByRole('alert');
+    expect(panel).toHaveTextContent('This run failed.');
+    expect(panel).toHaveTextContent(reason);
+    expect(screen.queryByRole('table', { name: 'Budget uses, largest first' })).not.toBeInTheDocument();
+    expect(screen.queryByText('Checked against the DEMO budget.')).not.toBeInTheDocument();
+    expect(calls.some((c) => c.path.endsWith('/series'))).toBe(false);
+    expect(plots).toHaveLength(0);
+  });
+
+  it('shows live progress while cueing and does not ask for the series yet', async () => {
+    const { calls } = fakeApi({
+      [`GET /api/studios/${STUDIO}/runs/${RUN}`]: () =>
+        json(
+          makeRun({
+            state: 'cueing',
+            progress: 42,
+            result: null,
+            worstRatio: null,
+            worstCheck: null,
+            files: [],
+          }),
+        ),
+    });
+    renderWithApp(<RunView studioId={STUDIO} runId={RUN} />);
+    expect(await screen.findByRole('progressbar', { name: 'Run progress' })).toHaveAttribute(
+      'aria-valuenow',
+      '42',
+    );
+    expect(calls.some((c) => c.path.endsWith('/series'))).toBe(false);
+  });
+});
+
+describe('chart data for display', () => {
+  it('converts pose offsets to mm and deg only for display, as mathjs converts the same units', () => {
+    const time_s = [0, 1];
+    const metres = { label: 'x', color: '#000000', min: [-0.0125, 0.2], max: [0.0125, 0.25] };
+    const radians = { label: 'pitch', color: '#000000', min: [-0.1, 0.3], max: [0.1, 0.35] };
+    const mm = bandChartData(time_s, [metres], 1000);
+    const deg = bandChartData(time_s, [radians], 180 / Math.PI);
+    // mathjs unit conversion is the independent reference for m -> mm and rad -> deg.
+    for (let i = 0; i < 2; i++) {
+      expect(mm[1]![i]).toBeCloseTo(unit(metres.min[i]!, 'm').toNumber('mm'), 9);
+      expect(mm[2]![i]).toBeCloseTo(unit(metres.max[i]!, 'm').toNumber('mm'), 9);
+      expect(deg[1]![i]).toBeCloseTo(unit(radians.min[i]!, 'rad').toNumber('deg'), 9);
+      expect(deg[2]![i]).toBeCloseTo(unit(radians.max[i]!, 'rad').toNumber('deg'), 9);
+    }
+    expect(Array.from(mm[0]!)).toEqual(time_s);
+  });
+});
