@@ -21,8 +21,8 @@ afterAll(async () => t.close());
 
 interface RouteCase {
   name: string;
-  method: 'get' | 'post' | 'patch' | 'delete';
-  path: (ids: { studio: string; member: string; invitation: string }) => string;
+  method: 'get' | 'post' | 'patch' | 'delete' | 'put';
+  path: (ids: { studio: string; member: string; invitation: string; venue: string }) => string;
   body?: (ids: { venue: string }) => object;
   allowed: Role[];
   /** Status of a successful call. */
@@ -32,6 +32,27 @@ interface RouteCase {
 }
 
 const ALL: Role[] = ['producer', 'motion_engineer', 'safety_reviewer', 'venue_operator', 'studio_admin'];
+/** Everyone who works on tracks at the studio; a venue operator sees releases for their venues only. */
+const DESK: Role[] = ['producer', 'motion_engineer', 'safety_reviewer', 'studio_admin'];
+// A valid budget (the spec's example numbers, section 7), for the create-profile route.
+const MATRIX_BUDGET = {
+  strokeMargin_m: 0.02,
+  envelope: {
+    x: [
+      [0, -1.0, 1.0],
+      [1.0, -0.5, 0.5],
+    ],
+    y: [[0, -0.8, 0.8]],
+    z: [[0, 0.2, 1.8]],
+  },
+  comfort: {
+    jerkMax_mps3: 25,
+    angularSpeedMax_radps: 0.7,
+    angularAccelMax_radps2: 4,
+    msdvZMax_mps1_5: 12,
+    wrmsMax_mps2: 0.8,
+  },
+};
 const ROUTES: RouteCase[] = [
   {
     name: 'overview',
@@ -89,6 +110,82 @@ const ROUTES: RouteCase[] = [
     path: (i) => `/api/studios/${i.studio}/audit`,
     allowed: ['studio_admin'],
     ok: 200,
+  },
+  {
+    name: 'tracks list',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/tracks`,
+    allowed: DESK,
+    ok: 200,
+  },
+  {
+    name: 'create track',
+    method: 'post',
+    path: (i) => `/api/studios/${i.studio}/tracks`,
+    body: () => ({ title: 'Matrix Test Track' }),
+    allowed: ['producer'],
+    ok: 201,
+  },
+  {
+    name: 'profiles list',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/profiles`,
+    allowed: DESK,
+    ok: 200,
+  },
+  {
+    name: 'create cueing profile',
+    method: 'post',
+    path: (i) => `/api/studios/${i.studio}/profiles`,
+    body: () => ({ kind: 'cueing', name: 'Matrix washout', params: {} }),
+    allowed: ['motion_engineer'],
+    ok: 201,
+  },
+  {
+    name: 'create budget profile',
+    method: 'post',
+    path: (i) => `/api/studios/${i.studio}/profiles`,
+    body: () => ({ kind: 'budget', name: 'Matrix budget', params: MATRIX_BUDGET }),
+    allowed: ['safety_reviewer'],
+    ok: 201,
+  },
+  {
+    name: 'venue detail',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/venues/${i.venue}`,
+    allowed: ALL,
+    ok: 200,
+  },
+  {
+    name: 'choose the venue budget version',
+    method: 'put',
+    path: (i) => `/api/studios/${i.studio}/venues/${i.venue}/settings`,
+    body: () => ({ budgetVersionId: t.seed.budgetVersionId }),
+    allowed: ['safety_reviewer'],
+    ok: 200,
+  },
+  {
+    name: 'choose the venue cueing version',
+    method: 'put',
+    path: (i) => `/api/studios/${i.studio}/venues/${i.venue}/settings`,
+    body: () => ({ cueingVersionId: t.seed.cueingVersionId }),
+    allowed: ['motion_engineer'],
+    ok: 200,
+  },
+  {
+    name: 'API tokens list',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/tokens`,
+    allowed: ['studio_admin'],
+    ok: 200,
+  },
+  {
+    name: 'create API token',
+    method: 'post',
+    path: (i) => `/api/studios/${i.studio}/tokens`,
+    body: () => ({ name: 'matrix' }),
+    allowed: ['studio_admin'],
+    ok: 201,
   },
   {
     name: 'remove member',

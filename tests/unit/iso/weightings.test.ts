@@ -28,7 +28,7 @@ const TABLE: [Weighting, number, number][] = [
 
 /**
  * The Annex A formula of ISO 2631-1 as written in shared/reference-values.md, evaluated with mathjs
- * complex numbers at s = j 2 pi f: an independent transcription of the same definition.
+ * complex numbers at s = j 2 pi f: an independent restatement of the same definition.
  */
 function annexA(p: {
   f1: number;
