@@ -137,7 +137,7 @@ const ROUTES: RouteCase[] = [
     name: 'create cueing profile',
     method: 'post',
     path: (i) => `/api/studios/${i.studio}/profiles`,
-    body: () => ({ kind: 'cueing', name: 'Matrix washout', params: {} }),
+    body: () => ({ kind: 'cueing', name: 'Matrix washout', params: { version: 1, name: 'Matrix washout' } }),
     allowed: ['motion_engineer'],
     ok: 201,
   },
