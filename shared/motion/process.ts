@@ -25,12 +25,12 @@ import {
   poseRates,
 } from './hexapod';
 import { planar3ConditionNumbers, planar3Forward, planar3Geometry, planar3Inverse } from './planar3';
-import { resampleTrack, uniformGridLength } from './resample';
+import { resampleHermite, resampleTrack } from './resample';
 import type { PoseOffsetTrack } from './seat-force';
 import { platformMotion, seatForceFromMotion } from './seat-force';
 import type { WelchPsd } from './spectra';
 import { SICKNESS_BAND_HZ, bandPower, totalPower, welchPsd, welchSegmentLength } from './spectra';
-import { derivative, derivativeInto } from './track-derivative';
+import { derivative } from './track-derivative';
 import type { Track } from './track-reader';
 import { trackColumn } from './track-reader';
 import { cueClassical } from './washout';
@@ -302,51 +302,6 @@ export function processTrack(input: ProcessInput): ProcessResult {
       seat1Force_mps2: seat1 ? seat1.map((f) => decimateMinMax(f, 0, 1, n, t0, rate_hz, buckets)) : [],
     },
   };
-}
-
-/**
- * Resamples a track onto the uniform grid of resampleLinear (same instants, units unchanged) by cubic
- * Hermite interpolation, with slopes from the three-point derivative on the track's own (uneven) grid.
- *
- * Why not linear here: a pose or legs track played at a higher controller rate through straight
- * segments changes velocity in a step at every input sample, so the commanded leg acceleration at
- * those samples is about (controller rate / input rate) times the smooth value (a 60 Hz pose at a
- * 1 kHz controller: over 16 times), and the checks would rightly flag it. The Hermite curve is C1, so
- * acceleration stays finite and close to the motion's own. It can overshoot between samples by a little
- * where the motion turns sharply; the stroke check reads the resampled legs, so that cannot hide.
- * The cubic reproduces every quadratic exactly (the three-point slopes are exact for quadratics).
- */
-export function resampleHermite(track: Track, rate_hz: number): Track {
-  const t = track.time_s;
-  const n = t.length;
-  if (n < 3) return resampleTrack(track, rate_hz);
-  const t0 = t[0] as number;
-  const tEnd = t[n - 1] as number;
-  const m = uniformGridLength(t0, tEnd, rate_hz);
-  const time_s = new Float64Array(m);
-  for (let k = 0; k < m; k++) time_s[k] = Math.min(t0 + k / rate_hz, tEnd);
-  const slope = new Float64Array(n);
-  const columns = track.columns.map((col) => {
-    derivativeInto(t, col, slope);
-    const out = new Float64Array(m);
-    let j = 0;
-    for (let k = 0; k < m; k++) {
-      const tk = time_s[k] as number;
-      while (j < n - 2 && (t[j + 1] as number) <= tk) j++;
-      const ta = t[j] as number;
-      const h = (t[j + 1] as number) - ta;
-      const s = (tk - ta) / h;
-      const s2 = s * s;
-      const s3 = s2 * s;
-      out[k] =
-        (2 * s3 - 3 * s2 + 1) * (col[j] as number) +
-        (s3 - 2 * s2 + s) * h * (slope[j] as number) +
-        (-2 * s3 + 3 * s2) * (col[j + 1] as number) +
-        (s3 - s2) * h * (slope[j + 1] as number);
-    }
-    return out;
-  });
-  return { kind: track.kind, layout: track.layout, length: m, time_s, names: track.names, columns };
 }
 
 function riderSpectra(

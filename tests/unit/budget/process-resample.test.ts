@@ -1,7 +1,8 @@
 // Pose and legs tracks reach the controller rate on a smooth (C1 cubic Hermite) curve, so the checked
 // accelerations are the motion's own and not artefacts of straight segments between samples.
 import { describe, expect, it } from 'vitest';
-import { processTrack, resampleHermite } from '../../../shared/motion/process';
+import { processTrack } from '../../../shared/motion/process';
+import { resampleHermite } from '../../../shared/motion/resample';
 import type { Track } from '../../../shared/motion/track-reader';
 import { demoHexapodInput } from '../../../shared/schemas/motion-base';
 import { makeHexapodBase } from '../../factories/motion';
