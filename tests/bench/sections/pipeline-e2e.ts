@@ -44,7 +44,11 @@ const section: BenchSection = {
     Object.assign(process.env, services.env);
     // Imported only now: they read the environment the services wrote.
     const { startTestApp } = await import('../../integration/support/app');
-    const t = await startTestApp({ queue: true, env: { LOGIN_RATE_LIMIT: '1000' } });
+    const t = await startTestApp({
+      queue: true,
+      env: { LOGIN_RATE_LIMIT: '1000' },
+      log: (m) => console.error(m),
+    });
     const server = createServer(t.app);
     await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
     const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
@@ -79,8 +83,11 @@ const section: BenchSection = {
       });
       const studio = `/api/studios/${t.seed.studioId}`;
       const track = await call('POST', `${studio}/tracks`, { title: 'Long Haul (bench)' });
-      const csv = Buffer.from(makeVehicleCsv({ duration_s: 600, rate_hz: 1000 }));
-      log(`take: 600,001 samples at 1 kHz, ${(csv.byteLength / 1e6).toFixed(1)} MB of CSV`);
+      const duration_s = Number(process.env.BENCH_E2E_SECONDS ?? 600);
+      const csv = Buffer.from(makeVehicleCsv({ duration_s, rate_hz: 1000 }));
+      log(
+        `take: ${(duration_s * 1000 + 1).toLocaleString('en')} samples at 1 kHz, ${(csv.byteLength / 1e6).toFixed(1)} MB of CSV`,
+      );
       const t0 = performance.now();
       const take = await call(
         'POST',
