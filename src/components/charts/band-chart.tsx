@@ -109,6 +109,8 @@ function chartOptions(
         stroke: CHART_COLORS.axis,
         grid: { stroke: CHART_COLORS.grid, width: 1 },
         size: 56,
+        // Short charts still get three or more labelled ticks.
+        space: 20,
       },
     ],
     series,

@@ -41,24 +41,27 @@ const BAR_FULL = 1.25;
 export function UseRatioBar({ ratio, label }: { ratio: number | null; label?: string | undefined }) {
   if (ratio === null || !Number.isFinite(ratio)) return <span className="text-xs text-ink-400">—</span>;
   const tone = ratioTone(ratio);
+  // Two decimals cut (not rounded) so the number never lands in another band than its colour:
+  // 0.7996 reads 0.79 and 0.996 reads 0.99; the exact value is in the tooltip and aria-valuenow.
+  const shown = (Math.floor(ratio * 100 + 1e-9) / 100).toFixed(2);
   const width = `${(Math.min(Math.max(ratio, 0), BAR_FULL) / BAR_FULL) * 100}%`;
   return (
     <span
       className="inline-flex items-center gap-1.5"
-      title={label ? `${label}: ${ratio.toFixed(3)} of the limit` : `${ratio.toFixed(3)} of the limit`}
+      title={`${label ? `${label}: ` : ''}${ratio.toPrecision(4)} of the limit`}
     >
       <span
         role="meter"
         aria-label={label ? `Use ratio ${label}` : 'Use ratio'}
         aria-valuemin={0}
         aria-valuemax={BAR_FULL}
-        aria-valuenow={Number(ratio.toFixed(3))}
+        aria-valuenow={Number(ratio.toPrecision(4))}
         className="relative inline-block h-2 w-20 overflow-hidden rounded-sm bg-ink-100"
       >
         <span className={`absolute inset-y-0 left-0 ${BAR_TONE[tone]}`} style={{ width }} />
         <span className="absolute inset-y-0 w-px bg-ink-800" style={{ left: `${100 / BAR_FULL}%` }} />
       </span>
-      <span className={`font-mono text-xs ${TEXT_TONE[tone]}`}>{ratio.toFixed(2)}</span>
+      <span className={`font-mono text-xs ${TEXT_TONE[tone]}`}>{shown}</span>
     </span>
   );
 }

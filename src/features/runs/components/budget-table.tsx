@@ -1,6 +1,8 @@
+import { useState } from 'react';
 import { CHECK_SEVERITY } from '../../../../shared/schemas/findings';
 import type { Use } from '../../../../shared/schemas/findings';
 import { UseRatioBar } from '../../../components/charts/run-badges';
+import { Button } from '../../../components/ui/button';
 import { Empty } from '../../../components/ui/status';
 import { Table, Td, Th } from '../../../components/ui/table';
 
@@ -18,33 +20,45 @@ export function SeverityText({ severity }: { severity: 'hard' | 'comfort' }) {
 }
 
 /** Every check's worst use of its limit, largest first: the budget at a glance. */
-export function BudgetTable({ uses }: { uses: readonly Use[] }) {
+export function BudgetTable({ uses, shortList = 12 }: { uses: readonly Use[]; shortList?: number }) {
+  const [all, setAll] = useState(false);
   if (uses.length === 0) return <Empty>The run reported no uses.</Empty>;
   const sorted = [...uses].sort((a, b) => b.ratio - a.ratio);
+  // A run reports every check on every leg, seat and axis; the largest uses are what a reviewer reads first.
+  const shown = all ? sorted : sorted.slice(0, shortList);
   return (
-    <Table caption="Budget uses, largest first">
-      <thead>
-        <tr>
-          <Th>Check</Th>
-          <Th>Subject</Th>
-          <Th>Use of limit</Th>
-          <Th>Severity</Th>
-        </tr>
-      </thead>
-      <tbody>
-        {sorted.map((use, i) => (
-          <tr key={`${use.check}-${use.subject}-${use.axis ?? ''}-${i}`}>
-            <Td className="font-mono text-xs">{use.check}</Td>
-            <Td className="font-mono text-xs">{subjectText(use)}</Td>
-            <Td>
-              <UseRatioBar ratio={use.ratio} label={`${use.check} ${subjectText(use)}`} />
-            </Td>
-            <Td>
-              <SeverityText severity={CHECK_SEVERITY[use.check]} />
-            </Td>
+    <div className="flex flex-col gap-2">
+      <Table caption="Budget uses, largest first">
+        <thead>
+          <tr>
+            <Th>Check</Th>
+            <Th>Subject</Th>
+            <Th>Use of limit</Th>
+            <Th>Severity</Th>
           </tr>
-        ))}
-      </tbody>
-    </Table>
+        </thead>
+        <tbody>
+          {shown.map((use, i) => (
+            <tr key={`${use.check}-${use.subject}-${use.axis ?? ''}-${i}`}>
+              <Td className="font-mono text-xs">{use.check}</Td>
+              <Td className="font-mono text-xs">{subjectText(use)}</Td>
+              <Td>
+                <UseRatioBar ratio={use.ratio} label={`${use.check} ${subjectText(use)}`} />
+              </Td>
+              <Td>
+                <SeverityText severity={CHECK_SEVERITY[use.check]} />
+              </Td>
+            </tr>
+          ))}
+        </tbody>
+      </Table>
+      {sorted.length > shortList ? (
+        <div>
+          <Button size="sm" variant="quiet" onClick={() => setAll(!all)} aria-expanded={all}>
+            {all ? `Show the ${shortList} largest only` : `Show all ${sorted.length} uses`}
+          </Button>
+        </div>
+      ) : null}
+    </div>
   );
 }

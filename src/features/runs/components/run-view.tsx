@@ -41,6 +41,8 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
   const detail = run.data;
   const finished = !isRunActive(detail.state) && detail.state !== 'failed';
   const result = detail.result;
+  // The comfort summary already shows its weighting note; the notes list keeps the others.
+  const notes = (result?.notes ?? []).filter((note) => note !== result?.comfort?.weightingNote);
 
   return (
     <>
@@ -73,10 +75,10 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
               <ComfortSummary comfort={result.comfort} />
             </Section>
           ) : null}
-          {result.notes && result.notes.length > 0 ? (
+          {notes.length > 0 ? (
             <Section title="Notes">
               <ul className="list-disc pl-5 text-sm text-ink-800">
-                {result.notes.map((note) => (
+                {notes.map((note) => (
                   <li key={note}>{note}</li>
                 ))}
               </ul>

@@ -36,7 +36,7 @@ function CreatedTokenNotice({ studioId, created }: { studioId: string; created: 
       <p className="text-xs text-ink-600">
         Push a take from a pipeline (replace &lt;trackId&gt; with the track’s id from its address):
       </p>
-      <pre className="overflow-x-auto rounded bg-ink-900 px-2 py-1.5 font-mono text-xs text-ink-100">
+      <pre className="rounded bg-ink-900 px-2 py-1.5 font-mono text-xs break-all whitespace-pre-wrap text-ink-100">
         {curlExample(origin, studioId, created.token)}
       </pre>
     </div>
@@ -120,7 +120,7 @@ export function TokensPanel({ studioId }: { studioId: string }) {
       <form
         onSubmit={submit}
         noValidate
-        aria-label="New API token"
+        aria-label="Create an API token"
         className="flex flex-wrap items-start gap-3"
       >
         <TextField
