@@ -4,6 +4,8 @@ import type { LoaderFunctionArgs } from 'react-router-dom';
 import { getMeQueryOptions } from '../features/auth/api/get-me';
 import { getStudioOverviewQueryOptions } from '../features/studios/api/get-studio-overview';
 import { getVenuesQueryOptions } from '../features/venues/api/get-venues';
+import { getRunQueryOptions } from '../features/runs/api/get-run';
+import { getTrackQueryOptions } from '../features/tracks/api/get-track';
 import { Loading } from '../components/ui/status';
 import { MailboxRoute } from './routes/mailbox';
 import {
@@ -39,6 +41,18 @@ export function createAppRouter(queryClient: QueryClient) {
     };
   const studioLoader = prefetchInStudio((id) => queryClient.prefetchQuery(getStudioOverviewQueryOptions(id)));
   const venuesLoader = prefetchInStudio((id) => queryClient.prefetchQuery(getVenuesQueryOptions(id)));
+  // The track page also offers the venues to cue for, so both are asked for at once.
+  const trackLoader = (args: LoaderFunctionArgs) =>
+    prefetchInStudio((id) =>
+      Promise.all([
+        queryClient.prefetchQuery(getTrackQueryOptions(id, args.params.trackId ?? '')),
+        queryClient.prefetchQuery(getVenuesQueryOptions(id)),
+      ]).then(() => undefined),
+    )(args);
+  const runLoader = (args: LoaderFunctionArgs) =>
+    prefetchInStudio((id) => queryClient.prefetchQuery(getRunQueryOptions(id, args.params.runId ?? '')))(
+      args,
+    );
 
   return createBrowserRouter([
     {
@@ -61,8 +75,8 @@ export function createAppRouter(queryClient: QueryClient) {
             { path: 'members', element: <MembersRoute />, loader: venuesLoader },
             { path: 'audit', element: <AuditRoute /> },
             { path: 'tracks', element: <TracksRoute />, loader: venuesLoader },
-            { path: 'tracks/:trackId', element: <TrackRoute />, loader: venuesLoader },
-            { path: 'runs/:runId', element: <RunRoute /> },
+            { path: 'tracks/:trackId', element: <TrackRoute />, loader: trackLoader },
+            { path: 'runs/:runId', element: <RunRoute />, loader: runLoader },
             { path: 'venues/:venueId', element: <VenueSettingsRoute /> },
             { path: 'profiles', element: <ProfilesRoute /> },
             { path: 'tokens', element: <TokensRoute /> },
