@@ -1,10 +1,35 @@
 // The demo studio, seeded into an empty database by `npm start` (fictional names and numbers).
+import { randomUUID } from 'node:crypto';
+import { Readable } from 'node:stream';
 import { count } from 'drizzle-orm';
+import type pg from 'pg';
+import type PgBoss from 'pg-boss';
 import { openDb } from './client';
 import type { Db } from './client';
-import { memberships, profileVersions, profiles, studios, users, venueSettings, venues } from './schema';
+import {
+  memberships,
+  profileVersions,
+  profiles,
+  studios,
+  takes,
+  tracks,
+  users,
+  venueSettings,
+  venues,
+} from './schema';
+import type { Storage } from '../storage';
+import { receiveTake } from '../pipeline/upload';
+import { queueRuns } from '../pipeline/queue-runs';
+import { demoRideCsv } from '../../shared/demo-ride';
 import { hashPassword } from '../auth/passwords';
-import { DEMO_PASSWORD, DEMO_SECOND_STUDIO, DEMO_STUDIO, DEMO_USERS, DEMO_VENUES } from '../../shared/demo';
+import {
+  DEMO_PASSWORD,
+  DEMO_SECOND_STUDIO,
+  DEMO_STUDIO,
+  DEMO_TRACK,
+  DEMO_USERS,
+  DEMO_VENUES,
+} from '../../shared/demo';
 import { demoHexapodBase, demoPlanar3Base } from '../../shared/schemas/motion-base';
 import { defaultCueingProfile } from '../../shared/schemas/cueing-profile';
 import { DEMO_BUDGET } from '../../shared/schemas/budget';
@@ -54,14 +79,12 @@ export async function seedDemo(db: Db) {
       })
       .returning();
     for (const id of [dome!.id, arcade!.id]) {
-      await tx
-        .insert(venueSettings)
-        .values({
-          venueId: id,
-          studioId: studio!.id,
-          cueingVersionId: cueingV!.id,
-          budgetVersionId: budgetV!.id,
-        });
+      await tx.insert(venueSettings).values({
+        venueId: id,
+        studioId: studio!.id,
+        cueingVersionId: cueingV!.id,
+        budgetVersionId: budgetV!.id,
+      });
     }
     const userIds: Record<string, string> = {};
     for (const u of DEMO_USERS) {
@@ -93,13 +116,77 @@ export async function seedDemo(db: Db) {
   });
 }
 
-/** Seeds the demo studio when the database has no studio yet; true when it did. */
-export async function seedDemoIfEmpty(url: string): Promise<boolean> {
+/**
+ * The demo track: the fictional ride's take, uploaded through the same streamed path as a browser
+ * upload, and queued for both venues (the worker cues it once it runs).
+ */
+export async function seedDemoTrack(
+  db: Db,
+  pool: pg.Pool,
+  storage: Storage,
+  boss: PgBoss,
+  ids: Awaited<ReturnType<typeof seedDemo>>,
+): Promise<void> {
+  const producer = DEMO_USERS.find((u) => u.roles.includes('producer'))!;
+  const producerId = ids.userIds[producer.email]!;
+  const [track] = await db
+    .insert(tracks)
+    .values({ studioId: ids.studioId, title: DEMO_TRACK.title, film: DEMO_TRACK.film, createdBy: producerId })
+    .returning();
+  let number = 0;
+  for (const spec of DEMO_TRACK.takes) {
+    number++;
+    const takeId = randomUUID();
+    const key = `studios/${ids.studioId}/takes/${takeId}/${spec.file}`;
+    const csv = Buffer.from(demoRideCsv(spec));
+    const got = await receiveTake(Readable.from([csv]), {
+      storage,
+      key,
+      fileName: spec.file,
+      maxBytes: csv.byteLength,
+    });
+    const n = got.track.length;
+    const [take] = await db
+      .insert(takes)
+      .values({
+        id: takeId,
+        studioId: ids.studioId,
+        trackId: track!.id,
+        number,
+        kind: got.track.kind,
+        layout: got.track.layout,
+        fileName: spec.file,
+        storageKey: key,
+        sizeBytes: got.sizeBytes,
+        sha256: got.sha256,
+        samples: n,
+        duration_s: (got.track.time_s[n - 1] as number) - (got.track.time_s[0] as number),
+        uploadedBy: producerId,
+        uploadedVia: 'browser',
+      })
+      .returning();
+    await queueRuns(pool, boss, {
+      studioId: ids.studioId,
+      take: take!,
+      venueIds: [ids.venueIds.dome, ids.venueIds.arcade],
+      actor: { id: producerId, email: producer.email },
+      now: new Date(),
+      retry: { limit: 3, delay_s: 5 },
+    });
+  }
+}
+
+/** Seeds the demo studio (and, given storage and the queue, its demo track) when the database has no studio yet. */
+export async function seedDemoIfEmpty(
+  url: string,
+  services?: { storage: Storage; boss: PgBoss },
+): Promise<boolean> {
   const { db, pool } = openDb(url, 2);
   try {
     const [row] = await db.select({ n: count() }).from(studios);
     if ((row?.n ?? 0) > 0) return false;
-    await seedDemo(db);
+    const ids = await seedDemo(db);
+    if (services) await seedDemoTrack(db, pool, services.storage, services.boss, ids);
     return true;
   } finally {
     await pool.end();

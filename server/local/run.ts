@@ -22,6 +22,9 @@ import { startS3Fake } from './s3-fake';
 import { startSmtpCapture } from './smtp-capture';
 import { migrateDb } from '../db/migrate';
 import { seedDemoIfEmpty } from '../db/seed';
+import { createStorage } from '../storage';
+import { startQueue } from '../queue';
+import { parseEnv } from '../env';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
 import { ROLE_LABELS } from '../../shared/schemas/roles';
 
@@ -183,10 +186,18 @@ async function waitForHealth(url: string, timeout_ms = 60_000): Promise<void> {
   throw new Error(`the server did not become healthy at ${url}: ${last}`);
 }
 
-async function prepareDatabase(url: string): Promise<void> {
+async function prepareDatabase(env: Record<string, string>): Promise<void> {
+  const url = env.DATABASE_URL!;
   await migrateDb(url);
-  const seeded = await seedDemoIfEmpty(url);
-  if (seeded) log('seeded the demo studio');
+  const storage = createStorage(parseEnv({ ...process.env, ...env }));
+  const boss = await startQueue(url);
+  try {
+    const seeded = await seedDemoIfEmpty(url, { storage, boss });
+    if (seeded) log('seeded the demo studio and queued its demo track for both venues');
+  } finally {
+    await boss.stop({ graceful: false, wait: true });
+    storage.close();
+  }
 }
 
 function printWelcome(url: string): void {
@@ -252,7 +263,7 @@ function ensureChromium(): string {
 async function main(): Promise<void> {
   if (mode === 'start' || mode === 'dev') {
     const { env } = await startServices('legwork');
-    await prepareDatabase(env.DATABASE_URL!);
+    await prepareDatabase(env);
     const url = `http://127.0.0.1:${mode === 'dev' ? ports.vite : ports.app}`;
     env.PUBLIC_URL = url;
     if (mode === 'start') {
@@ -328,7 +339,7 @@ async function main(): Promise<void> {
     let browserOk = false;
     try {
       const chromium = ensureChromium();
-      await prepareDatabase(env.DATABASE_URL!);
+      await prepareDatabase(env);
       const url = `http://127.0.0.1:${ports.app}`;
       launch('server', bin('tsx'), ['server/index.ts'], {
         ...env,

@@ -1,34 +1,6 @@
-// Fictional take files for tests: a gentle vehicle ride (invented for testing, no real ride).
-import { G0_MPS2 } from '../../shared/motion/units';
+// Take files for tests: the demo studio's fictional ride (shared/demo-ride.ts) with overrides.
+import { demoRideCsv } from '../../shared/demo-ride';
+import type { DemoRideOptions } from '../../shared/demo-ride';
 
-export interface VehicleTakeOptions {
-  duration_s?: number;
-  rate_hz?: number;
-  /** Peak surge specific force (m/s^2). */
-  surge_mps2?: number;
-  /** Peak heave deviation (m/s^2). */
-  heave_mps2?: number;
-  /** Peak yaw rate (rad/s). */
-  yaw_radps?: number;
-}
-
-/** A vehicle track CSV (SI columns): slow surge and heave swells and a gentle turn. */
-export function makeVehicleCsv(o: VehicleTakeOptions = {}): string {
-  const duration = o.duration_s ?? 20;
-  const rate = o.rate_hz ?? 100;
-  const surge = o.surge_mps2 ?? 0.8;
-  const heave = o.heave_mps2 ?? 0.5;
-  const yaw = o.yaw_radps ?? 0.05;
-  const lines = ['time_s,fx_mps2,fy_mps2,fz_mps2,wx_radps,wy_radps,wz_radps'];
-  const n = Math.round(duration * rate) + 1;
-  for (let i = 0; i < n; i++) {
-    const t = i / rate;
-    // A smooth onset (1 - cos) so the ride starts at rest.
-    const ramp = t < 2 ? (1 - Math.cos((Math.PI * t) / 2)) / 2 : 1;
-    const fx = ramp * surge * Math.sin(2 * Math.PI * 0.3 * t);
-    const fz = G0_MPS2 + ramp * heave * Math.sin(2 * Math.PI * 0.7 * t);
-    const wz = ramp * yaw * Math.sin(2 * Math.PI * 0.1 * t);
-    lines.push(`${t.toFixed(4)},${fx.toFixed(6)},0,${fz.toFixed(6)},0,0,${wz.toFixed(6)}`);
-  }
-  return lines.join('\n') + '\n';
-}
+/** A vehicle track CSV (SI columns); see demoRideCsv for the motion. */
+export const makeVehicleCsv = (o: DemoRideOptions = {}): string => demoRideCsv(o);
