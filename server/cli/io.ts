@@ -11,6 +11,7 @@ import { TrackFileError, TrackReader } from '../../shared/motion/track-reader';
 import type { Track, TrackReaderOptions } from '../../shared/motion/track-reader';
 import { MotionBaseError, parseMotionBase } from '../../shared/schemas/motion-base';
 import type { MotionBase } from '../../shared/schemas/motion-base';
+import { lineColumn, scanJson } from '../../shared/schemas/json-input';
 
 /** Exit codes of motion-spec section 7 (1 is left for failures of the program itself). */
 export const EXIT = { ok: 0, internal: 1, badInput: 2, comfort: 3, hard: 4 } as const;
@@ -85,118 +86,6 @@ export async function readTrackFile(
   return reader.end();
 }
 
-/** Line and column (1-based) of a character offset in text. */
-function lineColumn(text: string, offset: number): { line: number; column: number } {
-  let line = 1;
-  let last = -1;
-  for (let i = 0; i < offset && i < text.length; i++) {
-    if (text.charCodeAt(i) === 10) {
-      line++;
-      last = i;
-    }
-  }
-  return { line, column: offset - last };
-}
-
-/**
- * Offset and reason of the first JSON syntax error in text. JSON.parse on Node 20 reports a position
- * for some errors only, so a small scanner of the JSON grammar (RFC 8259) finds it instead.
- */
-function jsonSyntaxError(text: string): { offset: number; reason: string } {
-  let i = 0;
-  const fail = (reason: string): never => {
-    throw Object.assign(new Error(reason), { offset: i });
-  };
-  const ws = (): void => {
-    while (i < text.length && ' \t\n\r'.includes(text[i] as string)) i++;
-  };
-  const got = (): string => (i >= text.length ? 'end of file' : JSON.stringify(text[i]));
-  const value = (): void => {
-    ws();
-    const c = text[i];
-    if (c === '{') {
-      i++;
-      ws();
-      if (text[i] === '}') {
-        i++;
-        return;
-      }
-      for (;;) {
-        ws();
-        if (text[i] !== '"') fail(`expected a property name in double quotes, found ${got()}`);
-        str();
-        ws();
-        if (text[i] !== ':') fail(`expected ':' after a property name, found ${got()}`);
-        i++;
-        value();
-        ws();
-        if (text[i] === ',') {
-          i++;
-          continue;
-        }
-        if (text[i] === '}') {
-          i++;
-          return;
-        }
-        fail(`expected ',' or '}', found ${got()}`);
-      }
-    }
-    if (c === '[') {
-      i++;
-      ws();
-      if (text[i] === ']') {
-        i++;
-        return;
-      }
-      for (;;) {
-        value();
-        ws();
-        if (text[i] === ',') {
-          i++;
-          continue;
-        }
-        if (text[i] === ']') {
-          i++;
-          return;
-        }
-        fail(`expected ',' or ']', found ${got()}`);
-      }
-    }
-    if (c === '"') return str();
-    const m = /^(?:-?(?:0|[1-9]\d*)(?:\.\d+)?(?:[eE][+-]?\d+)?|true|false|null)/.exec(text.slice(i, i + 400));
-    if (!m) fail(`expected a value, found ${got()}`);
-    i += (m as RegExpExecArray)[0].length;
-  };
-  const str = (): void => {
-    i++;
-    while (i < text.length) {
-      const c = text.charCodeAt(i);
-      if (c === 34) {
-        i++;
-        return;
-      }
-      if (c < 32) fail('control character inside a string');
-      if (c === 92) {
-        const m = /^\\(?:["\\/bfnrt]|u[0-9a-fA-F]{4})/.exec(text.slice(i, i + 6));
-        if (!m) fail('bad escape in a string');
-        i += (m as RegExpExecArray)[0].length;
-      } else i++;
-    }
-    fail('unterminated string');
-  };
-  try {
-    value();
-    ws();
-    if (i < text.length) fail(`unexpected ${got()} after the end of the JSON value`);
-  } catch (e) {
-    const offset = (e as { offset?: number }).offset;
-    if (typeof offset === 'number') return { offset, reason: (e as Error).message };
-    // Only a nesting deep enough to exhaust the stack gets here.
-    return { offset: 0, reason: 'nested too deeply' };
-  }
-  return { offset: text.length, reason: 'not valid JSON' };
-}
-
 /** Reads and parses a JSON file; a syntax error names the file, line and column. */
 export async function readJsonFile(path: string): Promise<unknown> {
   let text: string;
@@ -208,7 +97,9 @@ export async function readJsonFile(path: string): Promise<unknown> {
   try {
     return JSON.parse(text);
   } catch {
-    const { offset, reason } = jsonSyntaxError(text);
+    const scan = scanJson(text);
+    // The scanner and JSON.parse follow the same grammar; the fallback only keeps the error total.
+    const { offset, reason } = scan.ok ? { offset: text.length, reason: 'not valid JSON' } : scan;
     const where = lineColumn(text, offset);
     throw new CliInputError(`${path} line ${where.line}, column ${where.column}: not valid JSON: ${reason}`);
   }

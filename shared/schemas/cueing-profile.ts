@@ -7,7 +7,7 @@
 // a section every field is required, and unknown keys are errors so a misspelt field is never ignored.
 
 import { z } from 'zod';
-import { formatJsonPath, lineColumn, scanJson } from './budget';
+import { formatJsonPath, lineColumn, nearestValueOffset, scanJson } from './json-input';
 
 /** The profile format version this code reads and writes. */
 export const CUEING_PROFILE_VERSION = 1;
@@ -204,11 +204,7 @@ export function parseCueingProfileJson(text: string): ProfileParseResult {
   return {
     ok: false,
     issues: r.error.issues.map((i) => {
-      // A missing key has no position of its own: point at the nearest enclosing value in the file.
-      let at: number | undefined;
-      for (let k = i.path.length; k >= 0 && at === undefined; k--) {
-        at = scan.positions.get(i.path.slice(0, k).map(String).join('/'));
-      }
+      const at = nearestValueOffset(scan.positions, i.path);
       return at === undefined ? toIssue(i) : { ...toIssue(i), ...lineColumn(text, at) };
     }),
   };

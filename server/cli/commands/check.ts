@@ -9,14 +9,14 @@ import { ProcessInputError, processTrack } from '../../../shared/motion/process'
 import type { Track } from '../../../shared/motion/track-reader';
 import { CueingError } from '../../../shared/motion/washout';
 import type { Budget } from '../../../shared/schemas/budget';
+import { parseBudgetText } from '../../../shared/schemas/budget';
 import {
   JsonInputError,
   formatProblem,
   lineColumn,
   locateJsonPath,
-  parseBudgetText,
   scanJson,
-} from '../../../shared/schemas/budget';
+} from '../../../shared/schemas/json-input';
 import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
 import { parseCueingProfileJson } from '../../../shared/schemas/cueing-profile';
 import type { MotionBase } from '../../../shared/schemas/motion-base';

@@ -5,7 +5,7 @@ import { parseArgs } from 'node:util';
 import { resampleTrack } from '../../../shared/motion/resample';
 import { trackColumn, trackColumnNames } from '../../../shared/motion/track-reader';
 import { CueingError, cueClassical } from '../../../shared/motion/washout';
-import { formatProblem } from '../../../shared/schemas/budget';
+import { formatProblem } from '../../../shared/schemas/json-input';
 import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
 import { defaultCueingProfile, parseCueingProfileJson } from '../../../shared/schemas/cueing-profile';
 import type { CliIo } from '../io';
