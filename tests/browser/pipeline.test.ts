@@ -158,6 +158,11 @@ describe('pipeline screens', () => {
       await canvases.nth(5).waitFor({ timeout: 15_000 });
       // Three force charts, two pose charts and the legs chart.
       expect(await page.getByTestId('run-charts').locator('.uplot').count()).toBe(6);
+      // The 3-D preview draws with three.js once it has loaded; its slider moves the instant shown.
+      const preview = page.getByTestId('base-preview');
+      await preview.locator('canvas[data-engine^="three.js"]').waitFor({ timeout: 15_000 });
+      await preview.getByRole('slider').fill('1000');
+      await preview.getByText('10.00 s').waitFor();
       const rows = await page
         .getByRole('table', { name: 'Budget uses, largest first' })
         .getByRole('row')

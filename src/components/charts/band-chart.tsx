@@ -1,7 +1,7 @@
 // A uPlot chart of min/max bands on one time axis: each band is drawn as its min and max lines with
 // a fill between them, so a decimated signal still shows every peak. Finding spans are shaded behind
 // the lines and horizontal limit lines are drawn over them.
-import { useEffect, useMemo, useRef } from 'react';
+import { memo, useEffect, useMemo, useRef } from 'react';
 import uPlot from 'uplot';
 import type { AlignedData, Options } from 'uplot';
 import 'uplot/dist/uPlot.min.css';
@@ -39,6 +39,12 @@ export interface BandChartProps {
   /** Multiplies every band value for display (e.g. 1000 for m to mm); the lines are already in display units. */
   scale?: number;
   height_px?: number;
+  /** Charts with the same key share the cursor line as the pointer moves over any of them. */
+  syncKey?: string;
+  /** Called with the index into `time_s` under the cursor. */
+  onCursorIndex?: (index: number) => void;
+  /** A time (s) to mark with a vertical line, e.g. the instant shown in the 3-D preview. */
+  marker_s?: number | null;
 }
 
 /** uPlot's aligned columns: time, then min and max of each band, scaled for display. */
@@ -62,7 +68,13 @@ export function bandChartData(
 }
 
 function chartOptions(
-  props: Required<Pick<BandChartProps, 'bands' | 'spans' | 'lines'>> & { yLabel: string; height_px: number },
+  props: Required<Pick<BandChartProps, 'bands' | 'spans' | 'lines'>> & {
+    yLabel: string;
+    height_px: number;
+    syncKey: string | undefined;
+    onCursor: (index: number) => void;
+    marker: () => number | null | undefined;
+  },
   width_px: number,
 ): Options {
   const series: Options['series'] = [{ label: 'Time (s)' }];
@@ -80,6 +92,7 @@ function chartOptions(
     width: width_px,
     height: props.height_px,
     legend: { show: false },
+    cursor: props.syncKey ? { sync: { key: props.syncKey } } : {},
     scales: {
       x: { time: false },
       y: {
@@ -116,6 +129,12 @@ function chartOptions(
     series,
     bands,
     hooks: {
+      setCursor: [
+        (u) => {
+          const index = u.cursor.idx;
+          if (index !== null && index !== undefined) props.onCursor(index);
+        },
+      ],
       drawClear: [
         (u) => {
           const { ctx } = u;
@@ -146,6 +165,17 @@ function chartOptions(
             ctx.lineTo(left + width, y);
             ctx.stroke();
           }
+          const marker_s = props.marker();
+          if (marker_s !== null && marker_s !== undefined && Number.isFinite(marker_s)) {
+            const x = Math.round(u.valToPos(marker_s, 'x', true));
+            ctx.setLineDash([]);
+            ctx.lineWidth = devicePixelRatio;
+            ctx.strokeStyle = CHART_COLORS.axis;
+            ctx.beginPath();
+            ctx.moveTo(x, u.bbox.top);
+            ctx.lineTo(x, u.bbox.top + u.bbox.height);
+            ctx.stroke();
+          }
           ctx.restore();
         },
       ],
@@ -153,25 +183,45 @@ function chartOptions(
   };
 }
 
+// Stable empty defaults, so a chart without spans or lines is not rebuilt on every render.
+const NO_SPANS: readonly ChartSpan[] = [];
+const NO_LINES: readonly ChartLine[] = [];
+
 /** One uPlot chart of bands over time with a small legend; redrawn when the data change and resized with its box. */
-export function BandChart({
+export const BandChart = memo(function BandChart({
   title,
   yLabel,
   time_s,
   bands,
-  spans = [],
-  lines = [],
+  spans = NO_SPANS,
+  lines = NO_LINES,
   scale = 1,
   height_px = 180,
+  syncKey,
+  onCursorIndex,
+  marker_s = null,
 }: BandChartProps) {
   const holder = useRef<HTMLDivElement>(null);
+  const plotRef = useRef<uPlot | null>(null);
+  const markerRef = useRef(marker_s);
+  // The latest callback, read by uPlot's hook, so a new callback never rebuilds the chart.
+  const cursorHandler = useRef(onCursorIndex);
+  useEffect(() => {
+    cursorHandler.current = onCursorIndex;
+  }, [onCursorIndex]);
   const data = useMemo(() => bandChartData(time_s, bands, scale), [time_s, bands, scale]);
 
   useEffect(() => {
     const el = holder.current;
     if (!el) return;
     const width_px = Math.max(el.clientWidth, 240);
-    const plot = new uPlot(chartOptions({ bands, spans, lines, yLabel, height_px }, width_px), data, el);
+    const onCursor = (index: number) => cursorHandler.current?.(index);
+    const marker = () => markerRef.current;
+    const plot = new uPlot(
+      chartOptions({ bands, spans, lines, yLabel, height_px, syncKey, onCursor, marker }, width_px),
+      data,
+      el,
+    );
     const observer =
       typeof ResizeObserver === 'undefined'
         ? null
@@ -180,11 +230,19 @@ export function BandChart({
             if (w !== plot.width) plot.setSize({ width: w, height: height_px });
           });
     observer?.observe(el);
+    plotRef.current = plot;
     return () => {
       observer?.disconnect();
+      plotRef.current = null;
       plot.destroy();
     };
-  }, [data, bands, spans, lines, yLabel, height_px]);
+  }, [data, bands, spans, lines, yLabel, height_px, syncKey]);
+
+  // Moving the marker repaints the canvas without rebuilding the chart.
+  useEffect(() => {
+    markerRef.current = marker_s;
+    plotRef.current?.redraw(false, false);
+  }, [marker_s]);
 
   return (
     <figure className="flex min-w-0 flex-col gap-1">
@@ -214,4 +272,4 @@ export function BandChart({
       <div ref={holder} className="min-w-0" data-chart={title} />
     </figure>
   );
-}
+});

@@ -1,11 +1,13 @@
 // The run's charts from its decimated series. Values stay SI in the data; millimetres and degrees
 // exist only here, for display.
-import { useMemo } from 'react';
+import { useMemo, useState } from 'react';
 import type { Finding } from '../../../../shared/schemas/findings';
+import type { MotionBase } from '../../../../shared/schemas/motion-base';
 import type { RunSeries, SeriesBand } from '../../../../shared/schemas/run-series';
 import { BandChart } from '../../../components/charts/band-chart';
 import type { ChartBand, ChartLine, ChartSpan } from '../../../components/charts/band-chart';
 import { CHART_COLORS, withAlpha } from '../../../components/charts/palette';
+import { BasePreview } from './base-preview';
 
 const M_TO_MM = 1000;
 const RAD_TO_DEG = 180 / Math.PI;
@@ -41,8 +43,20 @@ function poseBands(pose: Record<string, SeriesBand>, suffix: '_m' | '_rad'): Cha
 }
 
 /** Force per axis (input vs felt at seat 1), pose offsets and leg lengths inside the stroke band, with findings shaded. */
-export function RunCharts({ series, findings }: { series: RunSeries; findings: readonly Finding[] }) {
+export function RunCharts({
+  series,
+  findings,
+  base = null,
+}: {
+  series: RunSeries;
+  findings: readonly Finding[];
+  /** The venue's motion base for the 3-D preview; none, no preview. */
+  base?: MotionBase | null;
+}) {
   const spans = useMemo(() => findingSpans(findings), [findings]);
+  const [index, setIndex] = useState(0);
+  // The preview's instant is marked on every chart; without a preview there is nothing to mark.
+  const marker_s = base ? (series.time_s[index] ?? null) : null;
   const force = useMemo(
     () =>
       (['x', 'y', 'z'] as const).map((axis) => {
@@ -116,6 +130,9 @@ export function RunCharts({ series, findings }: { series: RunSeries; findings: r
             time_s={series.time_s}
             bands={bands}
             spans={spans}
+            syncKey="run"
+            onCursorIndex={setIndex}
+            marker_s={marker_s}
             height_px={170}
           />
         ))}
@@ -128,6 +145,9 @@ export function RunCharts({ series, findings }: { series: RunSeries; findings: r
             time_s={series.time_s}
             bands={translation}
             spans={spans}
+            syncKey="run"
+            onCursorIndex={setIndex}
+            marker_s={marker_s}
             scale={M_TO_MM}
           />
         ) : null}
@@ -138,6 +158,9 @@ export function RunCharts({ series, findings }: { series: RunSeries; findings: r
             time_s={series.time_s}
             bands={rotation}
             spans={spans}
+            syncKey="run"
+            onCursorIndex={setIndex}
+            marker_s={marker_s}
             scale={RAD_TO_DEG}
           />
         ) : null}
@@ -148,9 +171,20 @@ export function RunCharts({ series, findings }: { series: RunSeries; findings: r
         time_s={series.time_s}
         bands={legs}
         spans={spans}
+        syncKey="run"
+        onCursorIndex={setIndex}
+        marker_s={marker_s}
         lines={strokeLines}
         height_px={220}
       />
+      {base ? (
+        <div className="flex flex-col gap-1">
+          <h3 className="text-xs font-semibold text-ink-800">
+            Motion base (the venue&apos;s current geometry)
+          </h3>
+          <BasePreview base={base} series={series} index={index} onIndex={setIndex} />
+        </div>
+      ) : null}
     </div>
   );
 }

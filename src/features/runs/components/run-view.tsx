@@ -1,9 +1,13 @@
+import { useMemo } from 'react';
+import { parseMotionBase } from '../../../../shared/schemas/motion-base';
+import type { MotionBase } from '../../../../shared/schemas/motion-base';
 import { CAUTION_TEXT } from '../../../components/layout/caution-strip';
 import { Section } from '../../../components/ui/section';
 import { ErrorNotice, Loading } from '../../../components/ui/status';
 import { isUnauthorized } from '../../../lib/api-client';
 import { isRunActive, useRun } from '../api/get-run';
 import { useRunSeries } from '../api/get-run-series';
+import { useRunVenue } from '../api/get-run-venue';
 import { BudgetTable } from './budget-table';
 import { ComfortSummary } from './comfort-summary';
 import { FindingsTable } from './findings-table';
@@ -11,19 +15,32 @@ import { RunCharts } from './run-charts';
 import { RunFiles } from './run-files';
 import { RunHeader } from './run-header';
 
+function readBase(base: unknown): MotionBase | null {
+  try {
+    return parseMotionBase(base);
+  } catch {
+    // A base the parser refuses simply has no preview; the venue page names its problems.
+    return null;
+  }
+}
+
 function Charts({
   studioId,
   runId,
+  venueId,
   findings,
 }: {
   studioId: string;
   runId: string;
+  venueId: string;
   findings: Parameters<typeof RunCharts>[0]['findings'];
 }) {
   const series = useRunSeries(studioId, runId, true);
+  const venue = useRunVenue(studioId, venueId);
+  const base = useMemo(() => (venue.data ? readBase(venue.data.base) : null), [venue.data]);
   if (series.isPending) return <Loading what="Loading the chart series" />;
   if (series.isError) return <ErrorNotice error={series.error} retry={() => void series.refetch()} />;
-  return <RunCharts series={series.data} findings={findings} />;
+  return <RunCharts series={series.data} findings={findings} base={base} />;
 }
 
 /** Everything about one cue run: header, live progress, charts, budget, findings, comfort, files and the caution. */
@@ -50,7 +67,12 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
       {run.isError ? <ErrorNotice error={run.error} /> : null}
       {finished ? (
         <Section title="Motion">
-          <Charts studioId={studioId} runId={runId} findings={result?.findings ?? []} />
+          <Charts
+            studioId={studioId}
+            runId={runId}
+            venueId={detail.venueId}
+            findings={result?.findings ?? []}
+          />
         </Section>
       ) : null}
       {result ? (

@@ -1,0 +1,262 @@
+// A 3-D view of the venue's motion base at one instant of the run, scrubbed by the time slider or by
+// the cursor on any chart. three.js is loaded only when this view is shown (it is large).
+import { useEffect, useMemo, useRef, useState } from 'react';
+import type { MotionBase } from '../../../../shared/schemas/motion-base';
+import type { RunSeries } from '../../../../shared/schemas/run-series';
+import { CHART_COLORS } from '../../../components/charts/palette';
+import { Button } from '../../../components/ui/button';
+import { poseAtBucket, previewJoints, previewLegLengths } from '../utils/preview-geometry';
+import type { ThreeModule } from '../utils/preview-geometry';
+
+interface Scene {
+  show: (joints: { base: Float64Array; platform: Float64Array }, legOk: readonly boolean[]) => void;
+  dispose: () => void;
+}
+
+function webglAvailable(): boolean {
+  try {
+    const canvas = document.createElement('canvas');
+    return !!canvas.getContext('webgl2');
+  } catch {
+    return false;
+  }
+}
+
+async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase): Promise<Scene> {
+  const { OrbitControls } = await import('three/examples/jsm/controls/OrbitControls.js');
+  const width_px = Math.max(el.clientWidth, 240);
+  const height_px = 320;
+  const renderer = new three.WebGLRenderer({ antialias: true });
+  renderer.setPixelRatio(window.devicePixelRatio);
+  renderer.setSize(width_px, height_px);
+  renderer.setClearColor(0xffffff);
+  el.appendChild(renderer.domElement);
+
+  const hexapod = base.kind === 'hexapod';
+  const height_m = hexapod ? base.neutralHeight_m : 0;
+  const camera = new three.PerspectiveCamera(35, width_px / height_px, 0.05, 100);
+  // z is up in every Legwork frame (motion-spec section 1).
+  camera.up.set(0, 0, 1);
+  camera.position.set(hexapod ? 4.2 : 2.5, hexapod ? -4.2 : -3.5, hexapod ? 3.2 : 5);
+  const target = new three.Vector3(0, 0, height_m * 0.5);
+  camera.lookAt(target);
+
+  const scene = new three.Scene();
+  const grid = new three.GridHelper(5, 10, 0xc5cfd9, 0xe3e8ee);
+  grid.rotation.x = Math.PI / 2;
+  scene.add(grid);
+  scene.add(new three.AxesHelper(0.5));
+
+  const n = base.baseJoints_m.length;
+  const loop = (color: string) => {
+    const geometry = new three.BufferGeometry();
+    geometry.setAttribute('position', new three.Float32BufferAttribute(new Float32Array(3 * n), 3));
+    const line = new three.LineLoop(geometry, new three.LineBasicMaterial({ color }));
+    scene.add(line);
+    return geometry;
+  };
+  const baseLoop = loop(CHART_COLORS.input);
+  const platformLoop = loop(CHART_COLORS.cued);
+  const legGeometry = new three.BufferGeometry();
+  legGeometry.setAttribute('position', new three.Float32BufferAttribute(new Float32Array(6 * n), 3));
+  legGeometry.setAttribute('color', new three.Float32BufferAttribute(new Float32Array(6 * n), 3));
+  scene.add(new three.LineSegments(legGeometry, new three.LineBasicMaterial({ vertexColors: true })));
+
+  const okColor = new three.Color(CHART_COLORS.axis);
+  const badColor = new three.Color(CHART_COLORS.hard);
+  const controls = new OrbitControls(camera, renderer.domElement);
+  controls.target.copy(target);
+  controls.update();
+  const render = () => renderer.render(scene, camera);
+  controls.addEventListener('change', render);
+
+  const observer =
+    typeof ResizeObserver === 'undefined'
+      ? null
+      : new ResizeObserver(() => {
+          const w = Math.max(el.clientWidth, 240);
+          renderer.setSize(w, height_px);
+          camera.aspect = w / height_px;
+          camera.updateProjectionMatrix();
+          render();
+        });
+  observer?.observe(el);
+
+  return {
+    show: (joints, legOk) => {
+      const bp = baseLoop.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
+      const pp = platformLoop.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
+      const lp = legGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
+      const lc = legGeometry.getAttribute('color') as InstanceType<ThreeModule['BufferAttribute']>;
+      for (let i = 0; i < n; i++) {
+        const b = [
+          joints.base[3 * i] ?? 0,
+          joints.base[3 * i + 1] ?? 0,
+          joints.base[3 * i + 2] ?? 0,
+        ] as const;
+        const p = [
+          joints.platform[3 * i] ?? 0,
+          joints.platform[3 * i + 1] ?? 0,
+          joints.platform[3 * i + 2] ?? 0,
+        ] as const;
+        bp.setXYZ(i, b[0], b[1], b[2]);
+        pp.setXYZ(i, p[0], p[1], p[2]);
+        lp.setXYZ(2 * i, b[0], b[1], b[2]);
+        lp.setXYZ(2 * i + 1, p[0], p[1], p[2]);
+        const c = legOk[i] === false ? badColor : okColor;
+        lc.setXYZ(2 * i, c.r, c.g, c.b);
+        lc.setXYZ(2 * i + 1, c.r, c.g, c.b);
+      }
+      bp.needsUpdate = true;
+      pp.needsUpdate = true;
+      lp.needsUpdate = true;
+      lc.needsUpdate = true;
+      render();
+    },
+    dispose: () => {
+      observer?.disconnect();
+      controls.dispose();
+      renderer.dispose();
+      renderer.domElement.remove();
+    },
+  };
+}
+
+/** The motion base at bucket `index` of the run: legs outside the stroke band are drawn red. */
+export function BasePreview({
+  base,
+  series,
+  index,
+  onIndex,
+}: {
+  base: MotionBase;
+  series: RunSeries;
+  index: number;
+  onIndex: (index: number) => void;
+}) {
+  const holder = useRef<HTMLDivElement>(null);
+  const scene = useRef<Scene | null>(null);
+  const [three, setThree] = useState<ThreeModule | null>(null);
+  const [problem, setProblem] = useState<string | null>(null);
+  const [playing, setPlaying] = useState(false);
+  const last = Math.max(series.time_s.length - 1, 0);
+  const at = Math.min(Math.max(index, 0), last);
+
+  useEffect(() => {
+    const el = holder.current;
+    if (!el) return;
+    let cancelled = false;
+    let built: Scene | null = null;
+    (async () => {
+      if (!webglAvailable()) {
+        setProblem(
+          'This browser offers no WebGL, so the 3-D preview is off; the charts hold the same motion.',
+        );
+        return;
+      }
+      const module = await import('three');
+      if (cancelled) return;
+      built = await buildScene(module, el, base);
+      if (cancelled) {
+        built.dispose();
+        return;
+      }
+      scene.current = built;
+      setThree(module);
+    })().catch((error: unknown) => {
+      if (!cancelled)
+        setProblem(
+          `The 3-D preview could not start: ${error instanceof Error ? error.message : String(error)}`,
+        );
+    });
+    return () => {
+      cancelled = true;
+      built?.dispose();
+      scene.current = null;
+    };
+  }, [base]);
+
+  const { min_m, max_m, margin_m } = series.stroke;
+  const lowest_m = min_m + margin_m;
+  const highest_m = max_m - margin_m;
+  const joints = useMemo(
+    () => (three ? previewJoints(three, base, poseAtBucket(series, at)) : null),
+    [three, base, series, at],
+  );
+  const legs = useMemo(() => (joints ? previewLegLengths(joints) : null), [joints]);
+  const legOk = useMemo(
+    () => (legs ? Array.from(legs, (l) => l >= lowest_m && l <= highest_m) : []),
+    [legs, lowest_m, highest_m],
+  );
+
+  useEffect(() => {
+    if (joints) scene.current?.show(joints, legOk);
+  }, [joints, legOk]);
+
+  // Plays the run in real time from the current instant; stops at the end.
+  useEffect(() => {
+    if (!playing) return;
+    const times = series.time_s;
+    const start_s = times[at] ?? 0;
+    const startedAt = performance.now();
+    let frame = 0;
+    let k = at;
+    const step = (now: number) => {
+      const t = start_s + (now - startedAt) / 1000;
+      while (k < last && (times[k + 1] ?? Infinity) <= t) k++;
+      onIndex(k);
+      if (k >= last) setPlaying(false);
+      else frame = requestAnimationFrame(step);
+    };
+    frame = requestAnimationFrame(step);
+    return () => cancelAnimationFrame(frame);
+    // Restart only when play is pressed, not on every index it sets itself.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [playing]);
+
+  const time_s = series.time_s[at] ?? 0;
+  return (
+    <div className="flex flex-col gap-2" data-testid="base-preview">
+      <div ref={holder} className="min-h-20 rounded border border-ink-100" />
+      {problem ? <p className="text-xs text-ink-600">{problem}</p> : null}
+      <div className="flex flex-wrap items-center gap-3">
+        <Button size="sm" onClick={() => setPlaying(!playing)} disabled={!three}>
+          {playing ? 'Pause' : 'Play'}
+        </Button>
+        <label className="flex flex-1 items-center gap-2 text-xs text-ink-600">
+          Time
+          <input
+            type="range"
+            min={0}
+            max={last}
+            value={at}
+            onChange={(event) => {
+              setPlaying(false);
+              onIndex(Number(event.target.value));
+            }}
+            className="flex-1 accent-tealdeep-600"
+          />
+          <span className="w-16 text-right font-mono text-ink-900">{time_s.toFixed(2)} s</span>
+        </label>
+      </div>
+      {legs ? (
+        <ul
+          className="flex flex-wrap gap-x-4 gap-y-1 font-mono text-xs"
+          aria-label="Leg lengths at this instant"
+        >
+          {Array.from(legs, (l, i) => (
+            <li key={i} className={legOk[i] ? 'text-ink-800' : 'font-semibold text-stop-700'}>
+              leg{i + 1} {l.toFixed(3)} m
+            </li>
+          ))}
+          <li className="text-ink-400">
+            band {lowest_m.toFixed(3)}–{highest_m.toFixed(3)} m
+          </li>
+        </ul>
+      ) : null}
+      <p className="text-xs text-ink-400">
+        Pose from the middle of each chart bucket; drag to turn the view. Hover a chart to move the time.
+      </p>
+    </div>
+  );
+}
