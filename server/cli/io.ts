@@ -1,17 +1,27 @@
 // File and console edges of the `legwork` command: streaming track files into the pure reader,
-// reading JSON with positions in its errors, writing CSV, and the shared exit codes and caution.
+// reading the JSON inputs (base, budget, profile) with positions in their errors, writing CSV, and the
+// shared exit codes and caution.
 
 import { createReadStream, createWriteStream } from 'node:fs';
 import { readFile, stat } from 'node:fs/promises';
 import { once } from 'node:events';
 import { createGunzip } from 'node:zlib';
-import { parseArgs } from 'node:util';
 import type { Readable } from 'node:stream';
-import { TrackFileError, TrackReader } from '../../shared/motion/track-reader';
+import { TrackFileError, TrackReader, trackColumnNames } from '../../shared/motion/track-reader';
 import type { Track, TrackReaderOptions } from '../../shared/motion/track-reader';
 import { MotionBaseError, parseMotionBase } from '../../shared/schemas/motion-base';
 import type { MotionBase } from '../../shared/schemas/motion-base';
-import { lineColumn, scanJson } from '../../shared/schemas/json-input';
+import { parseBudgetText } from '../../shared/schemas/budget';
+import type { Budget } from '../../shared/schemas/budget';
+import { parseCueingProfileJson } from '../../shared/schemas/cueing-profile';
+import type { CueingProfile } from '../../shared/schemas/cueing-profile';
+import {
+  JsonInputError,
+  formatProblem,
+  lineColumn,
+  locateJsonPath,
+  scanJson,
+} from '../../shared/schemas/json-input';
 
 /** Exit codes of motion-spec section 7 (1 is left for failures of the program itself). */
 export const EXIT = { ok: 0, internal: 1, badInput: 2, comfort: 3, hard: 4 } as const;
@@ -86,14 +96,18 @@ export async function readTrackFile(
   return reader.end();
 }
 
-/** Reads and parses a JSON file; a syntax error names the file, line and column. */
-export async function readJsonFile(path: string): Promise<unknown> {
-  let text: string;
+/** Reads a whole UTF-8 text file; a file that cannot be read is a CliInputError naming it. */
+export async function readTextFile(path: string): Promise<string> {
   try {
-    text = await readFile(path, 'utf8');
+    return await readFile(path, 'utf8');
   } catch (e) {
     throw describeFsError(path, e);
   }
+}
+
+/** Reads and parses a JSON file; a syntax error names the file, line and column. */
+export async function readJsonFile(path: string): Promise<unknown> {
+  const text = await readTextFile(path);
   try {
     return JSON.parse(text);
   } catch {
@@ -116,6 +130,62 @@ export async function readMotionBaseFile(path: string): Promise<MotionBase> {
     }
     throw e;
   }
+}
+
+function syntaxError(path: string, text: string): CliInputError | null {
+  const scan = scanJson(text);
+  if (scan.ok) return null;
+  const at = lineColumn(text, scan.offset);
+  return new CliInputError(`${path}:${at.line}:${at.column}: not valid JSON: ${scan.reason}`);
+}
+
+/** Reads a motion base file; each problem is reported as file:line:column: path: reason. */
+export async function readBaseFile(path: string): Promise<{ base: MotionBase; text: string }> {
+  const text = await readTextFile(path);
+  const bad = syntaxError(path, text);
+  if (bad) throw bad;
+  try {
+    return { base: parseMotionBase(JSON.parse(text)), text };
+  } catch (e) {
+    if (!(e instanceof MotionBaseError)) throw e;
+    const lines = e.issues.map((i) => {
+      const at = locateJsonPath(text, i.path);
+      return formatProblem({
+        file: path,
+        ...(at ?? {}),
+        path: i.path === '(root)' ? '' : i.path,
+        reason: i.message,
+      });
+    });
+    throw new CliInputError(`invalid motion base:\n${lines.join('\n')}`);
+  }
+}
+
+/** Reads a budget file; each problem is reported as file:line:column: path: reason. */
+export async function readBudgetFile(path: string): Promise<{ budget: Budget; text: string }> {
+  const text = await readTextFile(path);
+  try {
+    return { budget: parseBudgetText(text, path), text };
+  } catch (e) {
+    if (e instanceof JsonInputError) throw new CliInputError(`invalid budget:\n${e.message}`);
+    throw e;
+  }
+}
+
+/** Reads a cueing profile file; each problem is reported as file:line:column: path: reason. */
+export async function readProfileFile(path: string): Promise<{ profile: CueingProfile; text: string }> {
+  const text = await readTextFile(path);
+  const r = parseCueingProfileJson(text);
+  if (r.ok) return { profile: r.profile, text };
+  const lines = r.issues.map((i) =>
+    formatProblem({
+      file: path,
+      ...(i.line !== undefined ? { line: i.line, column: i.column } : {}),
+      path: i.path === '(profile)' ? '' : i.path,
+      reason: i.message,
+    }),
+  );
+  throw new CliInputError(`invalid cueing profile:\n${lines.join('\n')}`);
 }
 
 /**
@@ -163,6 +233,38 @@ export async function writeCsv(
   }
 }
 
+/**
+ * Reads a motion base and a track that must be of `kind` in that base's layout (ik takes pose, fk takes
+ * legs); any other track is a CliInputError on its header line.
+ */
+export async function readBaseAndTrack(
+  basePath: string,
+  inputPath: string,
+  kind: 'pose' | 'legs',
+): Promise<{ base: MotionBase; track: Track }> {
+  const base = await readMotionBaseFile(basePath);
+  const track = await readTrackFile(inputPath);
+  if (track.kind !== kind || track.layout !== base.kind) {
+    throw new CliInputError(
+      `${inputPath} line 1: expected a ${base.kind} ${kind} track (${['time_s', ...trackColumnNames(kind, base.kind)].join(', ')}), found a ${track.layout} ${track.kind} track`,
+    );
+  }
+  return { base, track };
+}
+
+/** Writes to stderr a warning per leg (lengths in m, at the track's times) outside the base's stroke. */
+export function warnOutsideStroke(
+  io: CliIo,
+  file: string,
+  track: Track,
+  legs: readonly Float64Array[],
+  base: MotionBase,
+): void {
+  for (const w of strokeWarnings(file, track.time_s, legs, base.leg.min_m, base.leg.max_m, track.lines)) {
+    io.stderr(`${w}\n`);
+  }
+}
+
 /** Stroke warnings for leg columns (m): per leg out of [min_m, max_m], count, worst value and first time. */
 export function strokeWarnings(
   file: string,
@@ -200,33 +302,4 @@ export function strokeWarnings(
     }
   }
   return out;
-}
-
-/** Parses the shared `--base --in [--out]` options; throws CliInputError on any misuse. */
-export function parseBaseInOut(argv: string[]): {
-  base: string;
-  input: string;
-  out: string | undefined;
-  help: boolean;
-} {
-  let values: { base?: string; in?: string; out?: string; help?: boolean };
-  try {
-    values = parseArgs({
-      args: argv,
-      options: {
-        base: { type: 'string' },
-        in: { type: 'string' },
-        out: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-      strict: true,
-      allowPositionals: false,
-    }).values;
-  } catch (e) {
-    throw new CliInputError((e as Error).message);
-  }
-  if (values.help) return { base: '', input: '', out: undefined, help: true };
-  if (!values.base) throw new CliInputError('missing --base FILE');
-  if (!values.in) throw new CliInputError('missing --in FILE');
-  return { base: values.base, input: values.in, out: values.out, help: false };
 }

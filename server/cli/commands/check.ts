@@ -1,28 +1,15 @@
 // `legwork check`: the motion-safety budget of a pose (or legs) track on a motion base, as findings JSON.
-// Also holds the JSON file readers that `process` shares: every problem names file, line and column.
+// Also holds the pipeline error wording that `process` shares.
 
-import { readFile, writeFile } from 'node:fs/promises';
-import { parseArgs } from 'node:util';
+import { writeFile } from 'node:fs/promises';
 import { KinematicsError } from '../../../shared/motion/base-geometry';
 import { CheckInputError } from '../../../shared/motion/checks';
 import { ProcessInputError, processTrack } from '../../../shared/motion/process';
 import type { Track } from '../../../shared/motion/track-reader';
 import { CueingError } from '../../../shared/motion/washout';
-import type { Budget } from '../../../shared/schemas/budget';
-import { parseBudgetText } from '../../../shared/schemas/budget';
-import {
-  JsonInputError,
-  formatProblem,
-  lineColumn,
-  locateJsonPath,
-  scanJson,
-} from '../../../shared/schemas/json-input';
-import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
-import { parseCueingProfileJson } from '../../../shared/schemas/cueing-profile';
-import type { MotionBase } from '../../../shared/schemas/motion-base';
-import { MotionBaseError, parseMotionBase } from '../../../shared/schemas/motion-base';
+import { parseCommandOptions } from '../args';
 import type { CliIo } from '../io';
-import { CAUTION, CliInputError, readTrackFile } from '../io';
+import { CAUTION, CliInputError, readBaseFile, readBudgetFile, readTrackFile } from '../io';
 
 export const summary = 'motion-safety budget of a pose track: findings JSON, exit 0, 3 or 4';
 
@@ -49,75 +36,6 @@ Exit codes: 0 within budget, 2 bad input or usage, 3 over a comfort limit only, 
 The budget numbers are whatever the venue entered; Legwork does not check them against any code.
 ${CAUTION}
 `;
-
-async function readText(path: string): Promise<string> {
-  try {
-    return await readFile(path, 'utf8');
-  } catch (e) {
-    const code = (e as { code?: string }).code;
-    if (code === 'ENOENT') throw new CliInputError(`${path}: no such file`);
-    if (code === 'EISDIR') throw new CliInputError(`${path}: is a directory, expected a file`);
-    throw new CliInputError(`${path}: cannot read: ${(e as Error).message}`);
-  }
-}
-
-function syntaxError(path: string, text: string): CliInputError | null {
-  const scan = scanJson(text);
-  if (scan.ok) return null;
-  const at = lineColumn(text, scan.offset);
-  return new CliInputError(`${path}:${at.line}:${at.column}: not valid JSON: ${scan.reason}`);
-}
-
-/** Reads a motion base file; each problem is reported as file:line:column: path: reason. */
-export async function readBaseFile(path: string): Promise<{ base: MotionBase; text: string }> {
-  const text = await readText(path);
-  const bad = syntaxError(path, text);
-  if (bad) throw bad;
-  try {
-    return { base: parseMotionBase(JSON.parse(text)), text };
-  } catch (e) {
-    if (!(e instanceof MotionBaseError)) throw e;
-    const lines = e.issues.map((i) => {
-      const at = locateJsonPath(text, i.path);
-      return formatProblem({
-        file: path,
-        ...(at ?? {}),
-        path: i.path === '(root)' ? '' : i.path,
-        reason: i.message,
-      });
-    });
-    throw new CliInputError(`invalid motion base:\n${lines.join('\n')}`);
-  }
-}
-
-/** Reads a budget file; each problem is reported as file:line:column: path: reason. */
-export async function readBudgetFile(path: string): Promise<{ budget: Budget; text: string }> {
-  const text = await readText(path);
-  try {
-    return { budget: parseBudgetText(text, path), text };
-  } catch (e) {
-    if (e instanceof JsonInputError) throw new CliInputError(`invalid budget:\n${e.message}`);
-    throw e;
-  }
-}
-
-/** Reads a cueing profile file; each problem is reported as file:line:column: path: reason. */
-export async function readProfileFile(path: string): Promise<{ profile: CueingProfile; text: string }> {
-  const text = await readText(path);
-  const bad = syntaxError(path, text);
-  if (bad) throw bad;
-  const r = parseCueingProfileJson(text);
-  if (r.ok) return { profile: r.profile, text };
-  const lines = r.issues.map((i) =>
-    formatProblem({
-      file: path,
-      ...(i.line !== undefined ? { line: i.line, column: i.column } : {}),
-      path: i.path === '(profile)' ? '' : i.path,
-      reason: i.message,
-    }),
-  );
-  throw new CliInputError(`invalid cueing profile:\n${lines.join('\n')}`);
-}
 
 /** File line of the input row at or after time t_s (for errors found after resampling). */
 export function lineAtTime(track: Track, t_s: number): number | undefined {
@@ -157,30 +75,15 @@ export function describePipelineError(
 
 /** Runs `legwork check`; resolves to the exit code (0, 3 or 4; bad input throws CliInputError for 2). */
 export async function run(argv: string[], io: CliIo): Promise<number> {
-  let values: { base?: string; budget?: string; in?: string; out?: string; help?: boolean };
-  try {
-    values = parseArgs({
-      args: argv,
-      options: {
-        base: { type: 'string' },
-        budget: { type: 'string' },
-        in: { type: 'string' },
-        out: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-      strict: true,
-      allowPositionals: false,
-    }).values;
-  } catch (e) {
-    throw new CliInputError((e as Error).message);
-  }
-  if (values.help) {
+  const values = parseCommandOptions(argv, ['base', 'budget', 'in', 'out'], {
+    base: 'FILE',
+    budget: 'FILE',
+    in: 'FILE',
+  });
+  if (!values) {
     io.stdout(help);
     return 0;
   }
-  if (!values.base) throw new CliInputError('missing --base FILE');
-  if (!values.budget) throw new CliInputError('missing --budget FILE');
-  if (!values.in) throw new CliInputError('missing --in FILE');
   const { base } = await readBaseFile(values.base);
   const { budget } = await readBudgetFile(values.budget);
   const track = await readTrackFile(values.in);

@@ -1,15 +1,12 @@
 // `legwork cue`: classical washout of a vehicle track into platform pose offsets (motion-spec section 4).
 
-import { readFile } from 'node:fs/promises';
-import { parseArgs } from 'node:util';
 import { resampleTrack } from '../../../shared/motion/resample';
 import { trackColumn, trackColumnNames } from '../../../shared/motion/track-reader';
 import { CueingError, cueClassical } from '../../../shared/motion/washout';
-import { formatProblem } from '../../../shared/schemas/json-input';
-import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
-import { defaultCueingProfile, parseCueingProfileJson } from '../../../shared/schemas/cueing-profile';
+import { defaultCueingProfile } from '../../../shared/schemas/cueing-profile';
+import { parseCommandOptions } from '../args';
 import type { CliIo } from '../io';
-import { CAUTION, CliInputError, readTrackFile, writeCsv } from '../io';
+import { CAUTION, CliInputError, readProfileFile, readTrackFile, writeCsv } from '../io';
 
 /** Processing rate when --rate is not given: the controller rate of the spec's example motion base. */
 export const DEFAULT_CUE_RATE_HZ = 100;
@@ -55,25 +52,8 @@ interface CueArgs {
 }
 
 function parseCueArgs(argv: string[]): CueArgs {
-  let values: { profile?: string; rate?: string; in?: string; out?: string; help?: boolean };
-  try {
-    values = parseArgs({
-      args: argv,
-      options: {
-        profile: { type: 'string' },
-        rate: { type: 'string' },
-        in: { type: 'string' },
-        out: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-      strict: true,
-      allowPositionals: false,
-    }).values;
-  } catch (e) {
-    throw new CliInputError((e as Error).message);
-  }
-  if (values.help) return { profile: undefined, rate_hz: 0, input: '', out: undefined, help: true };
-  if (!values.in) throw new CliInputError('missing --in FILE');
+  const values = parseCommandOptions(argv, ['profile', 'rate', 'in', 'out'], { in: 'FILE' });
+  if (!values) return { profile: undefined, rate_hz: 0, input: '', out: undefined, help: true };
   let rate_hz = DEFAULT_CUE_RATE_HZ;
   if (values.rate !== undefined) {
     rate_hz = /^\s*[+]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?\s*$/.test(values.rate)
@@ -88,29 +68,6 @@ function parseCueArgs(argv: string[]): CueArgs {
   return { profile: values.profile, rate_hz, input: values.in, out: values.out, help: false };
 }
 
-async function readProfile(path: string): Promise<CueingProfile> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (e) {
-    const code = (e as { code?: string }).code;
-    if (code === 'ENOENT') throw new CliInputError(`${path}: no such file`);
-    if (code === 'EISDIR') throw new CliInputError(`${path}: is a directory, expected a file`);
-    throw new CliInputError(`${path}: cannot read: ${(e as Error).message}`);
-  }
-  const r = parseCueingProfileJson(text);
-  if (r.ok) return r.profile;
-  const lines = r.issues.map((i) =>
-    formatProblem({
-      file: path,
-      ...(i.line !== undefined ? { line: i.line, column: i.column } : {}),
-      path: i.path === '(profile)' ? '' : i.path,
-      reason: i.message,
-    }),
-  );
-  throw new CliInputError(`invalid cueing profile:\n${lines.join('\n')}`);
-}
-
 /** Runs `legwork cue` (see `help`); resolves to the exit code. */
 export async function run(argv: string[], io: CliIo): Promise<number> {
   const args = parseCueArgs(argv);
@@ -118,7 +75,8 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
     io.stdout(help);
     return 0;
   }
-  const profile = args.profile === undefined ? defaultCueingProfile() : await readProfile(args.profile);
+  const profile =
+    args.profile === undefined ? defaultCueingProfile() : (await readProfileFile(args.profile)).profile;
   const track = await readTrackFile(args.input);
   if (track.kind !== 'vehicle') {
     const expected = ['time_s', ...trackColumnNames('vehicle', 'vehicle')].join(', ');

@@ -4,16 +4,9 @@ import { KinematicsError } from '../../../shared/motion/base-geometry';
 import { hexapodForward, hexapodGeometry } from '../../../shared/motion/hexapod';
 import { planar3Forward, planar3Geometry } from '../../../shared/motion/planar3';
 import { trackColumnNames } from '../../../shared/motion/track-reader';
+import { parseCommandOptions } from '../args';
 import type { CliIo } from '../io';
-import {
-  CAUTION,
-  CliInputError,
-  parseBaseInOut,
-  readMotionBaseFile,
-  readTrackFile,
-  strokeWarnings,
-  writeCsv,
-} from '../io';
+import { CAUTION, CliInputError, readBaseAndTrack, warnOutsideStroke, writeCsv } from '../io';
 
 /** One line for `legwork --help`. */
 export const summary = 'pose offsets from a leg-length track (forward kinematics, continuity from neutral)';
@@ -41,28 +34,13 @@ ${CAUTION}
 
 /** Turns a leg-length track into pose offsets (m, rad) at the same times; resolves to the exit code, throws CliInputError on bad input. */
 export async function run(argv: string[], io: CliIo): Promise<number> {
-  const args = parseBaseInOut(argv);
-  if (args.help) {
+  const args = parseCommandOptions(argv, ['base', 'in', 'out'], { base: 'FILE', in: 'FILE' });
+  if (!args) {
     io.stdout(help);
     return 0;
   }
-  const base = await readMotionBaseFile(args.base);
-  const track = await readTrackFile(args.input);
-  if (track.kind !== 'legs' || track.layout !== base.kind) {
-    throw new CliInputError(
-      `${args.input} line 1: expected a ${base.kind} legs track (${['time_s', ...trackColumnNames('legs', base.kind)].join(', ')}), found a ${track.layout} ${track.kind} track`,
-    );
-  }
-  for (const w of strokeWarnings(
-    args.input,
-    track.time_s,
-    track.columns,
-    base.leg.min_m,
-    base.leg.max_m,
-    track.lines,
-  )) {
-    io.stderr(`${w}\n`);
-  }
+  const { base, track } = await readBaseAndTrack(args.base, args.in, 'legs');
+  warnOutsideStroke(io, args.in, track, track.columns, base);
   let columns: Float64Array[];
   try {
     if (base.kind === 'hexapod') {
@@ -75,7 +53,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   } catch (e) {
     if (e instanceof KinematicsError) {
       const line = track.lines?.[e.sampleIndex];
-      throw new CliInputError(`${args.input}${line === undefined ? '' : ` line ${line}`}: ${e.message}`);
+      throw new CliInputError(`${args.in}${line === undefined ? '' : ` line ${line}`}: ${e.message}`);
     }
     throw e;
   }

@@ -3,16 +3,9 @@
 import { hexapodGeometry, hexapodInverse } from '../../../shared/motion/hexapod';
 import { planar3Geometry, planar3Inverse } from '../../../shared/motion/planar3';
 import { trackColumn, trackColumnNames } from '../../../shared/motion/track-reader';
+import { parseCommandOptions } from '../args';
 import type { CliIo } from '../io';
-import {
-  CAUTION,
-  CliInputError,
-  parseBaseInOut,
-  readMotionBaseFile,
-  readTrackFile,
-  strokeWarnings,
-  writeCsv,
-} from '../io';
+import { CAUTION, readBaseAndTrack, warnOutsideStroke, writeCsv } from '../io';
 
 /** One line for `legwork --help`. */
 export const summary = 'leg lengths at the input times of a pose track (inverse kinematics)';
@@ -38,18 +31,12 @@ ${CAUTION}
 
 /** Turns a pose track into leg lengths (m) at the same times; resolves to the exit code, throws CliInputError on bad input. */
 export async function run(argv: string[], io: CliIo): Promise<number> {
-  const args = parseBaseInOut(argv);
-  if (args.help) {
+  const args = parseCommandOptions(argv, ['base', 'in', 'out'], { base: 'FILE', in: 'FILE' });
+  if (!args) {
     io.stdout(help);
     return 0;
   }
-  const base = await readMotionBaseFile(args.base);
-  const track = await readTrackFile(args.input);
-  if (track.kind !== 'pose' || track.layout !== base.kind) {
-    throw new CliInputError(
-      `${args.input} line 1: expected a ${base.kind} pose track (${['time_s', ...trackColumnNames('pose', base.kind)].join(', ')}), found a ${track.layout} ${track.kind} track`,
-    );
-  }
+  const { base, track } = await readBaseAndTrack(args.base, args.in, 'pose');
   const col = (name: string): Float64Array => trackColumn(track, name);
   let legs: Float64Array[];
   if (base.kind === 'hexapod') {
@@ -68,16 +55,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
       yaw_rad: col('yaw_rad'),
     });
   }
-  for (const w of strokeWarnings(
-    args.input,
-    track.time_s,
-    legs,
-    base.leg.min_m,
-    base.leg.max_m,
-    track.lines,
-  )) {
-    io.stderr(`${w}\n`);
-  }
+  warnOutsideStroke(io, args.in, track, legs, base);
   await writeCsv(io, args.out, ['time_s', ...trackColumnNames('legs', base.kind)], [track.time_s, ...legs]);
   return 0;
 }

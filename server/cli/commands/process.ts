@@ -4,15 +4,15 @@
 import { createReadStream, readFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { basename } from 'node:path';
-import { parseArgs } from 'node:util';
 import { packageContents, processTrack } from '../../../shared/motion/process';
 import type { ProcessResult } from '../../../shared/motion/process';
 import type { Budget } from '../../../shared/schemas/budget';
 import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
 import type { CliIo } from '../io';
-import { CAUTION, CliInputError, readTrackFile } from '../io';
+import { parseCommandOptions } from '../args';
+import { CAUTION, CliInputError, readBaseFile, readBudgetFile, readProfileFile, readTrackFile } from '../io';
 import { sha256Hex, writePackage } from '../package-writer';
-import { describePipelineError, readBaseFile, readBudgetFile, readProfileFile } from './check';
+import { describePipelineError } from './check';
 
 export const summary =
   'the whole offline pipeline into a package folder (legs, pose, findings, spectra, report)';
@@ -66,31 +66,15 @@ async function fileSha256(path: string): Promise<{ sha256: string; size_bytes: n
 
 /** Runs `legwork process`; resolves to the exit code (0, 3 or 4; bad input throws CliInputError for 2). */
 export async function run(argv: string[], io: CliIo): Promise<number> {
-  let values: { base?: string; profile?: string; budget?: string; in?: string; out?: string; help?: boolean };
-  try {
-    values = parseArgs({
-      args: argv,
-      options: {
-        base: { type: 'string' },
-        profile: { type: 'string' },
-        budget: { type: 'string' },
-        in: { type: 'string' },
-        out: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-      strict: true,
-      allowPositionals: false,
-    }).values;
-  } catch (e) {
-    throw new CliInputError((e as Error).message);
-  }
-  if (values.help) {
+  const values = parseCommandOptions(argv, ['base', 'profile', 'budget', 'in', 'out'], {
+    base: 'FILE',
+    in: 'FILE',
+    out: 'DIR',
+  });
+  if (!values) {
     io.stdout(help);
     return 0;
   }
-  if (!values.base) throw new CliInputError('missing --base FILE');
-  if (!values.in) throw new CliInputError('missing --in FILE');
-  if (!values.out) throw new CliInputError('missing --out DIR');
   const basePath = values.base;
   const inPath = values.in;
   const { base, text: baseText } = await readBaseFile(basePath);
