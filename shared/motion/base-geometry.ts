@@ -21,6 +21,18 @@ export class KinematicsError extends Error {
   }
 }
 
+/**
+ * Joint coordinates (m, in the frame they are given in) flattened as [x0, y0, (z0,) x1, ...] with `dim`
+ * values per joint; a missing coordinate becomes NaN rather than a zero that could pass for a joint.
+ */
+export function flattenJoints(joints: readonly (readonly number[])[], dim: 2 | 3): Float64Array {
+  const out = new Float64Array(dim * joints.length);
+  for (let i = 0; i < joints.length; i++) {
+    for (let k = 0; k < dim; k++) out[dim * i + k] = joints[i]?.[k] ?? NaN;
+  }
+  return out;
+}
+
 /** Inputs of the parametric hexapod layout (lengths in m, angles in deg). */
 export interface HexapodLayoutParameters {
   baseRadius_m: number;

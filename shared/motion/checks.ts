@@ -167,6 +167,17 @@ class Collector {
     this.uses.push({ check, subject, ratio: worst });
   }
 
+  /** scan() of |signal| (any unit) against a constant limit in the same unit; `ratio` is scratch of length n. */
+  scanAbs(check: CheckName, subject: string, signal: Float64Array, limit: number, ratio: Float64Array): void {
+    this.scan(
+      check,
+      subject,
+      absRatio(signal, limit, ratio),
+      (i) => Math.abs(signal[i] as number),
+      () => limit,
+    );
+  }
+
   /** A whole-track figure (wrms, msdv) against its limit. */
   whole(check: CheckName, subject: string, value: number, limit: number): void {
     const ratio = value / limit;
@@ -228,23 +239,11 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
   });
   input.legSpeed_mps.forEach((v, k) => {
     assertFinite(`leg${k + 1} speed`, v, time_s);
-    out.scan(
-      'legSpeed',
-      `leg${k + 1}`,
-      absRatio(v, lim.speedMax_mps, ratio),
-      (i) => Math.abs(v[i] as number),
-      () => lim.speedMax_mps,
-    );
+    out.scanAbs('legSpeed', `leg${k + 1}`, v, lim.speedMax_mps, ratio);
   });
   input.legAccel_mps2.forEach((a, k) => {
     assertFinite(`leg${k + 1} acceleration`, a, time_s);
-    out.scan(
-      'legAccel',
-      `leg${k + 1}`,
-      absRatio(a, lim.accelMax_mps2, ratio),
-      (i) => Math.abs(a[i] as number),
-      () => lim.accelMax_mps2,
-    );
+    out.scanAbs('legAccel', `leg${k + 1}`, a, lim.accelMax_mps2, ratio);
   });
 
   // Rider: low-passed specific force per seat, envelope per seat and axis.
@@ -307,14 +306,8 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
 
   const c = budget.comfort;
   for (const axis of ENVELOPE_AXES) {
-    const jw = jerkWorst[AXIS_INDEX[axis]];
-    out.scan(
-      'jerk',
-      axis,
-      absRatio(jw, c.jerkMax_mps3, ratio),
-      (i) => jw[i] as number,
-      () => c.jerkMax_mps3,
-    );
+    // jerkWorst holds magnitudes already (>= 0), so |jw| is jw itself.
+    out.scanAbs('jerk', axis, jerkWorst[AXIS_INDEX[axis]], c.jerkMax_mps3, ratio);
   }
 
   // Platform rotation (the same at every seat), low-passed like the rider's specific force.
@@ -323,21 +316,9 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
     const raw = input.omega_radps[AXIS_INDEX[axis]];
     assertFinite(`angular velocity ${axis}`, raw, time_s);
     const w = smooth(raw);
-    out.scan(
-      'angularSpeed',
-      axis,
-      absRatio(w, c.angularSpeedMax_radps, ratio),
-      (i) => Math.abs(w[i] as number),
-      () => c.angularSpeedMax_radps,
-    );
+    out.scanAbs('angularSpeed', axis, w, c.angularSpeedMax_radps, ratio);
     derivativeInto(time_s, w, alpha);
-    out.scan(
-      'angularAccel',
-      axis,
-      absRatio(alpha, c.angularAccelMax_radps2, ratio),
-      (i) => Math.abs(alpha[i] as number),
-      () => c.angularAccelMax_radps2,
-    );
+    out.scanAbs('angularAccel', axis, alpha, c.angularAccelMax_radps2, ratio);
   }
 
   if (input.conditioning && c.conditioningMax !== undefined) {

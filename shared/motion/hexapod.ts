@@ -3,7 +3,7 @@
 // Leg i: L_i = p + R P_i - B_i, length l_i = |L_i|. All loops run on flat Float64Arrays and allocate
 // nothing per sample.
 
-import { KinematicsError, conditionNumberSquare, solveInPlace } from './base-geometry';
+import { KinematicsError, conditionNumberSquare, flattenJoints, solveInPlace } from './base-geometry';
 import { eulerRateToBaseOmegaInto, rotationInto } from './rotation';
 import { derivative } from './track-derivative';
 
@@ -47,15 +47,11 @@ export function hexapodGeometry(base: {
   if (base.baseJoints_m.length !== 6 || base.platformJoints_m.length !== 6) {
     throw new RangeError('a hexapod needs six base joints and six platform joints');
   }
-  const b = new Float64Array(18);
-  const p = new Float64Array(18);
-  for (let i = 0; i < 6; i++) {
-    for (let k = 0; k < 3; k++) {
-      b[3 * i + k] = base.baseJoints_m[i]?.[k] ?? NaN;
-      p[3 * i + k] = base.platformJoints_m[i]?.[k] ?? NaN;
-    }
-  }
-  return { base: b, platform: p, neutralHeight_m: base.neutralHeight_m };
+  return {
+    base: flattenJoints(base.baseJoints_m, 3),
+    platform: flattenJoints(base.platformJoints_m, 3),
+    neutralHeight_m: base.neutralHeight_m,
+  };
 }
 
 /** Number of samples of a pose, checking all six columns agree. */

@@ -2,7 +2,7 @@
 // joins base joint B_i to platform joint P_i, L_i = p + R(yaw) P_i - B_i. The neutral pose is the
 // platform origin on the base origin with zero yaw, so pose offsets and poses coincide.
 
-import { KinematicsError, conditionNumberSquare, solveInPlace } from './base-geometry';
+import { KinematicsError, conditionNumberSquare, flattenJoints, solveInPlace } from './base-geometry';
 
 /** Joints flattened as [x0, y0, x1, y1, x2, y2] (m): base in the base frame, platform in its own. */
 export interface Planar3Geometry {
@@ -34,15 +34,7 @@ export function planar3Geometry(base: {
   if (base.baseJoints_m.length !== 3 || base.platformJoints_m.length !== 3) {
     throw new RangeError('a planar3 stage needs three base joints and three platform joints');
   }
-  const b = new Float64Array(6);
-  const p = new Float64Array(6);
-  for (let i = 0; i < 3; i++) {
-    for (let k = 0; k < 2; k++) {
-      b[2 * i + k] = base.baseJoints_m[i]?.[k] ?? NaN;
-      p[2 * i + k] = base.platformJoints_m[i]?.[k] ?? NaN;
-    }
-  }
-  return { base: b, platform: p };
+  return { base: flattenJoints(base.baseJoints_m, 2), platform: flattenJoints(base.platformJoints_m, 2) };
 }
 
 /** Leg lengths (m) of one pose (m, m, rad) into out[offset..offset+2]. */

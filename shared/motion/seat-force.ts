@@ -4,6 +4,7 @@
 // differences inside the track and second-order one-sided differences at its two ends, so the error
 // is O(dt^2) everywhere. w is the base-frame angular velocity from the Euler angle rates.
 
+import type { PoseColumns } from './hexapod';
 import { rotationInto } from './rotation';
 import { G0_MPS2 } from './units';
 
@@ -11,14 +12,8 @@ import { G0_MPS2 } from './units';
 const G0 = G0_MPS2;
 
 /** Pose offsets from neutral at a uniform rate (motion-spec section 1); h0 is constant, so it drops out of every derivative. */
-export interface PoseOffsetTrack {
+export interface PoseOffsetTrack extends PoseColumns {
   rate_hz: number;
-  x_m: Float64Array;
-  y_m: Float64Array;
-  z_m: Float64Array;
-  roll_rad: Float64Array;
-  pitch_rad: Float64Array;
-  yaw_rad: Float64Array;
 }
 
 /** Platform motion derived from a pose track; every array is sample-major (9 or 3 values per sample). */
