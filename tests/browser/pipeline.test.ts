@@ -158,6 +158,8 @@ describe('pipeline screens', () => {
       await canvases.nth(5).waitFor({ timeout: 15_000 });
       // Three force charts, two pose charts and the legs chart.
       expect(await page.getByTestId('run-charts').locator('.uplot').count()).toBe(6);
+      // The spectra file is drawn too, on a log axis.
+      await page.getByText('Power spectral density up to 5 Hz').waitFor({ timeout: 15_000 });
       // The 3-D preview draws with three.js once it has loaded; its slider moves the instant shown.
       const preview = page.getByTestId('base-preview');
       await preview.locator('canvas[data-engine^="three.js"]').waitFor({ timeout: 15_000 });

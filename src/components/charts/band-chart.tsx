@@ -14,10 +14,10 @@ export interface ChartBand {
   max: readonly number[];
 }
 
-/** A time span to shade, e.g. a finding from start_s to end_s. */
+/** A span of the x axis to shade, e.g. a finding from its start_s to its end_s. */
 export interface ChartSpan {
-  start_s: number;
-  end_s: number;
+  from: number;
+  to: number;
   color: string;
 }
 
@@ -32,7 +32,12 @@ export interface BandChartProps {
   title: string;
   /** The y axis label with its unit, e.g. "m/s²". */
   yLabel: string;
-  time_s: readonly number[];
+  /** The x values shared by every band: time (s) unless `xLabel` says otherwise. */
+  x: readonly number[];
+  /** The x axis label with its unit; "Time (s)" when not given. */
+  xLabel?: string;
+  /** A logarithmic y axis (every value must be above 0). */
+  yLog?: boolean;
   bands: readonly ChartBand[];
   spans?: readonly ChartSpan[];
   lines?: readonly ChartLine[];
@@ -41,20 +46,16 @@ export interface BandChartProps {
   height_px?: number;
   /** Charts with the same key share the cursor line as the pointer moves over any of them. */
   syncKey?: string;
-  /** Called with the index into `time_s` under the cursor. */
+  /** Called with the index into `x` under the cursor. */
   onCursorIndex?: (index: number) => void;
-  /** A time (s) to mark with a vertical line, e.g. the instant shown in the 3-D preview. */
-  marker_s?: number | null;
+  /** An x value to mark with a vertical line, e.g. the instant shown in the 3-D preview. */
+  marker?: number | null;
 }
 
-/** uPlot's aligned columns: time, then min and max of each band, scaled for display. */
-export function bandChartData(
-  time_s: readonly number[],
-  bands: readonly ChartBand[],
-  scale = 1,
-): AlignedData {
-  const n = time_s.length;
-  const columns: Float64Array[] = [Float64Array.from(time_s)];
+/** uPlot's aligned columns: x, then min and max of each band, scaled for display. */
+export function bandChartData(x: readonly number[], bands: readonly ChartBand[], scale = 1): AlignedData {
+  const n = x.length;
+  const columns: Float64Array[] = [Float64Array.from(x)];
   for (const band of bands) {
     const lo = new Float64Array(n);
     const hi = new Float64Array(n);
@@ -69,7 +70,9 @@ export function bandChartData(
 
 function chartOptions(
   props: Required<Pick<BandChartProps, 'bands' | 'spans' | 'lines'>> & {
+    xLabel: string;
     yLabel: string;
+    yLog: boolean;
     height_px: number;
     syncKey: string | undefined;
     onCursor: (index: number) => void;
@@ -77,15 +80,16 @@ function chartOptions(
   },
   width_px: number,
 ): Options {
-  const series: Options['series'] = [{ label: 'Time (s)' }];
+  const series: Options['series'] = [{ label: props.xLabel }];
   const bands: NonNullable<Options['bands']> = [];
   props.bands.forEach((band, k) => {
     series.push(
       { label: `${band.label} min`, stroke: band.color, width: 1, points: { show: false } },
       { label: `${band.label} max`, stroke: band.color, width: 1, points: { show: false } },
     );
-    // uPlot band series are [upper, lower], 1-based after the x column.
-    bands.push({ series: [2 + 2 * k, 1 + 2 * k], fill: withAlpha(band.color, 0.22) });
+    // uPlot band series are [upper, lower], 1-based after the x column; a plain line needs no fill.
+    if (band.min !== band.max)
+      bands.push({ series: [2 + 2 * k, 1 + 2 * k], fill: withAlpha(band.color, 0.22) });
   });
   const { spans, lines } = props;
   return {
@@ -96,8 +100,14 @@ function chartOptions(
     scales: {
       x: { time: false },
       y: {
+        distr: props.yLog ? 3 : 1,
         // Keep the limit lines on the chart even when the motion stays far from them.
         range: (_u, min, max) => {
+          if (props.yLog) {
+            const top = Number.isFinite(max) && max > 0 ? max : 1;
+            const bottom = Number.isFinite(min) && min > 0 ? min : top * 1e-6;
+            return [bottom / 2, top * 2];
+          }
           let lo = min;
           let hi = max;
           for (const line of lines) {
@@ -112,7 +122,7 @@ function chartOptions(
     },
     axes: [
       {
-        label: 'Time (s)',
+        label: props.xLabel,
         stroke: CHART_COLORS.axis,
         grid: { stroke: CHART_COLORS.grid, width: 1 },
         size: 36,
@@ -124,6 +134,20 @@ function chartOptions(
         size: 56,
         // Short charts still get three or more labelled ticks.
         space: 20,
+        // uPlot's default labels round 0.0001 to "0" on a log axis; decades read better as 1e-4.
+        ...(props.yLog
+          ? {
+              values: (_u: uPlot, splits: (number | null)[]) =>
+                // uPlot leaves null where it drops a tick (minor log ticks).
+                splits.map((v) =>
+                  v === null
+                    ? ''
+                    : v >= 0.01 && v < 1e4
+                      ? String(Number(v.toPrecision(2)))
+                      : v.toExponential(0),
+                ),
+            }
+          : {}),
       },
     ],
     series,
@@ -141,9 +165,9 @@ function chartOptions(
           const { top, height } = u.bbox;
           ctx.save();
           for (const span of spans) {
-            const x0 = u.valToPos(span.start_s, 'x', true);
+            const x0 = u.valToPos(span.from, 'x', true);
             // A finding at one instant still gets a visible sliver.
-            const x1 = Math.max(u.valToPos(span.end_s, 'x', true), x0 + 2);
+            const x1 = Math.max(u.valToPos(span.to, 'x', true), x0 + 2);
             ctx.fillStyle = withAlpha(span.color, 0.18);
             ctx.fillRect(x0, top, x1 - x0, height);
           }
@@ -165,9 +189,9 @@ function chartOptions(
             ctx.lineTo(left + width, y);
             ctx.stroke();
           }
-          const marker_s = props.marker();
-          if (marker_s !== null && marker_s !== undefined && Number.isFinite(marker_s)) {
-            const x = Math.round(u.valToPos(marker_s, 'x', true));
+          const marker = props.marker();
+          if (marker !== null && marker !== undefined && Number.isFinite(marker)) {
+            const x = Math.round(u.valToPos(marker, 'x', true));
             ctx.setLineDash([]);
             ctx.lineWidth = devicePixelRatio;
             ctx.strokeStyle = CHART_COLORS.axis;
@@ -191,7 +215,9 @@ const NO_LINES: readonly ChartLine[] = [];
 export const BandChart = memo(function BandChart({
   title,
   yLabel,
-  time_s,
+  x,
+  xLabel = 'Time (s)',
+  yLog = false,
   bands,
   spans = NO_SPANS,
   lines = NO_LINES,
@@ -199,26 +225,29 @@ export const BandChart = memo(function BandChart({
   height_px = 180,
   syncKey,
   onCursorIndex,
-  marker_s = null,
+  marker = null,
 }: BandChartProps) {
   const holder = useRef<HTMLDivElement>(null);
   const plotRef = useRef<uPlot | null>(null);
-  const markerRef = useRef(marker_s);
+  const markerRef = useRef(marker);
   // The latest callback, read by uPlot's hook, so a new callback never rebuilds the chart.
   const cursorHandler = useRef(onCursorIndex);
   useEffect(() => {
     cursorHandler.current = onCursorIndex;
   }, [onCursorIndex]);
-  const data = useMemo(() => bandChartData(time_s, bands, scale), [time_s, bands, scale]);
+  const data = useMemo(() => bandChartData(x, bands, scale), [x, bands, scale]);
 
   useEffect(() => {
     const el = holder.current;
     if (!el) return;
     const width_px = Math.max(el.clientWidth, 240);
     const onCursor = (index: number) => cursorHandler.current?.(index);
-    const marker = () => markerRef.current;
+    const markerAt = () => markerRef.current;
     const plot = new uPlot(
-      chartOptions({ bands, spans, lines, yLabel, height_px, syncKey, onCursor, marker }, width_px),
+      chartOptions(
+        { bands, spans, lines, xLabel, yLabel, yLog, height_px, syncKey, onCursor, marker: markerAt },
+        width_px,
+      ),
       data,
       el,
     );
@@ -236,13 +265,13 @@ export const BandChart = memo(function BandChart({
       plotRef.current = null;
       plot.destroy();
     };
-  }, [data, bands, spans, lines, yLabel, height_px, syncKey]);
+  }, [data, bands, spans, lines, xLabel, yLabel, yLog, height_px, syncKey]);
 
   // Moving the marker repaints the canvas without rebuilding the chart.
   useEffect(() => {
-    markerRef.current = marker_s;
+    markerRef.current = marker;
     plotRef.current?.redraw(false, false);
-  }, [marker_s]);
+  }, [marker]);
 
   return (
     <figure className="flex min-w-0 flex-col gap-1">

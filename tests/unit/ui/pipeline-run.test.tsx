@@ -10,6 +10,8 @@ import { CHECK_SEVERITY } from '../../../shared/schemas/findings';
 import type { RunDetail } from '../../../shared/schemas/pipeline';
 import type { RunSeries } from '../../../shared/schemas/run-series';
 import { bandChartData } from '../../../src/components/charts/band-chart';
+import type { RunSpectra } from '../../../src/features/runs/api/get-run-spectra';
+import { spectraLines } from '../../../src/features/runs/components/run-spectra';
 import { RunView } from '../../../src/features/runs/components/run-view';
 import { fakeApi, json, renderWithApp } from './harness';
 
@@ -25,6 +27,7 @@ vi.mock('uplot', () => ({
       plots.push({ title: el.dataset.chart, series: opts.series.length, data });
     }
     setSize() {}
+    redraw() {}
     destroy() {}
   },
 }));
@@ -239,6 +242,56 @@ describe('run page', () => {
       '42',
     );
     expect(calls.some((c) => c.path.endsWith('/series'))).toBe(false);
+  });
+});
+
+function makeSpectra(): RunSpectra {
+  const df_hz = 0.1;
+  const psd = (peak_hz: number) =>
+    Array.from({ length: 501 }, (_, k) => (Math.abs(k * df_hz - peak_hz) < 0.05 ? 2 : 0));
+  const axis = (peak_hz: number) => ({
+    seat: 'seat1',
+    totalPower_mps2sq: 0.2,
+    bandPower_mps2sq: 0.2,
+    bandShare: 1,
+    psd: psd(peak_hz),
+  });
+  return {
+    method: 'Welch',
+    unit: '(m/s^2)^2/Hz',
+    rate_hz: 100,
+    segment_n: 1000,
+    segments: 3,
+    df_hz,
+    band: { low_hz: 0.1, high_hz: 0.5, note: 'The band where motion sickness is most provoked.' },
+    axes: { x: axis(0.2), y: axis(0.3), z: axis(1) },
+  };
+}
+
+describe('spectra', () => {
+  it('draws the spectra file as a seventh chart when the run has one', async () => {
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/runs/${RUN}`]: () =>
+        json(makeRun({ files: [{ name: 'spectra.json', sha256: 'd'.repeat(64), size_bytes: 9000 }] })),
+      [`GET /api/studios/${STUDIO}/runs/${RUN}/series`]: () => json(SERIES),
+      [`GET /api/studios/${STUDIO}/runs/${RUN}/files/spectra.json`]: () => json(makeSpectra()),
+    });
+    renderWithApp(<RunView studioId={STUDIO} runId={RUN} />);
+    expect(await screen.findByText(/Share of power in that band: x 100 %/)).toBeInTheDocument();
+    await waitFor(() => expect(plots).toHaveLength(7));
+    const spectrum = plots.find((p) => p.title === 'Power spectral density up to 5 Hz')!;
+    expect(spectrum.series).toBe(1 + 2 * 3);
+  });
+
+  it('puts bin k at k times df_hz up to 5 Hz and keeps every value above 0 for the log axis', () => {
+    const { f_hz, bands } = spectraLines(makeSpectra());
+    // spectra.json's own note: bin k lies at k * df_hz; 0 to 5 Hz in 0.1 Hz steps is 51 bins.
+    expect(f_hz).toHaveLength(51);
+    expect(f_hz[50]).toBeCloseTo(5, 12);
+    for (const band of bands) {
+      expect(Math.min(...band.min)).toBeGreaterThan(0);
+      expect(Math.max(...band.min)).toBe(2);
+    }
   });
 });
 

@@ -25,8 +25,8 @@ const POSE_LABELS: Record<string, string> = {
 /** Finding spans coloured by severity: hard red, comfort amber. */
 export function findingSpans(findings: readonly Finding[]): ChartSpan[] {
   return findings.map((f) => ({
-    start_s: f.start_s,
-    end_s: f.end_s,
+    from: f.start_s,
+    to: f.end_s,
     color: f.severity === 'hard' ? CHART_COLORS.hard : CHART_COLORS.comfort,
   }));
 }
@@ -127,12 +127,12 @@ export function RunCharts({
             key={axis}
             title={`Specific force ${AXIS_NAMES[axis]}`}
             yLabel="m/s²"
-            time_s={series.time_s}
+            x={series.time_s}
             bands={bands}
             spans={spans}
             syncKey="run"
             onCursorIndex={setIndex}
-            marker_s={marker_s}
+            marker={marker_s}
             height_px={170}
           />
         ))}
@@ -142,12 +142,12 @@ export function RunCharts({
           <BandChart
             title="Pose offset, translation"
             yLabel="mm"
-            time_s={series.time_s}
+            x={series.time_s}
             bands={translation}
             spans={spans}
             syncKey="run"
             onCursorIndex={setIndex}
-            marker_s={marker_s}
+            marker={marker_s}
             scale={M_TO_MM}
           />
         ) : null}
@@ -155,12 +155,12 @@ export function RunCharts({
           <BandChart
             title="Pose offset, rotation"
             yLabel="deg"
-            time_s={series.time_s}
+            x={series.time_s}
             bands={rotation}
             spans={spans}
             syncKey="run"
             onCursorIndex={setIndex}
-            marker_s={marker_s}
+            marker={marker_s}
             scale={RAD_TO_DEG}
           />
         ) : null}
@@ -168,12 +168,12 @@ export function RunCharts({
       <BandChart
         title="Leg lengths inside the stroke band"
         yLabel="m"
-        time_s={series.time_s}
+        x={series.time_s}
         bands={legs}
         spans={spans}
         syncKey="run"
         onCursorIndex={setIndex}
-        marker_s={marker_s}
+        marker={marker_s}
         lines={strokeLines}
         height_px={220}
       />

@@ -14,6 +14,7 @@ import { FindingsTable } from './findings-table';
 import { RunCharts } from './run-charts';
 import { RunFiles } from './run-files';
 import { RunHeader } from './run-header';
+import { RunSpectra } from './run-spectra';
 
 function readBase(base: unknown): MotionBase | null {
   try {
@@ -73,6 +74,11 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
             venueId={detail.venueId}
             findings={result?.findings ?? []}
           />
+        </Section>
+      ) : null}
+      {finished && detail.files.some((file) => file.name === 'spectra.json') ? (
+        <Section title="Spectra">
+          <RunSpectra studioId={studioId} runId={runId} />
         </Section>
       ) : null}
       {result ? (
