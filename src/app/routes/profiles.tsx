@@ -20,6 +20,7 @@ function VenueLinks({ studioId }: { studioId: string }) {
   );
 }
 
+/** The profiles page: cueing and budget profiles with their versions, editable by the role that owns each kind. */
 export function ProfilesRoute() {
   const { membership } = useStudioContext();
   const studioId = membership.studioId;

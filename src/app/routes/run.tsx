@@ -4,6 +4,7 @@ import { PageHeading } from '../../components/ui/section';
 import { RunView } from '../../features/runs/components/run-view';
 import { useStudioContext } from './studio-layout';
 
+/** The run page for the run id in the address. */
 export function RunRoute() {
   const { membership } = useStudioContext();
   const { runId = '' } = useParams();

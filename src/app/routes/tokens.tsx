@@ -4,6 +4,7 @@ import { ErrorNotice } from '../../components/ui/status';
 import { TokensPanel } from '../../features/tokens/components/tokens-panel';
 import { useStudioContext } from './studio-layout';
 
+/** The API tokens page; anyone but a studio admin is told who may use it. */
 export function TokensRoute() {
   const { membership } = useStudioContext();
   if (!membership.roles.includes('studio_admin')) {

@@ -9,6 +9,7 @@ import { UploadTakeForm } from '../../features/tracks/components/upload-take-for
 import { formatDateTime } from '../../lib/format';
 import { useStudioContext } from './studio-layout';
 
+/** The track page: uploads for producers, cue requests for producers and motion engineers. */
 export function TrackRoute() {
   const { membership } = useStudioContext();
   const { trackId = '' } = useParams();

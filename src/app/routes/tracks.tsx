@@ -37,6 +37,7 @@ function toSearch(params: TracksParams): URLSearchParams {
   return search;
 }
 
+/** The tracks page: the "New track" form for producers above the table. */
 export function TracksRoute() {
   const { membership } = useStudioContext();
   const [search, setSearch] = useSearchParams();

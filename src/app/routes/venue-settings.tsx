@@ -7,6 +7,7 @@ import { BaseSummary } from '../../features/venue-settings/components/base-summa
 import { ProfileVersionSelect } from '../../features/venue-settings/components/profile-version-select';
 import { useStudioContext } from './studio-layout';
 
+/** The venue settings page: motion base summary and the profile versions new runs use. */
 export function VenueSettingsRoute() {
   const { membership } = useStudioContext();
   const { venueId = '' } = useParams();
