@@ -28,8 +28,31 @@ export default tseslint.config(
         'error',
         {
           patterns: [
-            { group: ['node:*', 'fs', 'path', 'pg', 'express', 'drizzle-orm', 'drizzle-orm/*', 'react', 'react-dom'], message: 'shared/ is pure: no I/O or framework imports.' },
-            { group: ['../../server/*', '../../worker/*', '../../src/*', '../server/*', '../worker/*', '../src/*'], message: 'shared/ must not import from server, worker or src.' },
+            {
+              group: [
+                'node:*',
+                'fs',
+                'path',
+                'pg',
+                'express',
+                'drizzle-orm',
+                'drizzle-orm/*',
+                'react',
+                'react-dom',
+              ],
+              message: 'shared/ is pure: no I/O or framework imports.',
+            },
+            {
+              group: [
+                '../../server/*',
+                '../../worker/*',
+                '../../src/*',
+                '../server/*',
+                '../worker/*',
+                '../src/*',
+              ],
+              message: 'shared/ must not import from server, worker or src.',
+            },
           ],
         },
       ],

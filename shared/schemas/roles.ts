@@ -1,7 +1,13 @@
 import { z } from 'zod';
 
 /** The roles a member can hold in a studio. One member may hold several. */
-export const ROLES = ['producer', 'motion_engineer', 'safety_reviewer', 'venue_operator', 'studio_admin'] as const;
+export const ROLES = [
+  'producer',
+  'motion_engineer',
+  'safety_reviewer',
+  'venue_operator',
+  'studio_admin',
+] as const;
 export const roleSchema = z.enum(ROLES);
 export type Role = z.infer<typeof roleSchema>;
 

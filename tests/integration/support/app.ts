@@ -35,7 +35,7 @@ export async function startTestApp(
     storage,
     mailer,
     boss,
-    log: () => undefined,
+    log: opts.log ?? (() => undefined),
   });
   return {
     app,
