@@ -20,7 +20,7 @@ export interface TestApp {
 
 /** createApp over a fresh seeded database and the real local storage and mail. */
 export async function startTestApp(
-  opts: { env?: Record<string, string>; queue?: boolean } = {},
+  opts: { env?: Record<string, string>; queue?: boolean; log?: (m: string) => void } = {},
 ): Promise<TestApp> {
   const tdb = await createTestDb();
   const env = testEnv(tdb.url, opts.env);
