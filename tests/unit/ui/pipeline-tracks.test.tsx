@@ -8,6 +8,7 @@ import { useState } from 'react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { Venue } from '../../../shared/schemas/api';
 import type { TrackPage, TrackSummary } from '../../../shared/schemas/pipeline';
+import { TRACKS_PAGE_SIZE, tracksParamsFrom } from '../../../src/app/routes/tracks';
 import type { TracksParams } from '../../../src/features/tracks/api/get-tracks';
 import { TracksTable, pageRange } from '../../../src/features/tracks/components/tracks-table';
 import { fakeApi, json, renderWithApp } from './harness';
@@ -168,5 +169,31 @@ describe('page range text', () => {
     expect(pageRange(3, 20, 73)).toBe('41–60 of 73');
     expect(pageRange(4, 20, 73)).toBe('61–73 of 73');
     expect(pageRange(1, 20, 0)).toBe('0 of 0');
+  });
+});
+
+describe('tracks address', () => {
+  it('reads sort, filters and page from the address and falls back to the defaults for anything unreadable', () => {
+    expect(
+      tracksParamsFrom(new URLSearchParams(`page=3&sort=title&dir=asc&state=held&venue=${DOME}&q=reef`)),
+    ).toEqual({
+      page: 3,
+      pageSize: TRACKS_PAGE_SIZE,
+      sort: 'title',
+      dir: 'asc',
+      state: 'held',
+      venueId: DOME,
+      q: 'reef',
+    });
+    // The API contract's defaults: page 1, newest update first, no filters.
+    expect(tracksParamsFrom(new URLSearchParams('page=-2&sort=size&dir=up&state=lost'))).toEqual({
+      page: 1,
+      pageSize: TRACKS_PAGE_SIZE,
+      sort: 'updatedAt',
+      dir: 'desc',
+      state: undefined,
+      venueId: undefined,
+      q: undefined,
+    });
   });
 });
