@@ -23,20 +23,10 @@ export function VenueSettingsRoute() {
         <BaseSummary base={detail.base} />
       </Section>
       <Section title="Cueing profile">
-        <ProfileVersionSelect
-          key={`c-${detail.cueingVersion?.id ?? ''}`}
-          studioId={studioId}
-          venue={detail}
-          kind="cueing"
-        />
+        <ProfileVersionSelect studioId={studioId} venue={detail} kind="cueing" />
       </Section>
       <Section title="Budget profile">
-        <ProfileVersionSelect
-          key={`b-${detail.budgetVersion?.id ?? ''}`}
-          studioId={studioId}
-          venue={detail}
-          kind="budget"
-        />
+        <ProfileVersionSelect studioId={studioId} venue={detail} kind="budget" />
       </Section>
     </>
   );

@@ -5,12 +5,16 @@
 // and the navigation follows the product's roles table.
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
+import { Outlet } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { Me } from '../../../shared/schemas/api';
 import { DEFAULT_CUEING_PROFILE } from '../../../shared/schemas/cueing-profile';
+import { demoHexapodInput } from '../../../shared/schemas/motion-base';
 import type { ApiToken, Profile, VenueDetail } from '../../../shared/schemas/pipeline';
 import type { Role } from '../../../shared/schemas/roles';
 import { StudioLayout } from '../../../src/app/routes/studio-layout';
+import type { StudioContext } from '../../../src/app/routes/studio-layout';
+import { VenueSettingsRoute } from '../../../src/app/routes/venue-settings';
 import { UseRatioBar } from '../../../src/components/charts/run-badges';
 import { ProfileEditor } from '../../../src/features/profiles/components/profile-editor';
 import { BudgetTable } from '../../../src/features/runs/components/budget-table';
@@ -157,6 +161,68 @@ describe('venue profile versions', () => {
     expect(new URLSearchParams(calls.find((c) => c.path.endsWith('/profiles'))!.search).get('kind')).toBe(
       'cueing',
     );
+  });
+});
+
+describe('venue settings page', () => {
+  it('confirms a saved version and shows it as current, with the base summary from the venue', async () => {
+    let venue: VenueDetail = {
+      id: VENUE,
+      name: 'Harbour Lights Dome',
+      site: 'Port Meridian pier',
+      timeZone: 'Europe/Lisbon',
+      base: demoHexapodInput,
+      cueingVersion: { id: PROFILE.versions[0]!.id, name: PROFILE.name, version: 1 },
+      budgetVersion: null,
+    };
+    const { calls } = fakeApi({
+      [`GET /api/studios/${STUDIO}/venues/${VENUE}`]: () => json(venue),
+      [`GET /api/studios/${STUDIO}/profiles`]: (call) =>
+        json(new URLSearchParams(call.search).get('kind') === 'cueing' ? [PROFILE] : []),
+      [`PUT /api/studios/${STUDIO}/venues/${VENUE}/settings`]: () => {
+        venue = { ...venue, cueingVersion: { id: PROFILE.versions[1]!.id, name: PROFILE.name, version: 2 } };
+        return json(venue);
+      },
+    });
+    const context: StudioContext = {
+      me: {
+        user: {
+          id: 'c5e3a9d4-7f6b-4a0c-9d8e-3f4a5b6c7d8e',
+          email: 'eli.engineer@lanternfish.example',
+          name: 'Eli Varga',
+        },
+        memberships: [],
+      },
+      membership: {
+        studioId: STUDIO,
+        studioName: 'Lanternfish Studios',
+        studioSlug: 'lanternfish',
+        roles: ['motion_engineer'],
+        venueIds: [],
+      },
+    };
+    renderRoutes(
+      [
+        {
+          path: '/s/:studioId',
+          element: <Outlet context={context} />,
+          children: [{ path: 'venues/:venueId', element: <VenueSettingsRoute /> }],
+        },
+      ],
+      `/s/${STUDIO}/venues/${VENUE}`,
+    );
+    // The demo base's own numbers (shared/schemas/motion-base.ts): 100 Hz, stroke 1.5 to 2.3 m, four seats.
+    expect(await screen.findByText('1.500–2.300 m')).toBeInTheDocument();
+    expect(screen.getByRole('table', { name: /^Joints/ }).querySelectorAll('tbody tr')).toHaveLength(6);
+    expect(screen.getByRole('table', { name: /^Seats/ }).querySelectorAll('tbody tr')).toHaveLength(4);
+
+    const form = screen.getByRole('form', { name: 'Cueing profile of Harbour Lights Dome' });
+    const select = await within(form).findByRole('combobox');
+    fireEvent.change(select, { target: { value: PROFILE.versions[1]!.id } });
+    fireEvent.click(within(form).getByRole('button', { name: 'Save' }));
+    expect(await within(form).findByText(/^Saved\./)).toBeInTheDocument();
+    expect(within(form).getByText('Dome washout v2')).toBeInTheDocument();
+    expect(calls.filter((c) => c.method === 'PUT')).toHaveLength(1);
   });
 });
 
