@@ -74,12 +74,13 @@ describe('studio shell', () => {
     fakeApi({ 'GET /api/auth/me': () => json(ME) });
     renderRoutes(routes, `/s/${QUARRY}`);
     const nav = await screen.findByRole('navigation', { name: 'Studio pages' });
-    // Members and the audit log are a studio admin's (product roles table); a producer does not see them.
+    // Members and the audit log are a studio admin's (product roles table); a producer does not see
+    // them, but works on tracks.
     expect(
       within(nav)
         .getAllByRole('link')
         .map((link) => link.textContent),
-    ).toEqual(['Home', 'Venues']);
+    ).toEqual(['Home', 'Venues', 'Tracks']);
   });
 
   it('sends a signed-out visitor to sign-in and remembers where they were going', async () => {
