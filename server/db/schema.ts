@@ -46,12 +46,16 @@ export const studios = pgTable(
 );
 export type Studio = typeof studios.$inferSelect;
 
+/** The tenant column of every studio-owned table. */
+const studioRef = () =>
+  uuid('studio_id')
+    .notNull()
+    .references(() => studios.id, { onDelete: 'cascade' });
+
 export const memberships = pgTable(
   'memberships',
   {
-    studioId: uuid('studio_id')
-      .notNull()
-      .references(() => studios.id, { onDelete: 'cascade' }),
+    studioId: studioRef(),
     userId: uuid('user_id')
       .notNull()
       .references(() => users.id, { onDelete: 'cascade' }),
@@ -70,9 +74,7 @@ export const invitations = pgTable(
   'invitations',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    studioId: uuid('studio_id')
-      .notNull()
-      .references(() => studios.id, { onDelete: 'cascade' }),
+    studioId: studioRef(),
     email: text('email').notNull(),
     roles: text('roles').array().notNull(),
     venueIds: uuid('venue_ids')
@@ -112,9 +114,7 @@ export const venues = pgTable(
   'venues',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    studioId: uuid('studio_id')
-      .notNull()
-      .references(() => studios.id, { onDelete: 'cascade' }),
+    studioId: studioRef(),
     name: text('name').notNull(),
     site: text('site').notNull(),
     timeZone: text('time_zone').notNull(),
@@ -163,9 +163,7 @@ export const profiles = pgTable(
   'profiles',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    studioId: uuid('studio_id')
-      .notNull()
-      .references(() => studios.id, { onDelete: 'cascade' }),
+    studioId: studioRef(),
     kind: text('kind').$type<'cueing' | 'budget'>().notNull(),
     name: text('name').notNull(),
     createdAt: createdAt(),
@@ -178,9 +176,7 @@ export const profileVersions = pgTable(
   'profile_versions',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    studioId: uuid('studio_id')
-      .notNull()
-      .references(() => studios.id, { onDelete: 'cascade' }),
+    studioId: studioRef(),
     profileId: uuid('profile_id')
       .notNull()
       .references(() => profiles.id, { onDelete: 'cascade' }),
@@ -200,9 +196,7 @@ export const venueSettings = pgTable('venue_settings', {
   venueId: uuid('venue_id')
     .primaryKey()
     .references(() => venues.id, { onDelete: 'cascade' }),
-  studioId: uuid('studio_id')
-    .notNull()
-    .references(() => studios.id, { onDelete: 'cascade' }),
+  studioId: studioRef(),
   cueingVersionId: uuid('cueing_version_id').references(() => profileVersions.id),
   budgetVersionId: uuid('budget_version_id').references(() => profileVersions.id),
 });
@@ -211,9 +205,7 @@ export const tracks = pgTable(
   'tracks',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    studioId: uuid('studio_id')
-      .notNull()
-      .references(() => studios.id, { onDelete: 'cascade' }),
+    studioId: studioRef(),
     title: text('title').notNull(),
     film: text('film').notNull().default(''),
     createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
@@ -228,9 +220,7 @@ export const takes = pgTable(
   'takes',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    studioId: uuid('studio_id')
-      .notNull()
-      .references(() => studios.id, { onDelete: 'cascade' }),
+    studioId: studioRef(),
     trackId: uuid('track_id')
       .notNull()
       .references(() => tracks.id, { onDelete: 'cascade' }),
@@ -270,9 +260,7 @@ export const cueRuns = pgTable(
   'cue_runs',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    studioId: uuid('studio_id')
-      .notNull()
-      .references(() => studios.id, { onDelete: 'cascade' }),
+    studioId: studioRef(),
     trackId: uuid('track_id')
       .notNull()
       .references(() => tracks.id, { onDelete: 'cascade' }),
@@ -315,9 +303,7 @@ export const apiTokens = pgTable(
   'api_tokens',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    studioId: uuid('studio_id')
-      .notNull()
-      .references(() => studios.id, { onDelete: 'cascade' }),
+    studioId: studioRef(),
     name: text('name').notNull(),
     tokenHash: text('token_hash').notNull(),
     prefix: text('prefix').notNull(),
