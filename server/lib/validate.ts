@@ -13,3 +13,7 @@ export function parseBody<S extends z.ZodType>(schema: S, data: unknown, what = 
   }
   return r.data;
 }
+
+/** True for a UUID in its text form; route ids that are not one are simply not found. */
+export const isUuid = (s: string): boolean =>
+  /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);

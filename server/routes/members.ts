@@ -6,7 +6,7 @@ import type { Db, Tx } from '../db/client';
 import { invitations, memberships, users, venues } from '../db/schema';
 import { inStudio } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
-import { parseBody } from '../lib/validate';
+import { isUuid, parseBody } from '../lib/validate';
 import { badRequest, notFound } from '../lib/http-error';
 import { inviteBody, memberUpdateBody } from '../../shared/schemas/api';
 import type { Invitation, Member } from '../../shared/schemas/api';
@@ -85,7 +85,7 @@ export function membersRouter(deps: AppDeps): Router {
     const userId = String(req.params.userId);
     const [before] = await listMembers(
       m.studioId,
-      /^[0-9a-f-]{36}$/i.test(userId) ? userId : '00000000-0000-0000-0000-000000000000',
+      isUuid(userId) ? userId : '00000000-0000-0000-0000-000000000000',
     );
     if (!before) throw notFound('No such member in this studio.');
     await deps.db.transaction(async (tx) => {
@@ -114,7 +114,7 @@ export function membersRouter(deps: AppDeps): Router {
     const userId = String(req.params.userId);
     const [before] = await listMembers(
       m.studioId,
-      /^[0-9a-f-]{36}$/i.test(userId) ? userId : '00000000-0000-0000-0000-000000000000',
+      isUuid(userId) ? userId : '00000000-0000-0000-0000-000000000000',
     );
     if (!before) throw notFound('No such member in this studio.');
     await deps.db.transaction(async (tx) => {
@@ -199,7 +199,7 @@ export function membersRouter(deps: AppDeps): Router {
   r.delete('/invitations/:id', admin, async (req, res) => {
     const m = req.member!;
     const id = String(req.params.id);
-    if (!/^[0-9a-f-]{36}$/i.test(id)) throw notFound('No such invitation.');
+    if (!isUuid(id)) throw notFound('No such invitation.');
     const [row] = await deps.db
       .update(invitations)
       .set({ revokedAt: now() })

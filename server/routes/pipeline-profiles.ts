@@ -7,7 +7,7 @@ import { apiTokens, profileVersions, profiles, venueSettings, venues } from '../
 import { inStudio } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
 import { allows } from '../auth/permissions';
-import { parseBody } from '../lib/validate';
+import { isUuid, parseBody } from '../lib/validate';
 import { badRequest, forbidden, notFound } from '../lib/http-error';
 import { actorOf } from '../lib/actor';
 import { hashToken, newToken } from '../lib/tokens';
@@ -25,8 +25,6 @@ import { budgetSchema } from '../../shared/schemas/budget';
 import { formatJsonPath } from '../../shared/schemas/budget';
 import { versionRef } from '../pipeline/views';
 import { z } from 'zod';
-
-const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
 
 /** Validates a profile's parameters with the same schema the CLI and the worker use. */
 export function validateParams(kind: 'cueing' | 'budget', params: unknown): unknown {

@@ -8,7 +8,7 @@ import type { AppDeps } from '../deps';
 import { cueRuns, takes, tracks, venues } from '../db/schema';
 import { inStudio } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
-import { parseBody } from '../lib/validate';
+import { isUuid, parseBody } from '../lib/validate';
 import { HttpError, notFound } from '../lib/http-error';
 import { actorOf } from '../lib/actor';
 import { requestRunsBody } from '../../shared/schemas/pipeline';
@@ -16,7 +16,6 @@ import type { RunDetail } from '../../shared/schemas/pipeline';
 import { queueRuns } from '../pipeline/queue-runs';
 import { toRunSummary, toTake, versionRef } from '../pipeline/views';
 
-const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
 const ARTIFACTS = new Set([
   'legs.csv',
   'pose.csv',

@@ -6,7 +6,7 @@ import type { AppDeps } from '../deps';
 import { cueRuns, takes, tracks } from '../db/schema';
 import { inStudio } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
-import { parseBody } from '../lib/validate';
+import { isUuid, parseBody } from '../lib/validate';
 import { notFound } from '../lib/http-error';
 import { actorOf } from '../lib/actor';
 import { recordAudit } from '../audit';
@@ -14,8 +14,6 @@ import { createTrackBody, tracksQuery, uploadQuery } from '../../shared/schemas/
 import type { TrackDetail, TrackPage, TrackSummary } from '../../shared/schemas/pipeline';
 import { receiveTake } from '../pipeline/upload';
 import { listRuns, toTake } from '../pipeline/views';
-
-const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
 
 export function tracksRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
