@@ -26,7 +26,7 @@ import { buildRunSeries } from '../../shared/motion/run-series';
 import { parseMotionBase } from '../../shared/schemas/motion-base';
 import { budgetSchema } from '../../shared/schemas/budget';
 import { cueingProfileSchema } from '../../shared/schemas/cueing-profile';
-import { softwareVersion } from '../../server/cli/commands/process';
+import { softwareVersion } from '../../server/lib/version';
 
 export const cueRunJobSchema = z.object({ runId: z.string().uuid(), studioId: z.string().uuid() });
 

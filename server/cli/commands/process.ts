@@ -1,7 +1,7 @@
 // `legwork process`: the whole offline pipeline (read, resample, cue, kinematics, checks, spectra) into a
 // package folder with a manifest of SHA-256 sums and every parameter of the run.
 
-import { createReadStream, readFileSync } from 'node:fs';
+import { createReadStream } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { basename } from 'node:path';
 import { packageContents, processTrack } from '../../../shared/motion/process';
@@ -12,6 +12,7 @@ import type { CliIo } from '../io';
 import { parseCommandOptions } from '../args';
 import { CAUTION, CliInputError, readBaseFile, readBudgetFile, readProfileFile, readTrackFile } from '../io';
 import { sha256Hex, writePackage } from '../package-writer';
+import { softwareVersion } from '../../lib/version';
 import { describePipelineError } from './check';
 
 export const summary =
@@ -44,14 +45,6 @@ Exit codes: 0 within budget, 2 bad input or usage, 3 over a comfort limit only, 
 The budget numbers are whatever the venue entered; Legwork does not check them against any code.
 ${CAUTION}
 `;
-
-/** The version field of the project's package.json. */
-export function softwareVersion(): string {
-  const pkg = JSON.parse(readFileSync(new URL('../../../package.json', import.meta.url), 'utf8')) as {
-    version?: string;
-  };
-  return pkg.version ?? 'unknown';
-}
 
 async function fileSha256(path: string): Promise<{ sha256: string; size_bytes: number }> {
   const hash = createHash('sha256');
