@@ -11,7 +11,7 @@ import { useStudioContext } from './studio-layout';
 
 type Counts = StudioOverview['counts'];
 
-function ProducerDesk({ counts }: { counts: Counts }) {
+function ProducerDesk({ studioId, counts }: { studioId: string; counts: Counts }) {
   return (
     <Section title="Producer desk" testId="home-producer">
       <h3 className="text-sm font-medium text-ink-800">Tracks in production</h3>
@@ -21,7 +21,12 @@ function ProducerDesk({ counts }: { counts: Counts }) {
         <Stat label="Runs held" value={counts.held} tone="hold" />
         <Stat label="Released to venues" value={counts.released} />
       </div>
-      <p className="text-xs text-ink-600">Track and take upload arrives with the motion pipeline.</p>
+      <p className="text-xs text-ink-600">
+        <Link className="text-tealdeep-600 underline" to={`/s/${studioId}/tracks`}>
+          Open the tracks table
+        </Link>{' '}
+        to upload takes and cue them for venues.
+      </p>
     </Section>
   );
 }
@@ -32,7 +37,10 @@ function MotionEngineering({ studioId }: { studioId: string }) {
       <h3 className="text-sm font-medium text-ink-800">Venues and their motion bases</h3>
       <StudioVenues studioId={studioId} caption="Venues and their motion bases" />
       <p className="text-xs text-ink-600">
-        Cueing profiles and base geometry editing arrive with the motion pipeline.
+        <Link className="text-tealdeep-600 underline" to={`/s/${studioId}/profiles`}>
+          Cueing profiles
+        </Link>{' '}
+        are versioned; open a venue to choose the version it runs with.
       </p>
     </Section>
   );
@@ -113,7 +121,7 @@ export function StudioHomeRoute() {
       {roles.map((role) => {
         switch (role) {
           case 'producer':
-            return <ProducerDesk key={role} counts={counts} />;
+            return <ProducerDesk key={role} studioId={studioId} counts={counts} />;
           case 'motion_engineer':
             return <MotionEngineering key={role} studioId={studioId} />;
           case 'safety_reviewer':

@@ -1,3 +1,4 @@
+import { Link, useParams } from 'react-router-dom';
 import type { Venue } from '../../../../shared/schemas/api';
 import { Table, Td, Th } from '../../../components/ui/table';
 import { formatRate_hz } from '../../../lib/format';
@@ -9,6 +10,7 @@ const BASE_KIND_LABELS: Record<Venue['baseKind'], string> = {
 
 /** Venues with their motion base: kind, controller rate and seat count. */
 export function VenuesTable({ venues, caption = 'Venues' }: { venues: readonly Venue[]; caption?: string }) {
+  const { studioId } = useParams();
   return (
     <Table caption={caption}>
       <thead>
@@ -24,7 +26,15 @@ export function VenuesTable({ venues, caption = 'Venues' }: { venues: readonly V
       <tbody>
         {venues.map((venue) => (
           <tr key={venue.id}>
-            <Td className="font-medium">{venue.name}</Td>
+            <Td className="font-medium">
+              {studioId ? (
+                <Link className="text-tealdeep-600 underline" to={`/s/${studioId}/venues/${venue.id}`}>
+                  {venue.name}
+                </Link>
+              ) : (
+                venue.name
+              )}
+            </Td>
             <Td>{venue.site}</Td>
             <Td className="font-mono text-xs">{venue.timeZone}</Td>
             <Td>{BASE_KIND_LABELS[venue.baseKind]}</Td>
