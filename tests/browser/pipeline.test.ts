@@ -1,14 +1,12 @@
 // A producer takes a track from nothing to a finished cue run through the real built client in
 // Chromium: create the track, upload a refused take and a good one, queue runs for both venues, wait
 // for the worker, and read the run page's charts and budget, with no error in the browser console.
-import { mkdirSync } from 'node:fs';
-import { chromium } from 'playwright-core';
 import type { Browser, ConsoleMessage, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
-const screenshotDir = 'test-output/screenshots';
 // Standard gravity, 3rd CGPM (1901): a level vehicle at rest feels +g0 on z (motion-spec section 3).
 const G0_MPS2 = 9.80665;
 const BAD_FILE = 'reef-dive-bad.csv';
@@ -43,24 +41,8 @@ const producer = DEMO_USERS.find((u) => u.roles.includes('producer'));
 let browser: Browser | undefined;
 
 beforeAll(async () => {
-  if (!baseUrl) {
-    throw new Error(
-      'LEGWORK_BASE_URL is not set: run the browser tests through `npm test`, or start `npm start` and set LEGWORK_BASE_URL=http://127.0.0.1:5480.',
-    );
-  }
-  mkdirSync(screenshotDir, { recursive: true });
-  browser = await chromium.launch({
-    executablePath: process.env.CHROMIUM_PATH ?? '/usr/lib/chromium/chromium',
-    args: [
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-quic',
-      '--no-first-run',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-    ],
-  });
+  requireBaseUrl();
+  browser = await launchChromium();
 });
 
 afterAll(async () => {

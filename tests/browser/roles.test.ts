@@ -1,35 +1,17 @@
 // Every demo member signs in through the real built client in Chromium, lands on the home section of
 // their role, and signs out again, with no error in the browser console on the way.
-import { mkdirSync } from 'node:fs';
-import { chromium } from 'playwright-core';
 import type { Browser, ConsoleMessage } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
-const screenshotDir = 'test-output/screenshots';
 
 let browser: Browser | undefined;
 
 beforeAll(async () => {
-  if (!baseUrl) {
-    throw new Error(
-      'LEGWORK_BASE_URL is not set: run the browser tests through `npm test`, or start `npm start` and set LEGWORK_BASE_URL=http://127.0.0.1:5480.',
-    );
-  }
-  mkdirSync(screenshotDir, { recursive: true });
-  browser = await chromium.launch({
-    executablePath: process.env.CHROMIUM_PATH ?? '/usr/lib/chromium/chromium',
-    args: [
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-quic',
-      '--no-first-run',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-    ],
-  });
+  requireBaseUrl();
+  browser = await launchChromium();
 });
 
 afterAll(async () => {
