@@ -27,6 +27,7 @@ import { startQueue } from '../queue';
 import { parseEnv } from '../env';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
 import { ROLE_LABELS } from '../../shared/schemas/roles';
+import { z } from 'zod';
 
 type Mode = 'start' | 'dev' | 'test' | 'services';
 const mode = (process.argv[2] ?? 'start') as Mode;
@@ -39,20 +40,37 @@ const root = resolve(import.meta.dirname, '..', '..');
 const log = (s: string) => console.log(`legwork: ${s}`);
 const bin = (name: string) => join(root, 'node_modules', '.bin', name);
 
-const basePort = Number(
-  process.env.LEGWORK_PORT_BASE ?? (mode === 'test' || mode === 'services' ? 5580 : 5480),
-);
+// The local stand-ins' own settings, parsed like the server's: a bad value stops with its name.
+const port = z.coerce.number().int().min(1024).max(65_000).optional();
+const localEnvSchema = z.object({
+  LEGWORK_PORT_BASE: port,
+  LEGWORK_APP_PORT: port,
+  LEGWORK_PG_PORT: port,
+  LEGWORK_S3_PORT: port,
+  LEGWORK_SMTP_PORT: port,
+  LEGWORK_VITE_PORT: port,
+  LEGWORK_HOME: z.string().min(1).optional(),
+  LEGWORK_TEST_TMP: z.string().min(1).optional(),
+});
+const parsedLocal = localEnvSchema.safeParse(process.env);
+if (!parsedLocal.success) {
+  const lines = parsedLocal.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+  console.error(`legwork: bad settings in the environment:\n${lines.join('\n')}`);
+  process.exit(2);
+}
+const localEnv = parsedLocal.data;
+const basePort = localEnv.LEGWORK_PORT_BASE ?? (mode === 'test' || mode === 'services' ? 5580 : 5480);
 const ports = {
-  app: Number(process.env.LEGWORK_APP_PORT ?? basePort),
-  pg: Number(process.env.LEGWORK_PG_PORT ?? basePort + 1),
-  s3: Number(process.env.LEGWORK_S3_PORT ?? basePort + 2),
-  smtp: Number(process.env.LEGWORK_SMTP_PORT ?? basePort + 3),
-  vite: Number(process.env.LEGWORK_VITE_PORT ?? basePort - 1),
+  app: localEnv.LEGWORK_APP_PORT ?? basePort,
+  pg: localEnv.LEGWORK_PG_PORT ?? basePort + 1,
+  s3: localEnv.LEGWORK_S3_PORT ?? basePort + 2,
+  smtp: localEnv.LEGWORK_SMTP_PORT ?? basePort + 3,
+  vite: localEnv.LEGWORK_VITE_PORT ?? basePort - 1,
 };
 const throwaway = mode === 'test' || mode === 'services';
 const home = throwaway
-  ? mkdtempSync(join(process.env.LEGWORK_TEST_TMP ?? tmpdir(), 'legwork-test-'))
-  : resolve(process.env.LEGWORK_HOME ?? join(root, '.legwork'));
+  ? mkdtempSync(join(localEnv.LEGWORK_TEST_TMP ?? tmpdir(), 'legwork-test-'))
+  : resolve(localEnv.LEGWORK_HOME ?? join(root, '.legwork'));
 mkdirSync(home, { recursive: true });
 
 const children: ChildProcess[] = [];
