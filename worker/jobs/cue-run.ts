@@ -22,7 +22,7 @@ import { TrackFileError, TrackReader } from '../../shared/motion/track-reader';
 import type { Track } from '../../shared/motion/track-reader';
 import { ProcessInputError, packageContents, processTrack } from '../../shared/motion/process';
 import { KinematicsError } from '../../shared/motion/base-geometry';
-import { buildRunSeries } from '../../shared/motion/run-series';
+import { RUN_SERIES_BUCKETS, buildRunSeries } from '../../shared/motion/run-series';
 import { parseMotionBase } from '../../shared/schemas/motion-base';
 import { budgetSchema } from '../../shared/schemas/budget';
 import { cueingProfileSchema } from '../../shared/schemas/cueing-profile';
@@ -148,7 +148,13 @@ export function createHandler(deps: CueRunDeps) {
 
       const track = await readTake(storage, take.storageKey, take.fileName);
       await setProgress(running, 30);
-      const result = processTrack({ track, base, budget, ...(profile ? { profile } : {}) });
+      const result = processTrack({
+        track,
+        base,
+        budget,
+        chartBuckets: RUN_SERIES_BUCKETS,
+        ...(profile ? { profile } : {}),
+      });
       await setProgress(running, 65);
 
       const json = (v: unknown) => JSON.stringify(v);

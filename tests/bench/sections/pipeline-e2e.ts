@@ -3,7 +3,7 @@
 // the run is finished. Starts its own throwaway services (as `npm run services` does) and stops them.
 import { spawn } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import { createServer } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { join, resolve } from 'node:path';
@@ -111,6 +111,39 @@ const section: BenchSection = {
       );
       log(`queue -> worker process -> finished run (${state}): ${((t2 - t1) / 1000).toFixed(2)} s`);
       log(`upload to finished run: ${((t2 - t0) / 1000).toFixed(2)} s`);
+
+      // The run page of this 10-minute run in Chromium: from navigation to every chart drawn. Needs
+      // the built client (npm run build) and Debian's Chromium; skipped with a line when either lacks.
+      if (
+        !existsSync(join(root, 'dist', 'index.html')) ||
+        !existsSync(process.env.CHROMIUM_PATH ?? '/usr/lib/chromium/chromium')
+      ) {
+        log('run page: not timed (no dist/ build or no Chromium)');
+      } else {
+        const { launchChromium } = await import('../../browser/support/chromium');
+        const browser = await launchChromium();
+        try {
+          const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+          await page.goto(`${url}/sign-in`);
+          await page.getByLabel('E-mail').fill('pia.producer@lanternfish.example');
+          await page.getByLabel('Password').fill(DEMO_PASSWORD);
+          await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+          await page.getByRole('navigation', { name: 'Studio pages' }).waitFor();
+          const times: number[] = [];
+          for (let i = 0; i < 3; i++) {
+            const p0 = performance.now();
+            await page.goto(`${url}/s/${t.seed.studioId}/runs/${runs[0]!.id}`);
+            await page.getByTestId('run-charts').locator('canvas').nth(5).waitFor({ timeout: 30_000 });
+            await page.getByRole('table', { name: 'Budget uses, largest first' }).waitFor();
+            times.push((performance.now() - p0) / 1000);
+          }
+          log(
+            `run page of the 10-minute run, navigation to six charts and the budget table drawn: ${times.map((x) => x.toFixed(2)).join(' s, ')} s (target < 1 s)`,
+          );
+        } finally {
+          await browser.close();
+        }
+      }
     } finally {
       worker.kill('SIGTERM');
       server.close();

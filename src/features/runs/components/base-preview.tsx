@@ -154,6 +154,13 @@ export function BasePreview({
         );
         return;
       }
+      // three.js is large: fetch and parse it once the charts are drawn and the browser is idle, so
+      // the run page's numbers come first.
+      await new Promise<void>((resolve) => {
+        if ('requestIdleCallback' in window) window.requestIdleCallback(() => resolve(), { timeout: 1500 });
+        else setTimeout(resolve, 300);
+      });
+      if (cancelled) return;
       const module = await import('three');
       if (cancelled) return;
       built = await buildScene(module, el, base);
