@@ -25,6 +25,7 @@ export const PERMISSIONS = {
   'profiles.cueing.write': ['motion_engineer'],
   'profiles.budget.write': ['safety_reviewer'],
   'venues.configure': ['motion_engineer', 'studio_admin'],
+  'venues.create': ['studio_admin'],
 } as const satisfies Record<string, readonly Actor[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

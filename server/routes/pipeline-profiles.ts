@@ -15,10 +15,13 @@ import { recordAudit } from '../audit';
 import {
   createProfileBody,
   createTokenBody,
+  createVenueBody,
   newVersionBody,
   profileKindSchema,
+  venueBaseBody,
   venueSettingsBody,
 } from '../../shared/schemas/pipeline';
+import { MotionBaseError, parseMotionBase } from '../../shared/schemas/motion-base';
 import type { ApiToken, Profile, VenueDetail } from '../../shared/schemas/pipeline';
 import { parseCueingProfile } from '../../shared/schemas/cueing-profile';
 import { budgetSchema } from '../../shared/schemas/budget';
@@ -201,6 +204,66 @@ export function venueSettingsRouter(deps: AppDeps): Router {
     const onlyOperator = m.roles.every((x) => x === 'venue_operator');
     if (onlyOperator && !m.venueIds.includes(String(req.params.venueId))) throw notFound('No such venue.');
     res.json(await detail(m.studioId, String(req.params.venueId)));
+  });
+
+  /** The motion base from a form: every geometry problem comes back with its JSON path. */
+  const validBase = (input: unknown) => {
+    try {
+      return parseMotionBase(input);
+    } catch (e) {
+      if (e instanceof MotionBaseError) {
+        throw badRequest(
+          `The motion base has ${e.issues.length} problem(s): ${e.issues.map((i) => `${i.path}: ${i.message}`).join('; ')}`,
+          e.issues.map((i) => ({ path: i.path, message: i.message })),
+        );
+      }
+      throw e;
+    }
+  };
+
+  r.post('/', requirePermission('venues.create'), async (req, res) => {
+    const m = req.member!;
+    const body = parseBody(createVenueBody, req.body, 'The venue form');
+    const base = validBase(body.base);
+    const id = await deps.db.transaction(async (tx) => {
+      const [v] = await tx
+        .insert(venues)
+        .values({ studioId: m.studioId, name: body.name, site: body.site, timeZone: body.timeZone, base })
+        .returning();
+      await recordAudit(tx, {
+        studioId: m.studioId,
+        actor: actorOf(req),
+        action: 'venue.created',
+        subjectType: 'venue',
+        subjectId: v!.id,
+        detail: { name: body.name, kind: base.kind },
+      });
+      return v!.id;
+    });
+    res.status(201).json(await detail(m.studioId, id));
+  });
+
+  // Finished runs keep the base they used in their manifest; queued runs use the base as it is when they start.
+  r.put('/:venueId/base', requirePermission('venues.configure'), async (req, res) => {
+    const m = req.member!;
+    const before = await detail(m.studioId, String(req.params.venueId));
+    const body = parseBody(venueBaseBody, req.body, 'The motion base form');
+    const base = validBase(body.base);
+    await deps.db.transaction(async (tx) => {
+      await tx
+        .update(venues)
+        .set({ base })
+        .where(inStudio(venues, m.studioId, eq(venues.id, before.id)));
+      await recordAudit(tx, {
+        studioId: m.studioId,
+        actor: actorOf(req),
+        action: 'venue.base_changed',
+        subjectType: 'venue',
+        subjectId: before.id,
+        detail: { kind: base.kind, from: before.base, to: base },
+      });
+    });
+    res.json(await detail(m.studioId, before.id));
   });
 
   r.put('/:venueId/settings', async (req, res) => {

@@ -185,3 +185,12 @@ export const apiTokenSchema = z.object({
   revokedAt: z.string().nullable(),
 });
 export type ApiToken = z.infer<typeof apiTokenSchema>;
+
+/** A new venue: where it is and its motion base (validated by shared/schemas/motion-base.ts). */
+export const createVenueBody = z.object({
+  name: z.string().trim().min(1, 'required').max(200),
+  site: z.string().trim().max(200).default(''),
+  timeZone: z.string().trim().min(1).max(100).default('UTC'),
+  base: z.unknown(),
+});
+export const venueBaseBody = z.object({ base: z.unknown() });

@@ -14,6 +14,7 @@ import { QUEUES } from '../../server/queue';
 import { createHandler } from '../../worker/jobs/cue-run';
 import type { JobMeta } from '../../worker/jobs/cue-run';
 import { makeVehicleCsv } from '../factories/takes';
+import { demoHexapodInput } from '../../shared/schemas/motion-base';
 import type { RunDetail, RunSummary, Take, TrackDetail } from '../../shared/schemas/pipeline';
 
 let t: TestApp;
@@ -303,6 +304,41 @@ describe('cue runs', () => {
     });
     expect(r.status).toBe(400);
     expect(r.body.error).toMatch(/Harbour Lights Dome is a hexapod base/);
+  });
+});
+
+describe('venues', () => {
+  it('refuses an impossible motion base with every problem and its path, and keeps the old one', async () => {
+    const eng = new Client(t.app);
+    await eng.signIn('eli.engineer@lanternfish.example');
+    const before = await eng.get(`${base()}/venues/${t.seed.venueIds.dome}`).expect(200);
+    // Stroke minimum above its maximum, and a joint moved onto its neighbour (coincident joints).
+    const bad = structuredClone(before.body.base) as {
+      leg: { min_m: number; max_m: number };
+      baseJoints_m: number[][];
+    };
+    bad.leg.min_m = bad.leg.max_m + 0.1;
+    bad.baseJoints_m[1] = [...bad.baseJoints_m[0]!];
+    const r = await eng.send('put', `${base()}/venues/${t.seed.venueIds.dome}/base`, { base: bad });
+    expect(r.status).toBe(400);
+    const paths = (r.body.issues as { path: string }[]).map((i) => i.path);
+    expect(paths.some((p) => p.startsWith('leg'))).toBe(true);
+    expect(paths.some((p) => p.startsWith('baseJoints_m'))).toBe(true);
+    const after = await eng.get(`${base()}/venues/${t.seed.venueIds.dome}`).expect(200);
+    expect(after.body.base).toEqual(before.body.base);
+  });
+
+  it('lets an admin create a venue whose base is given in the parametric form, stored in joint form', async () => {
+    const admin = new Client(t.app);
+    await admin.signIn('ada.admin@lanternfish.example');
+    const r = await admin.send('post', `${base()}/venues`, {
+      name: 'Driftwood Hall',
+      site: 'Old ferry shed',
+      timeZone: 'UTC',
+      base: demoHexapodInput,
+    });
+    expect(r.status, JSON.stringify(r.body)).toBe(201);
+    expect(r.body.base.baseJoints_m).toHaveLength(6);
   });
 });
 

@@ -6,6 +6,7 @@ import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { DEMO_USERS } from '../../shared/demo';
 import type { Role } from '../../shared/schemas/roles';
+import { demoHexapodBase, demoPlanar3Base } from '../../shared/schemas/motion-base';
 
 let t: TestApp;
 const clients = new Map<string, Client>();
@@ -173,6 +174,22 @@ const ROUTES: RouteCase[] = [
     ok: 200,
   },
   {
+    name: 'create a venue',
+    method: 'post',
+    path: (i) => `/api/studios/${i.studio}/venues`,
+    body: () => ({ name: 'Matrix Pier', site: 'Test', timeZone: 'UTC', base: demoPlanar3Base }),
+    allowed: ['studio_admin'],
+    ok: 201,
+  },
+  {
+    name: "edit a venue's motion base",
+    method: 'put',
+    path: (i) => `/api/studios/${i.studio}/venues/${i.venue}/base`,
+    body: () => ({ base: demoHexapodBase }),
+    allowed: ['motion_engineer', 'studio_admin'],
+    ok: 200,
+  },
+  {
     name: 'API tokens list',
     method: 'get',
     path: (i) => `/api/studios/${i.studio}/tokens`,
@@ -327,7 +344,9 @@ describe('tenancy', () => {
     const eng = new Client(t.app);
     await eng.signIn('eli.engineer@lanternfish.example');
     const all = await eng.get(`/api/studios/${t.seed.studioId}/venues`).expect(200);
-    expect((all.body as unknown[]).length).toBe(2);
+    expect((all.body as { id: string }[]).map((v) => v.id)).toEqual(
+      expect.arrayContaining([t.seed.venueIds.dome, t.seed.venueIds.arcade]),
+    );
   });
 
   it("refuses a venue scope naming another studio's venue", async () => {
