@@ -5,6 +5,7 @@ import { AuditLog } from '../../features/audit/components/audit-log';
 import { InviteForm } from '../../features/members/components/invite-form';
 import { InvitationsTable } from '../../features/members/components/invitations-table';
 import { MembersTable } from '../../features/members/components/members-table';
+import { NewVenueForm } from '../../features/venue-settings/components/new-venue-form';
 import { useVenues } from '../../features/venues/api/get-venues';
 import { StudioVenues } from '../../features/venues/components/studio-venues';
 import { useStudioContext } from './studio-layout';
@@ -23,6 +24,11 @@ export function VenuesRoute() {
         subtitle={scoped ? 'The venues assigned to you.' : "The studio's venues and their motion bases."}
       />
       <StudioVenues studioId={membership.studioId} />
+      {membership.roles.includes('studio_admin') ? (
+        <Section title="New venue">
+          <NewVenueForm studioId={membership.studioId} />
+        </Section>
+      ) : null}
     </>
   );
 }

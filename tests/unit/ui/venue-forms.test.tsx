@@ -1,0 +1,255 @@
+// @vitest-environment jsdom
+// The venue forms against the API contract: PUT /venues/:id/base and POST /venues answer 400
+// `{ error, issues: [{ path, message }] }` with one issue per JSON path inside the base; JSON that
+// does not parse is reported in the form and never sent.
+import '@testing-library/jest-dom/vitest';
+import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
+import type { ReactElement } from 'react';
+import { Outlet } from 'react-router-dom';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import type { Venue } from '../../../shared/schemas/api';
+import {
+  MotionBaseError,
+  demoHexapodBase,
+  demoPlanar3Base,
+  parseMotionBase,
+} from '../../../shared/schemas/motion-base';
+import type { VenueDetail } from '../../../shared/schemas/pipeline';
+import type { Role } from '../../../shared/schemas/roles';
+import type { StudioContext } from '../../../src/app/routes/studio-layout';
+import { VenuesRoute } from '../../../src/app/routes/studio-pages';
+import { VenueSettingsRoute } from '../../../src/app/routes/venue-settings';
+import { fakeApi, json, renderRoutes } from './harness';
+import type { RecordedCall } from './harness';
+
+const STUDIO = 'a3c1e7b2-5d4f-4e8a-9b6c-1d2e3f4a5b6c';
+const VENUE = 'e7a5c1f6-9b8d-4c2e-8f0a-5b6c7d8e9f0a';
+const NEW_VENUE = 'f8b6d2a7-0c9e-4d3f-9a1b-6c7d8e9f0a1b';
+
+afterEach(() => {
+  cleanup();
+  vi.unstubAllGlobals();
+});
+
+function context(roles: Role[]): StudioContext {
+  return {
+    me: {
+      user: {
+        id: 'c5e3a9d4-7f6b-4a0c-9d8e-3f4a5b6c7d8e',
+        email: 'ida.admin@lanternfish.example',
+        name: 'Ida Holm',
+      },
+      memberships: [],
+    },
+    membership: {
+      studioId: STUDIO,
+      studioName: 'Lanternfish Studios',
+      studioSlug: 'lanternfish',
+      roles,
+      venueIds: [],
+    },
+  };
+}
+
+function renderInStudio(roles: Role[], path: string, child: { path: string; element: ReactElement }) {
+  return renderRoutes(
+    [{ path: '/s/:studioId', element: <Outlet context={context(roles)} />, children: [child] }],
+    path,
+  );
+}
+
+/** Answers like the server route: the body's base goes through the shared validator; problems come back as 400 issues. */
+function answerBase(call: RecordedCall, ok: (base: unknown) => Response): Response {
+  const base = (call.body as { base?: unknown }).base;
+  try {
+    return ok(parseMotionBase(base));
+  } catch (e) {
+    if (!(e instanceof MotionBaseError)) throw e;
+    return json({ error: `The motion base has ${e.issues.length} problem(s).`, issues: e.issues }, 400);
+  }
+}
+
+const venueDetail: VenueDetail = {
+  id: VENUE,
+  name: 'Harbour Lights Dome',
+  site: 'Port Meridian pier',
+  timeZone: 'Europe/Lisbon',
+  base: demoHexapodBase,
+  cueingVersion: null,
+  budgetVersion: null,
+};
+
+/** The issues the server route would answer for `base` (empty when it is valid). */
+function issuesOf(base: unknown): readonly { path: string; message: string }[] {
+  try {
+    parseMotionBase(base);
+    return [];
+  } catch (e) {
+    if (e instanceof MotionBaseError) return e.issues;
+    throw e;
+  }
+}
+
+/** 1-based line of the first line containing `needle`, found by plain line search (not the app's scanner). */
+const lineOf = (text: string, needle: string) => text.split('\n').findIndex((l) => l.includes(needle)) + 1;
+
+describe('motion base form', () => {
+  it("lists the server's issues with their JSON paths under the textarea and sends the edited base", async () => {
+    const { calls } = fakeApi({
+      [`GET /api/studios/${STUDIO}/venues/${VENUE}`]: () => json(venueDetail),
+      [`GET /api/studios/${STUDIO}/profiles`]: () => json([]),
+      [`PUT /api/studios/${STUDIO}/venues/${VENUE}/base`]: (call) =>
+        answerBase(call, (base) => json({ ...venueDetail, base })),
+    });
+    renderInStudio(['motion_engineer'], `/s/${STUDIO}/venues/${VENUE}`, {
+      path: 'venues/:venueId',
+      element: <VenueSettingsRoute />,
+    });
+    const textarea = await screen.findByRole('textbox', { name: 'Motion base (JSON)' });
+    // Prefilled with the stored base, pretty-printed with two spaces (JSON.stringify, ECMA-262).
+    expect(textarea).toHaveValue(JSON.stringify(demoHexapodBase, null, 2));
+
+    // A negative stroke minimum and a seat with two coordinates instead of three: problems at two paths.
+    const bad = { ...demoHexapodBase, leg: { ...demoHexapodBase.leg, min_m: -1 }, seats_m: [[0, 0]] };
+    const badText = JSON.stringify(bad, null, 2);
+    fireEvent.change(textarea, { target: { value: badText } });
+    const form = screen.getByRole('form', { name: 'Motion base of Harbour Lights Dome' });
+    fireEvent.click(within(form).getByRole('button', { name: 'Save' }));
+
+    const list = await within(form).findByRole('list', { name: 'Problems in Motion base (JSON)' });
+    const put = calls.find((c) => c.method === 'PUT')!;
+    expect(put.body).toEqual({ base: bad });
+    expect(put.headers['x-csrf-token']).toMatch(/^token-/);
+    const items = within(list)
+      .getAllByRole('listitem')
+      .map((li) => li.textContent ?? '');
+    // API contract: every issue the server sends is listed with its path, in the server's order.
+    // The issues the fake server answered: the shared validator's, as the real route sends them.
+    const sentIssues = issuesOf(bad);
+    expect(sentIssues.map((i) => i.path)).toEqual(expect.arrayContaining(['leg.min_m', 'seats_m[0]']));
+    expect(items).toHaveLength(sentIssues.length);
+    sentIssues.forEach((issue, k) => {
+      expect(items[k]).toContain(issue.path);
+      expect(items[k]).toContain(issue.message);
+    });
+    // The path is also located in the text that was sent (line found by plain search for the key).
+    const minItem = items[sentIssues.findIndex((i) => i.path === 'leg.min_m')]!;
+    expect(minItem).toContain(`line ${lineOf(badText, '"min_m"')}`);
+    expect(textarea).toHaveAttribute('aria-invalid', 'true');
+    expect(within(form).getByRole('alert')).toHaveTextContent('The motion base has');
+    expect(within(form).queryByText('Motion base saved.')).not.toBeInTheDocument();
+  });
+
+  it('shows the base read-only to a producer', async () => {
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/venues/${VENUE}`]: () => json(venueDetail),
+      [`GET /api/studios/${STUDIO}/profiles`]: () => json([]),
+    });
+    renderInStudio(['producer'], `/s/${STUDIO}/venues/${VENUE}`, {
+      path: 'venues/:venueId',
+      element: <VenueSettingsRoute />,
+    });
+    // Roles table (motion-spec): only motion engineers and studio admins configure a venue.
+    expect(await screen.findByRole('table', { name: /^Joints/ })).toBeInTheDocument();
+    expect(screen.queryByRole('textbox', { name: 'Motion base (JSON)' })).not.toBeInTheDocument();
+  });
+});
+
+describe('new venue form', () => {
+  const listed: Venue = {
+    id: VENUE,
+    name: 'Harbour Lights Dome',
+    site: 'Port Meridian pier',
+    timeZone: 'Europe/Lisbon',
+    baseKind: 'hexapod',
+    controllerRate_hz: 100,
+    seatCount: 4,
+  };
+
+  function setup() {
+    let venues: Venue[] = [listed];
+    const api = fakeApi({
+      [`GET /api/studios/${STUDIO}/venues`]: () => json(venues),
+      [`POST /api/studios/${STUDIO}/venues`]: (call) =>
+        answerBase(call, (base) => {
+          const body = call.body as { name: string; site: string; timeZone: string };
+          const created: VenueDetail = {
+            ...body,
+            id: NEW_VENUE,
+            base,
+            cueingVersion: null,
+            budgetVersion: null,
+          };
+          venues = [
+            ...venues,
+            { ...body, id: NEW_VENUE, baseKind: 'planar3', controllerRate_hz: 100, seatCount: 2 },
+          ];
+          return json(created, 201);
+        }),
+    });
+    renderInStudio(['studio_admin'], `/s/${STUDIO}/venues`, { path: 'venues', element: <VenuesRoute /> });
+    return api;
+  }
+
+  it('posts the parsed JSON of the chosen example and refreshes the venues list', async () => {
+    const { calls } = setup();
+    await screen.findByRole('link', { name: 'Harbour Lights Dome' });
+    const form = screen.getByRole('form', { name: 'New venue' });
+    fireEvent.change(within(form).getByLabelText('Name'), { target: { value: 'Tidewater Arcade' } });
+    fireEvent.change(within(form).getByLabelText('Site'), { target: { value: 'Old ferry shed' } });
+    fireEvent.change(within(form).getByLabelText('Time zone'), { target: { value: 'Europe/Oslo' } });
+    fireEvent.change(within(form).getByRole('combobox', { name: 'Start from an example' }), {
+      target: { value: 'planar3' },
+    });
+    const textarea = within(form).getByRole('textbox', { name: 'Motion base (JSON)' });
+    expect(textarea).toHaveValue(JSON.stringify(demoPlanar3Base, null, 2));
+    fireEvent.click(within(form).getByRole('button', { name: 'Create' }));
+
+    expect(await within(form).findByText('Venue Tidewater Arcade created.')).toBeInTheDocument();
+    const post = calls.find((c) => c.method === 'POST')!;
+    // The body is what JSON.parse makes of the text: the demo planar base after a JSON round trip.
+    expect(post.body).toEqual({
+      name: 'Tidewater Arcade',
+      site: 'Old ferry shed',
+      timeZone: 'Europe/Oslo',
+      base: JSON.parse(JSON.stringify(demoPlanar3Base)) as unknown,
+    });
+    expect(await screen.findByRole('link', { name: 'Tidewater Arcade' })).toBeInTheDocument();
+    expect(calls.filter((c) => c.method === 'GET' && c.path.endsWith('/venues'))).toHaveLength(2);
+  });
+
+  it('shows a JSON syntax error from JSON.parse in the form without calling the server', async () => {
+    const { calls } = setup();
+    await screen.findByRole('link', { name: 'Harbour Lights Dome' });
+    const form = screen.getByRole('form', { name: 'New venue' });
+    fireEvent.change(within(form).getByLabelText('Name'), { target: { value: 'Tidewater Arcade' } });
+    // A trailing comma on line 3 (RFC 8259 allows none).
+    const broken = '{\n  "kind": "planar3",\n  "controllerRate_hz": 100,\n}';
+    fireEvent.change(within(form).getByRole('textbox', { name: 'Motion base (JSON)' }), {
+      target: { value: broken },
+    });
+    fireEvent.click(within(form).getByRole('button', { name: 'Create' }));
+
+    let parseMessage = '';
+    try {
+      JSON.parse(broken);
+    } catch (e) {
+      parseMessage = (e as Error).message;
+    }
+    expect(parseMessage).not.toBe('');
+    const list = await within(form).findByRole('list', { name: 'Problems in Motion base (JSON)' });
+    expect(list).toHaveTextContent(parseMessage);
+    // The closing brace on line 4, column 1 is where a value was expected after the comma.
+    expect(list).toHaveTextContent('line 4, column 1');
+    await waitFor(() => expect(calls.filter((c) => c.method !== 'GET')).toHaveLength(0));
+    expect(calls.some((c) => c.path === '/api/auth/csrf')).toBe(false);
+  });
+
+  it('is offered to studio admins only', async () => {
+    fakeApi({ [`GET /api/studios/${STUDIO}/venues`]: () => json([listed]) });
+    renderInStudio(['motion_engineer'], `/s/${STUDIO}/venues`, { path: 'venues', element: <VenuesRoute /> });
+    await screen.findByRole('link', { name: 'Harbour Lights Dome' });
+    // Roles table: creating a venue is a studio admin's job.
+    expect(screen.queryByRole('form', { name: 'New venue' })).not.toBeInTheDocument();
+  });
+});
