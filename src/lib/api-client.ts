@@ -60,7 +60,7 @@ async function currentCsrfToken(): Promise<string> {
   return csrfPending ?? refreshCsrfToken();
 }
 
-type Method = 'GET' | 'POST' | 'PATCH' | 'DELETE';
+type Method = 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
 
 export type Query = Record<string, string | number | undefined>;
 
@@ -153,5 +153,6 @@ export const api = {
     request('GET', withQuery(path, query), schema),
   post: <T>(path: string, body: unknown, schema: z.ZodType<T> | null) => request('POST', path, schema, body),
   patch: <T>(path: string, body: unknown, schema: z.ZodType<T>) => request('PATCH', path, schema, body),
+  put: <T>(path: string, body: unknown, schema: z.ZodType<T>) => request('PUT', path, schema, body),
   delete: (path: string) => request<void>('DELETE', path, null),
 };

@@ -1,9 +1,8 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { venueDetailSchema } from '../../../../shared/schemas/pipeline';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
-import { ApiRequestError } from '../../../lib/api-client';
+import { api } from '../../../lib/api-client';
 import { venueDetailQueryKey } from './get-venue-detail';
-import { putJson } from './put-json';
 
 export interface UpdateVenueBaseInput {
   studioId: string;
@@ -19,10 +18,7 @@ export async function updateVenueBase({
   base,
 }: UpdateVenueBaseInput): Promise<VenueDetail> {
   const path = `/api/studios/${encodeURIComponent(studioId)}/venues/${encodeURIComponent(venueId)}/base`;
-  const parsed = venueDetailSchema.safeParse(await putJson(path, { base }));
-  if (!parsed.success)
-    throw new ApiRequestError(200, `The server's answer to PUT ${path} was not understood.`);
-  return parsed.data;
+  return api.put(path, { base }, venueDetailSchema);
 }
 
 export function useUpdateVenueBase(studioId: string, venueId: string) {

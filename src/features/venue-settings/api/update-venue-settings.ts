@@ -1,9 +1,8 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { venueDetailSchema } from '../../../../shared/schemas/pipeline';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
-import { ApiRequestError } from '../../../lib/api-client';
+import { api } from '../../../lib/api-client';
 import { venueDetailQueryKey } from './get-venue-detail';
-import { putJson } from './put-json';
 
 export interface UpdateVenueSettingsInput {
   studioId: string;
@@ -19,10 +18,7 @@ export async function updateVenueSettings({
   ...body
 }: UpdateVenueSettingsInput): Promise<VenueDetail> {
   const path = `/api/studios/${encodeURIComponent(studioId)}/venues/${encodeURIComponent(venueId)}/settings`;
-  const parsed = venueDetailSchema.safeParse(await putJson(path, body));
-  if (!parsed.success)
-    throw new ApiRequestError(200, `The server's answer to PUT ${path} was not understood.`);
-  return parsed.data;
+  return api.put(path, body, venueDetailSchema);
 }
 
 export function useUpdateVenueSettings(studioId: string, venueId: string) {
