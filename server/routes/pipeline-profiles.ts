@@ -1,5 +1,6 @@
 // Cueing and budget profiles with immutable versions, venue settings, and API tokens.
 import { Router } from 'express';
+import type { Request } from 'express';
 import { asc, desc, eq, isNull, max } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
 import type { Db, Tx } from '../db/client';
@@ -84,6 +85,38 @@ async function loadProfile(db: Db | Tx, studioId: string, id: string): Promise<P
   };
 }
 
+/** Appends the next version of a profile (1 for a new one) and records it in the audit log. */
+async function addVersion(
+  tx: Tx,
+  req: Request,
+  p: { id: string; studioId: string; kind: 'cueing' | 'budget'; name: string; params: unknown; note: string },
+): Promise<void> {
+  const [last] = await tx
+    .select({ n: max(profileVersions.version) })
+    .from(profileVersions)
+    .where(inStudio(profileVersions, p.studioId, eq(profileVersions.profileId, p.id)));
+  const version = (last?.n ?? 0) + 1;
+  const [v] = await tx
+    .insert(profileVersions)
+    .values({
+      studioId: p.studioId,
+      profileId: p.id,
+      version,
+      params: p.params,
+      note: p.note,
+      createdBy: req.user?.id ?? null,
+    })
+    .returning();
+  await recordAudit(tx, {
+    studioId: p.studioId,
+    actor: actorOf(req),
+    action: 'profile.version_created',
+    subjectType: 'profile_version',
+    subjectId: v!.id,
+    detail: { kind: p.kind, name: p.name, version },
+  });
+}
+
 export function profilesRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
   r.get('/', requirePermission('profiles.read'), async (req, res) => {
@@ -111,25 +144,7 @@ export function profilesRouter(deps: AppDeps): Router {
         .insert(profiles)
         .values({ studioId, kind: body.kind, name: body.name })
         .returning();
-      const [v] = await tx
-        .insert(profileVersions)
-        .values({
-          studioId,
-          profileId: p!.id,
-          version: 1,
-          params,
-          note: body.note,
-          createdBy: req.user?.id ?? null,
-        })
-        .returning();
-      await recordAudit(tx, {
-        studioId,
-        actor: actorOf(req),
-        action: 'profile.version_created',
-        subjectType: 'profile_version',
-        subjectId: v!.id,
-        detail: { kind: body.kind, name: body.name, version: 1 },
-      });
+      await addVersion(tx, req, { ...p!, params, note: body.note });
       return p!.id;
     });
     res.status(201).json(await loadProfile(deps.db, studioId, id));
@@ -146,32 +161,7 @@ export function profilesRouter(deps: AppDeps): Router {
     if (!allows(req.member!.roles, writePermission(profile.kind))) throw forbidden();
     const body = parseBody(newVersionBody, req.body, 'The profile version');
     const params = validateParams(profile.kind, body.params);
-    await deps.db.transaction(async (tx) => {
-      const [last] = await tx
-        .select({ n: max(profileVersions.version) })
-        .from(profileVersions)
-        .where(inStudio(profileVersions, studioId, eq(profileVersions.profileId, profile.id)));
-      const version = (last?.n ?? 0) + 1;
-      const [v] = await tx
-        .insert(profileVersions)
-        .values({
-          studioId,
-          profileId: profile.id,
-          version,
-          params,
-          note: body.note,
-          createdBy: req.user?.id ?? null,
-        })
-        .returning();
-      await recordAudit(tx, {
-        studioId,
-        actor: actorOf(req),
-        action: 'profile.version_created',
-        subjectType: 'profile_version',
-        subjectId: v!.id,
-        detail: { kind: profile.kind, name: profile.name, version },
-      });
-    });
+    await deps.db.transaction((tx) => addVersion(tx, req, { ...profile, studioId, params, note: body.note }));
     res.status(201).json(await loadProfile(deps.db, studioId, profile.id));
   });
   return r;

@@ -6,6 +6,7 @@ import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { DEMO_USERS } from '../../shared/demo';
 import type { Role } from '../../shared/schemas/roles';
+import { SPEC_EXAMPLE_BUDGET } from '../factories/budget';
 import { demoHexapodBase, demoPlanar3Base } from '../../shared/schemas/motion-base';
 
 let t: TestApp;
@@ -35,25 +36,8 @@ interface RouteCase {
 const ALL: Role[] = ['producer', 'motion_engineer', 'safety_reviewer', 'venue_operator', 'studio_admin'];
 /** Everyone who works on tracks at the studio; a venue operator sees releases for their venues only. */
 const DESK: Role[] = ['producer', 'motion_engineer', 'safety_reviewer', 'studio_admin'];
-// A valid budget (the spec's example numbers, section 7), for the create-profile route.
-const MATRIX_BUDGET = {
-  strokeMargin_m: 0.02,
-  envelope: {
-    x: [
-      [0, -1.0, 1.0],
-      [1.0, -0.5, 0.5],
-    ],
-    y: [[0, -0.8, 0.8]],
-    z: [[0, 0.2, 1.8]],
-  },
-  comfort: {
-    jerkMax_mps3: 25,
-    angularSpeedMax_radps: 0.7,
-    angularAccelMax_radps2: 4,
-    msdvZMax_mps1_5: 12,
-    wrmsMax_mps2: 0.8,
-  },
-};
+// A valid budget (the spec's example, section 7), for the create-profile route.
+const MATRIX_BUDGET = SPEC_EXAMPLE_BUDGET;
 const ROUTES: RouteCase[] = [
   {
     name: 'overview',

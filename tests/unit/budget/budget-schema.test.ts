@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { DEMO_BUDGET, JsonInputError, budgetSchema, parseBudgetText } from '../../../shared/schemas/budget';
+import { SPEC_EXAMPLE_BUDGET } from '../../factories/budget';
 
 const fixturePath = new URL('../../fixtures/budget-demo.json', import.meta.url);
 const demoText = readFileSync(fixturePath, 'utf8');
@@ -21,24 +22,7 @@ describe('budget schema (motion-spec section 7 format)', () => {
   });
 
   it('accepts the example budget printed in motion-spec section 7', () => {
-    const specExample = {
-      strokeMargin_m: 0.02,
-      envelope: {
-        x: [
-          [0, -1.0, 1.0],
-          [1.0, -0.5, 0.5],
-        ],
-        y: [[0, -0.8, 0.8]],
-        z: [[0, 0.2, 1.8]],
-      },
-      comfort: {
-        jerkMax_mps3: 25,
-        angularSpeedMax_radps: 0.7,
-        angularAccelMax_radps2: 4,
-        msdvZMax_mps1_5: 12,
-        wrmsMax_mps2: 0.8,
-      },
-    };
+    const specExample = structuredClone(SPEC_EXAMPLE_BUDGET);
     expect(budgetSchema.safeParse(specExample).success).toBe(true);
   });
 

@@ -1,0 +1,20 @@
+// The example budget printed in motion-spec section 7 (the project's contract), for tests that need
+// a valid budget that is not the product's own demo budget.
+export const SPEC_EXAMPLE_BUDGET = {
+  strokeMargin_m: 0.02,
+  envelope: {
+    x: [
+      [0, -1.0, 1.0],
+      [1.0, -0.5, 0.5],
+    ],
+    y: [[0, -0.8, 0.8]],
+    z: [[0, 0.2, 1.8]],
+  },
+  comfort: {
+    jerkMax_mps3: 25,
+    angularSpeedMax_radps: 0.7,
+    angularAccelMax_radps2: 4,
+    msdvZMax_mps1_5: 12,
+    wrmsMax_mps2: 0.8,
+  },
+};
