@@ -8,6 +8,7 @@ import type { RouteObject } from 'react-router-dom';
 import { vi } from 'vitest';
 import { createQueryClient } from '../../../src/app/providers';
 import { forgetCsrfToken } from '../../../src/lib/api-client';
+import type { Venue } from '../../../shared/schemas/api';
 
 export interface RecordedCall {
   method: string;
@@ -84,3 +85,32 @@ export function renderRoutes(routes: RouteObject[], path: string) {
   );
   return { ...view, router, queryClient };
 }
+
+/** Ids of the demo studio and its two venues as the fake API answers them. */
+export const FAKE_IDS = {
+  studio: 'a3c1e7b2-5d4f-4e8a-9b6c-1d2e3f4a5b6c',
+  dome: 'e7a5c1f6-9b8d-4c2e-8f0a-5b6c7d8e9f0a',
+  arcade: 'f8b6d2a7-0c9e-4d3f-9a1b-6c7d8e9f0a1b',
+} as const;
+
+/** GET /api/studios/:id/venues as the fake API answers it: the demo studio's two venues. */
+export const FAKE_VENUES: Venue[] = [
+  {
+    id: FAKE_IDS.dome,
+    name: 'Harbour Lights Dome',
+    site: 'Port Meridian pier',
+    timeZone: 'Europe/Lisbon',
+    baseKind: 'hexapod',
+    controllerRate_hz: 100,
+    seatCount: 4,
+  },
+  {
+    id: FAKE_IDS.arcade,
+    name: 'Tidewater Arcade',
+    site: 'Saltmarsh boardwalk',
+    timeZone: 'America/Halifax',
+    baseKind: 'planar3',
+    controllerRate_hz: 100,
+    seatCount: 2,
+  },
+];

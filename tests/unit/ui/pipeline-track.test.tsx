@@ -6,38 +6,19 @@ import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { Outlet } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import type { Me, Venue } from '../../../shared/schemas/api';
+import type { Me } from '../../../shared/schemas/api';
 import type { RunSummary, TrackDetail } from '../../../shared/schemas/pipeline';
 import type { Role } from '../../../shared/schemas/roles';
 import { TrackRoute } from '../../../src/app/routes/track';
 import type { StudioContext } from '../../../src/app/routes/studio-layout';
-import { fakeApi, json, renderRoutes } from './harness';
+import { fakeApi, json, renderRoutes, FAKE_IDS, FAKE_VENUES } from './harness';
 
-const STUDIO = 'a3c1e7b2-5d4f-4e8a-9b6c-1d2e3f4a5b6c';
+const STUDIO = FAKE_IDS.studio;
 const TRACK = '1b2c3d4e-5f6a-4b7c-8d9e-0f1a2b3c4d5e';
 const TAKE = '2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f';
-const DOME = 'e7a5c1f6-9b8d-4c2e-8f0a-5b6c7d8e9f0a';
-const ARCADE = 'f8b6d2a7-0c9e-4d3f-9a1b-6c7d8e9f0a1b';
-const VENUES: Venue[] = [
-  {
-    id: DOME,
-    name: 'Harbour Lights Dome',
-    site: 'Port Meridian pier',
-    timeZone: 'Europe/Lisbon',
-    baseKind: 'hexapod',
-    controllerRate_hz: 100,
-    seatCount: 4,
-  },
-  {
-    id: ARCADE,
-    name: 'Tidewater Arcade',
-    site: 'Saltmarsh boardwalk',
-    timeZone: 'America/Halifax',
-    baseKind: 'planar3',
-    controllerRate_hz: 100,
-    seatCount: 2,
-  },
-];
+const DOME = FAKE_IDS.dome;
+const ARCADE = FAKE_IDS.arcade;
+const VENUES = FAKE_VENUES;
 
 function run(overrides: Partial<RunSummary>): RunSummary {
   return {

@@ -6,37 +6,17 @@ import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { useState } from 'react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import type { Venue } from '../../../shared/schemas/api';
 import type { TrackPage, TrackSummary } from '../../../shared/schemas/pipeline';
 import { TRACKS_PAGE_SIZE, tracksParamsFrom } from '../../../src/app/routes/tracks';
 import type { TracksParams } from '../../../src/features/tracks/api/get-tracks';
 import { TracksTable, pageRange } from '../../../src/features/tracks/components/tracks-table';
-import { fakeApi, json, renderWithApp } from './harness';
+import { fakeApi, json, renderWithApp, FAKE_IDS, FAKE_VENUES } from './harness';
 import type { RecordedCall } from './harness';
 
-const STUDIO = 'a3c1e7b2-5d4f-4e8a-9b6c-1d2e3f4a5b6c';
-const DOME = 'e7a5c1f6-9b8d-4c2e-8f0a-5b6c7d8e9f0a';
-const ARCADE = 'f8b6d2a7-0c9e-4d3f-9a1b-6c7d8e9f0a1b';
-const VENUES: Venue[] = [
-  {
-    id: DOME,
-    name: 'Harbour Lights Dome',
-    site: 'Port Meridian pier',
-    timeZone: 'Europe/Lisbon',
-    baseKind: 'hexapod',
-    controllerRate_hz: 100,
-    seatCount: 4,
-  },
-  {
-    id: ARCADE,
-    name: 'Tidewater Arcade',
-    site: 'Saltmarsh boardwalk',
-    timeZone: 'America/Halifax',
-    baseKind: 'planar3',
-    controllerRate_hz: 100,
-    seatCount: 2,
-  },
-];
+const STUDIO = FAKE_IDS.studio;
+const DOME = FAKE_IDS.dome;
+const ARCADE = FAKE_IDS.arcade;
+const VENUES = FAKE_VENUES;
 const TOTAL = 73;
 
 function track(n: number): TrackSummary {
