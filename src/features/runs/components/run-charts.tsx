@@ -97,6 +97,8 @@ export function RunCharts({
     ];
   }, [series]);
 
+  // Every chart shares the time axis, the finding spans, the cursor and the instant marked.
+  const shared = { x: series.time_s, spans, syncKey: 'run', onCursorIndex: setIndex, marker: marker_s };
   return (
     <div className="flex flex-col gap-4" data-testid="run-charts">
       <p className="flex flex-wrap items-center gap-3 text-xs text-ink-600">
@@ -127,12 +129,8 @@ export function RunCharts({
             key={axis}
             title={`Specific force ${AXIS_NAMES[axis]}`}
             yLabel="m/s²"
-            x={series.time_s}
             bands={bands}
-            spans={spans}
-            syncKey="run"
-            onCursorIndex={setIndex}
-            marker={marker_s}
+            {...shared}
             height_px={170}
           />
         ))}
@@ -142,12 +140,8 @@ export function RunCharts({
           <BandChart
             title="Pose offset, translation"
             yLabel="mm"
-            x={series.time_s}
             bands={translation}
-            spans={spans}
-            syncKey="run"
-            onCursorIndex={setIndex}
-            marker={marker_s}
+            {...shared}
             scale={M_TO_MM}
           />
         ) : null}
@@ -155,12 +149,8 @@ export function RunCharts({
           <BandChart
             title="Pose offset, rotation"
             yLabel="deg"
-            x={series.time_s}
             bands={rotation}
-            spans={spans}
-            syncKey="run"
-            onCursorIndex={setIndex}
-            marker={marker_s}
+            {...shared}
             scale={RAD_TO_DEG}
           />
         ) : null}
@@ -168,12 +158,8 @@ export function RunCharts({
       <BandChart
         title="Leg lengths inside the stroke band"
         yLabel="m"
-        x={series.time_s}
         bands={legs}
-        spans={spans}
-        syncKey="run"
-        onCursorIndex={setIndex}
-        marker={marker_s}
+        {...shared}
         lines={strokeLines}
         height_px={220}
       />
