@@ -286,6 +286,10 @@ export const cueRuns = pgTable(
     createdAt: createdAt(),
     startedAt: timestamp('started_at', { withTimezone: true }),
     finishedAt: timestamp('finished_at', { withTimezone: true }),
+    /** Written by the worker every few seconds while it cues; a stale one means the worker died. */
+    heartbeatAt: timestamp('heartbeat_at', { withTimezone: true }),
+    /** The queue job that may work on this run now (null: the first one, whose id is the run id). */
+    jobId: uuid('job_id'),
   },
   (t) => [
     // A pose or legs take has no cueing version: NULLs must count as equal here.
@@ -294,6 +298,10 @@ export const cueRuns = pgTable(
       .nullsNotDistinct(),
     index('cue_runs_studio_idx').on(t.studioId, t.state),
     index('cue_runs_track_idx').on(t.trackId),
+    // The sweeper looks for runs being cued whose heartbeat went stale.
+    index('cue_runs_heartbeat_idx')
+      .on(t.heartbeatAt)
+      .where(sql`state = 'cueing'`),
   ],
 );
 export type CueRunRow = typeof cueRuns.$inferSelect;
