@@ -12,6 +12,8 @@
 // - wrms: weighted r.m.s. over the whole track at the worst seat / limit, per axis (Wd x, y; Wk z).
 // - msdv: MSDV_z (Wf) at the worst seat / limit, subject z.
 // - conditioning: Jacobian condition number / limit, subject "platform".
+// - startEnd: pose offset or rate at the first / last sample / its tolerance, subject "start" or "end"
+//   (see start-end.ts).
 //
 // Rider quantities are compared after a 4-pole Butterworth low-pass at 5 Hz (common practice for
 // post-processing ride accelerations, shared/reference-values.md), run forward only and started in
@@ -25,6 +27,8 @@ import { checkEnvelopeAxis } from './envelope';
 import type { FilterCascade } from './filters';
 import { analogLowPass2, cascadeFromAnalog, filterSignal } from './filters';
 import { msdv, rms, upsamplingFactor, vdv, vomitingShare_percent, weight } from './iso2631';
+import type { PoseColumns } from './hexapod';
+import { checkStartEnd } from './start-end';
 import { derivativeInto } from './track-derivative';
 import { G0_MPS2 } from './units';
 
@@ -54,6 +58,8 @@ export interface CheckInput {
   seatForce_mps2: readonly (readonly [Float64Array, Float64Array, Float64Array])[];
   /** Platform angular velocity in the platform frame [x, y, z], rad/s. */
   omega_radps: readonly [Float64Array, Float64Array, Float64Array];
+  /** Pose offsets on the same grid, for the startEnd check (skipped when absent). */
+  pose?: PoseColumns;
   /** Jacobian condition number per sample, if the kinematics gave one. */
   conditioning?: Float64Array;
   legLimits: LegLimits;
@@ -334,6 +340,12 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
       (i) => k[i] as number,
       () => kMax,
     );
+  }
+
+  if (input.pose) {
+    const ends = checkStartEnd(time_s, rate_hz, input.pose, budget.startEnd);
+    out.findings.push(...ends.findings);
+    out.uses.push(...ends.uses);
   }
 
   const comfort = comfortFigures(input, rate_hz);

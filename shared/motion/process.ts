@@ -267,6 +267,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
       legAccel_mps2: legAccel,
       seatForce_mps2: seatForce,
       omega_radps: omega,
+      pose,
       ...(conditioning ? { conditioning } : {}),
       ...(seatForceModel ? { seatForceModel } : {}),
       legLimits: base.leg,

@@ -44,6 +44,7 @@ const CHECK_WORDS: Record<Finding['check'], string> = {
   msdv: 'motion sickness dose (MSDV z)',
   wrms: 'frequency-weighted r.m.s. acceleration',
   conditioning: 'kinematic conditioning (near-singular pose)',
+  startEnd: 'start and end at neutral, at rest',
 };
 
 const fmt = (v: number, digits = 4) => Number(v.toPrecision(digits)).toString();
@@ -70,6 +71,8 @@ function describeFinding(f: Finding, budget: Budget): string {
       row && row[0] === 0
         ? `${f.axis} reached ${fmt(f.value)} g, past the absolute bound ${fmt(f.limit)} g of ${band}`
         : `${f.axis} stayed outside ${band} for ${fmt(f.value)} s; the row allows less than ${fmt(f.limit)} s`;
+  } else if (f.check === 'startEnd' && f.quantity !== undefined && f.unit !== undefined) {
+    detail = `|${f.quantity}| was ${fmt(f.value)} ${f.unit} at the ${f.subject}; the tolerance is ${fmt(f.limit)} ${f.unit}`;
   } else {
     const unit = CHECK_UNIT[f.check];
     detail = `${fmt(f.value)} ${unit} against the limit ${fmt(f.limit)} ${unit}`;

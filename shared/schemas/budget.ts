@@ -85,6 +85,27 @@ export const comfortLimitsSchema = z.strictObject({
     .optional(),
 });
 
+/**
+ * How far from neutral and how fast the platform may be at the first and the last sample (check
+ * "startEnd"). The defaults are the product's choice (common practice is to start and end a show at
+ * the home position, at rest), not a standard's value.
+ */
+export const startEndToleranceSchema = z.strictObject({
+  position_m: positive('startEnd.position_m'),
+  angle_rad: positive('startEnd.angle_rad'),
+  speed_mps: positive('startEnd.speed_mps'),
+  angularSpeed_radps: positive('startEnd.angularSpeed_radps'),
+});
+export type StartEndTolerance = z.infer<typeof startEndToleranceSchema>;
+
+/** Tolerances used when a budget has no startEnd block: 5 mm, 0.25 deg, 10 mm/s, 0.5 deg/s. */
+export const DEFAULT_START_END_TOLERANCE: StartEndTolerance = {
+  position_m: 0.005,
+  angle_rad: (0.25 * Math.PI) / 180,
+  speed_mps: 0.01,
+  angularSpeed_radps: (0.5 * Math.PI) / 180,
+};
+
 export const budgetSchema = z.strictObject({
   name: z.string().trim().min(1).max(200).optional(),
   version: z.union([z.string().trim().min(1).max(50), z.number().int().nonnegative()]).optional(),
@@ -97,6 +118,8 @@ export const budgetSchema = z.strictObject({
     z: envelopeAxisSchema('z'),
   }),
   comfort: comfortLimitsSchema,
+  /** Neutral-and-at-rest tolerances at the track's ends; DEFAULT_START_END_TOLERANCE when absent. */
+  startEnd: startEndToleranceSchema.optional(),
 });
 
 export type Budget = z.infer<typeof budgetSchema>;

@@ -13,6 +13,7 @@ export const CHECK_NAMES = [
   'msdv',
   'wrms',
   'conditioning',
+  'startEnd',
 ] as const;
 export const checkNameSchema = z.enum(CHECK_NAMES);
 export type CheckName = z.infer<typeof checkNameSchema>;
@@ -32,6 +33,7 @@ export const CHECK_SEVERITY: Readonly<Record<CheckName, Severity>> = {
   msdv: 'comfort',
   wrms: 'comfort',
   conditioning: 'comfort',
+  startEnd: 'hard',
 };
 
 /** The unit of each check's value and limit (the unit of the budget key it checks). */
@@ -47,6 +49,8 @@ export const CHECK_UNIT: Readonly<Record<CheckName, string>> = {
   msdv: 'm/s^1.5',
   wrms: 'm/s^2',
   conditioning: '1',
+  // The pose offset or rate that is furthest outside its tolerance; the finding carries its unit.
+  startEnd: 'm, rad, m/s or rad/s',
 };
 
 const finiteNumber = z.number().refine(Number.isFinite, 'must be finite');
@@ -64,6 +68,9 @@ export const findingSchema = z.object({
   ratio: finiteNumber,
   axis: z.enum(['x', 'y', 'z']).optional(),
   row: z.number().int().nonnegative().optional(),
+  /** startEnd: which pose offset or rate (e.g. "pitch", "x rate") and its unit. */
+  quantity: z.string().min(1).optional(),
+  unit: z.string().min(1).optional(),
 });
 export type Finding = z.infer<typeof findingSchema>;
 

@@ -5,7 +5,7 @@ import { processTrack } from '../../../shared/motion/process';
 import { checkResultSchema, exitCodeFor } from '../../../shared/schemas/findings';
 import { demoHexapodBase, demoHexapodInput } from '../../../shared/schemas/motion-base';
 import { G0_MPS2 } from '../../../shared/motion/units';
-import { makeBudget, makePoseTrackFrom, smoothStep } from './track-builders';
+import { RELAXED_START_END, makeBudget, makePoseTrackFrom, smoothStep } from './track-builders';
 
 const base = demoHexapodBase;
 const RATE = base.controllerRate_hz;
@@ -48,6 +48,8 @@ describe('a quiet track', () => {
         ['x', 'y', 'z'].map((a) => `${c}/${a}`),
       ),
       'msdv/z',
+      'startEnd/start',
+      'startEnd/end',
     ];
     expect([...uses.keys()].sort()).toEqual(expected.sort());
     // 1.874 m at neutral lies below the middle of [1.5 + 0.02, 2.3 - 0.02] m: ratio = lower bound / length.
@@ -102,7 +104,7 @@ describe('a fast sway', () => {
   const w = V / A;
   const track = makePoseTrackFrom(RATE, 3, (t) => [0, A * Math.sin(w * t), 0, 0, 0, 0]);
   // A generous rider envelope keeps this about the legs (0.9 g of sway is outside the demo's y band).
-  const budget = makeBudget({ envelope: { y: [[0, -2, 2]] } });
+  const budget = makeBudget({ envelope: { y: [[0, -2, 2]] }, startEnd: RELAXED_START_END });
   const r = processTrack({ track, base, budget, chartBuckets: 0 });
 
   it('finds leg-speed overruns on legs 4 and 5 only, each span around a pass through neutral', () => {
@@ -179,7 +181,7 @@ describe('comfort limits only', () => {
     const r = processTrack({
       track,
       base,
-      budget: makeBudget({ comfort: { jerkMax_mps3: 1 } }),
+      budget: makeBudget({ comfort: { jerkMax_mps3: 1 }, startEnd: RELAXED_START_END }),
       chartBuckets: 0,
     });
     expect(r.check.findings.length).toBeGreaterThan(0);
@@ -198,7 +200,7 @@ describe('comfort limits only', () => {
     const r = processTrack({
       track,
       base,
-      budget: makeBudget({ comfort: { wrmsMax_mps2: 0.01 } }),
+      budget: makeBudget({ comfort: { wrmsMax_mps2: 0.01 }, startEnd: RELAXED_START_END }),
       chartBuckets: 0,
     });
     const wrms = r.check.findings.filter((f) => f.check === 'wrms');

@@ -41,7 +41,17 @@ const liftPath = file(
 );
 const swayPath = file(
   'sway.csv',
-  poseTrackCsv(makePoseTrackFrom(100, 12, (t) => [0, 0.05 * Math.sin(Math.PI * t), 0, 0, 0, 0])),
+  // Faded in and out so that it starts and ends at neutral, at rest.
+  poseTrackCsv(
+    makePoseTrackFrom(100, 12, (t) => [
+      0,
+      0.05 * Math.sin(Math.PI * t) * (smoothStep(t, 0, 2) - smoothStep(t, 10, 12)),
+      0,
+      0,
+      0,
+      0,
+    ]),
+  ),
 );
 
 describe('legwork check', () => {

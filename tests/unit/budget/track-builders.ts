@@ -40,8 +40,10 @@ export function makeBudget(overrides: {
   strokeMargin_m?: number;
   envelope?: Partial<Budget['envelope']>;
   comfort?: Partial<Budget['comfort']>;
+  startEnd?: Budget['startEnd'];
 }): Budget {
   return {
+    ...(overrides.startEnd ? { startEnd: overrides.startEnd } : {}),
     ...DEMO_BUDGET,
     name: 'test budget',
     strokeMargin_m: overrides.strokeMargin_m ?? DEMO_BUDGET.strokeMargin_m,
@@ -56,3 +58,14 @@ export function smoothStep(t: number, t0: number, t1: number): number {
   if (t >= t1) return 1;
   return 0.5 - 0.5 * Math.cos((Math.PI * (t - t0)) / (t1 - t0));
 }
+
+/**
+ * startEnd tolerances wide enough for tests about other checks whose closed-form motion (a sinusoid
+ * from t = 0) starts moving; the startEnd check itself is tested in start-end.test.ts.
+ */
+export const RELAXED_START_END: NonNullable<Budget['startEnd']> = {
+  position_m: 1,
+  angle_rad: 1,
+  speed_mps: 10,
+  angularSpeed_radps: 10,
+};

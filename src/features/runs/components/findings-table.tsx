@@ -30,15 +30,18 @@ export function FindingsTable({ findings }: { findings: readonly Finding[] }) {
               {f.check}
               {f.row !== undefined ? <span className="text-ink-400"> row {f.row}</span> : null}
             </Td>
-            <Td className="font-mono text-xs">{subjectText(f)}</Td>
+            <Td className="font-mono text-xs">
+              {subjectText(f)}
+              {f.quantity !== undefined ? ` (${f.quantity})` : null}
+            </Td>
             <Td className="font-mono text-xs whitespace-nowrap">
               {f.start_s.toFixed(2)}–{f.end_s.toFixed(2)}
             </Td>
             <Td className="text-right font-mono text-xs whitespace-nowrap">
-              {formatValue(f.value)} {CHECK_UNIT[f.check]}
+              {formatValue(f.value)} {f.unit ?? CHECK_UNIT[f.check]}
             </Td>
             <Td className="text-right font-mono text-xs whitespace-nowrap">
-              {formatValue(f.limit)} {CHECK_UNIT[f.check]}
+              {formatValue(f.limit)} {f.unit ?? CHECK_UNIT[f.check]}
             </Td>
             <Td>
               <UseRatioBar ratio={f.ratio} label={`${f.check} ${subjectText(f)}`} />
