@@ -5,7 +5,16 @@ import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
 
 export default tseslint.config(
-  { ignores: ['dist/**', 'node_modules/**', '.legwork/**', 'test-output/**', 'drizzle/**'] },
+  {
+    ignores: [
+      'dist/**',
+      'packages/cli/dist/**',
+      'node_modules/**',
+      '.legwork/**',
+      'test-output/**',
+      'drizzle/**',
+    ],
+  },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

@@ -33,7 +33,7 @@ export const commands: Record<string, Command> = {
 export function usage(): string {
   const width = Math.max(...Object.keys(commands).map((k) => k.length));
   const lines = Object.entries(commands).map(([name, c]) => `  ${name.padEnd(width)}  ${c.summary}`);
-  return `Usage: legwork <command> [options]     (npm run -s legwork -- <command> ...)
+  return `Usage: legwork <command> [options]     (npx legwork ..., or npm run -s legwork -- ...)
 
 Commands:
 ${lines.join('\n')}

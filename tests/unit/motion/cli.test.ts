@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -150,6 +150,36 @@ describe('legwork command line', () => {
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/legs\.csv line 3: sample 1 \(t = 0\.01 s\): forward kinematics did not converge/);
   });
+
+  it('is an installed command: node_modules/.bin/legwork runs the compiled bundle, npx finds it locally', () => {
+    const bin = join(root, 'node_modules/.bin/legwork');
+    const ok = spawnSync(
+      bin,
+      ['ik', '--base', 'tests/fixtures/base-planar3.json', '--in', 'tests/fixtures/pose-planar3.csv'],
+      { cwd: root, encoding: 'utf8' },
+    );
+    expect(ok.status).toBe(0);
+    expect(ok.stdout.split('\n')[0]).toBe('time_s,leg1_m,leg2_m,leg3_m');
+    expect(existsSync(join(root, 'packages/cli/dist/legwork.mjs'))).toBe(true);
+    const bad = spawnSync(
+      bin,
+      ['fk', '--base', 'tests/fixtures/base-planar3.json', '--in', 'tests/fixtures/pose-planar3.csv'],
+      {
+        cwd: root,
+        encoding: 'utf8',
+      },
+    );
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toMatch(/pose-planar3\.csv line 1: expected a planar3 legs track/);
+    // An unreachable registry and --no-install: npx must resolve the local bin and never ask the registry.
+    const npx = spawnSync('npx', ['--no-install', 'legwork', '--help'], {
+      cwd: root,
+      encoding: 'utf8',
+      env: { ...process.env, npm_config_registry: 'http://127.0.0.1:9/' },
+    });
+    expect(npx.status).toBe(0);
+    expect(npx.stdout).toMatch(/^Usage: legwork <command>/);
+  }, 60_000);
 
   it('runs as a real process through tsx with the right exit codes', () => {
     const tsx = join(root, 'node_modules/.bin/tsx');
