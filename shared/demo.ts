@@ -33,29 +33,63 @@ export const DEMO_USERS: DemoUser[] = [
   { email: 'ada.admin@lanternfish.example', name: 'Ada Moreau', roles: ['studio_admin'] },
 ];
 
+/** A take of the demo track and the venues it is cued for (keys of DEMO_VENUES). */
+export interface DemoTake {
+  file: string;
+  /** What the cut is, for the take list and the seeded review reasons. */
+  note: string;
+  duration_s: number;
+  rate_hz: number;
+  intensity: number;
+  bumps: number;
+  venues: (keyof typeof DEMO_VENUES)[];
+}
+
 /**
- * The demo studio's first track: a fictional ride film with two vehicle takes cued for both venues. The
- * gentle first cut fits the demo budget; the hotter second cut has jerk over its comfort limit.
+ * The demo studio's track: a fictional dark-ride coaster film (station, launch, banked left turn, hill,
+ * drop, banked right turn, three bumps, brake run). Four cuts of it show every stage of the chain: the
+ * first cut at both venues, a recut, a rattly cut whose bumps break the comfort limit on jerk, and a hot
+ * cut driven so hard that the washout leaves the dome's platform off neutral at the end (a hard limit).
  */
 export const DEMO_TRACK = {
-  title: 'Kelp Forest Descent',
-  film: 'Undertow Lantern (fictional ride film)',
+  title: 'Breakwater Chase',
+  film: "The Lamplighter's Gale (fictional ride film)",
   takes: [
     {
-      file: 'kelp-forest-descent-take1.csv',
-      duration_s: 90,
-      rate_hz: 200,
-      surge_mps2: 0.8,
-      heave_mps2: 0.5,
-      yaw_radps: 0.05,
+      file: 'breakwater-chase-cut1.csv',
+      note: 'first cut',
+      duration_s: 60,
+      rate_hz: 100,
+      intensity: 1,
+      bumps: 1,
+      venues: ['dome', 'arcade'],
     },
     {
-      file: 'kelp-forest-descent-take2-hot.csv',
+      file: 'breakwater-chase-cut2.csv',
+      note: 'recut, softer launch',
       duration_s: 60,
-      rate_hz: 200,
-      surge_mps2: 5,
-      heave_mps2: 4.5,
-      yaw_radps: 0.45,
+      rate_hz: 100,
+      intensity: 0.9,
+      bumps: 1,
+      venues: ['dome'],
     },
-  ],
+    {
+      file: 'breakwater-chase-cut3-rattle.csv',
+      note: 'rattle cut, sharper bumps',
+      duration_s: 60,
+      rate_hz: 100,
+      intensity: 1,
+      bumps: 3,
+      venues: ['dome'],
+    },
+    {
+      file: 'breakwater-chase-cut4-hot.csv',
+      note: 'hot cut',
+      duration_s: 60,
+      rate_hz: 100,
+      intensity: 1.6,
+      bumps: 1,
+      venues: ['dome'],
+    },
+  ] satisfies DemoTake[],
 } as const;

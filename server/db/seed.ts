@@ -21,6 +21,7 @@ import type { Storage } from '../storage';
 import { receiveTake } from '../pipeline/upload';
 import { queueRuns } from '../pipeline/queue-runs';
 import { demoRideCsv } from '../../shared/demo-ride';
+import { createHandler as createCueRunHandler } from '../../worker/jobs/cue-run';
 import { hashPassword } from '../auth/passwords';
 import {
   DEMO_PASSWORD,
@@ -117,8 +118,9 @@ export async function seedDemo(db: Db) {
 }
 
 /**
- * The demo track: the fictional ride's take, uploaded through the same streamed path as a browser
- * upload, and queued for both venues (the worker cues it once it runs).
+ * The demo track: the fictional ride's takes, uploaded through the same streamed path as a browser
+ * upload, queued for their venues, and cued at once by the worker's own job handler (so the demo's
+ * states exist the moment the app starts; a later delivery of the same job changes nothing).
  */
 export async function seedDemoTrack(
   db: Db,
@@ -126,13 +128,15 @@ export async function seedDemoTrack(
   storage: Storage,
   boss: PgBoss,
   ids: Awaited<ReturnType<typeof seedDemo>>,
-): Promise<void> {
+): Promise<{ take: number; venue: 'dome' | 'arcade'; runId: string }[]> {
   const producer = DEMO_USERS.find((u) => u.roles.includes('producer'))!;
   const producerId = ids.userIds[producer.email]!;
   const [track] = await db
     .insert(tracks)
     .values({ studioId: ids.studioId, title: DEMO_TRACK.title, film: DEMO_TRACK.film, createdBy: producerId })
     .returning();
+  const cue = createCueRunHandler({ db, storage, log: () => undefined, now: () => new Date() });
+  const runs: { take: number; venue: keyof typeof ids.venueIds; runId: string }[] = [];
   let number = 0;
   for (const spec of DEMO_TRACK.takes) {
     number++;
@@ -165,15 +169,21 @@ export async function seedDemoTrack(
         uploadedVia: 'browser',
       })
       .returning();
-    await queueRuns(pool, boss, {
+    const queued = await queueRuns(pool, boss, {
       studioId: ids.studioId,
       take: take!,
-      venueIds: [ids.venueIds.dome, ids.venueIds.arcade],
+      venueIds: spec.venues.map((v) => ids.venueIds[v]),
       actor: { id: producerId, email: producer.email },
       now: new Date(),
       retry: { limit: 3, delay_s: 5 },
     });
+    for (const { run } of queued) {
+      await cue({ id: run.id, data: { runId: run.id, studioId: ids.studioId } });
+      const venue = run.venueId === ids.venueIds.dome ? 'dome' : 'arcade';
+      runs.push({ take: number, venue, runId: run.id });
+    }
   }
+  return runs;
 }
 
 /** Seeds the demo studio (and, given storage and the queue, its demo track) when the database has no studio yet. */
