@@ -9,7 +9,7 @@ import { RAD_PER_DEG } from './units';
 export class KinematicsError extends Error {
   readonly sampleIndex: number;
   readonly time_s: number | null;
-  readonly code: 'noConvergence' | 'singular' | 'noSolution';
+  readonly code: 'noConvergence' | 'singular' | 'noSolution' | 'noPath';
 
   constructor(sampleIndex: number, time_s: number | null, code: KinematicsError['code'], reason: string) {
     const at = time_s === null ? `sample ${sampleIndex}` : `sample ${sampleIndex} (t = ${time_s} s)`;

@@ -430,11 +430,73 @@ export function hexapodForwardPose(
   return -2;
 }
 
+/** Largest change of any leg (m) that forward kinematics takes in one Newton solve; larger changes are sub-stepped. */
+export const FK_SUBSTEP_M = 0.005;
+/** Largest change of any pose coordinate (m or rad) accepted from one Newton solve as the same assembly mode. */
+export const FK_MAX_POSE_STEP = 0.02;
+/** Smallest sub-step, as a fraction of the leg change between two samples, before giving up. */
+const FK_MIN_FRACTION = 1 / (1 << 20);
+
+function poseStep(a: Float64Array, b: Float64Array): number {
+  let d = 0;
+  for (let k = 0; k < 6; k++) d = Math.max(d, Math.abs((a[k] as number) - (b[k] as number)));
+  return d;
+}
+
 /**
- * Forward kinematics of a leg-length track (six columns, m): pose offsets (m, rad). Each sample starts
- * from the previous pose extrapolated linearly in time along the last step (falling back to the
- * previous pose itself), so the solution follows one assembly mode from the start pose. Throws
- * KinematicsError naming the sample when Newton does not converge or the Jacobian is singular.
+ * Follows the leg lengths from `fromLegs` (pose `q`, overwritten with the result) to `toLegs` along
+ * the straight line between them in leg space: Newton from sub-step to sub-step, each sub-step
+ * changing no leg by more than FK_SUBSTEP_M and moving the pose by at most FK_MAX_POSE_STEP (a larger
+ * move is another assembly mode, so the sub-step is halved). This is numerical continuation, the usual
+ * way to keep one assembly mode along a path (Merlet, "Parallel Robots", 2nd ed. 2006, ch. 4).
+ * Returns false when no continuous path was found (a singular pose or an unreachable stretch between).
+ */
+function followLegPath(
+  g: HexapodGeometry,
+  fromLegs: Float64Array,
+  toLegs: Float64Array,
+  q: Float64Array,
+  ws: ForwardWorkspace,
+  scratch: { target: Float64Array; trial: Float64Array },
+  tol: number,
+  maxIt: number,
+): boolean {
+  let dmax = 0;
+  for (let i = 0; i < 6; i++)
+    dmax = Math.max(dmax, Math.abs((toLegs[i] as number) - (fromLegs[i] as number)));
+  const nominal = dmax > 0 ? Math.min(1, FK_SUBSTEP_M / dmax) : 1;
+  let done = 0;
+  let step = nominal;
+  const { target, trial } = scratch;
+  while (done < 1) {
+    const h = Math.min(step, 1 - done);
+    const f = done + h >= 1 - 1e-12 ? 1 : done + h;
+    for (let i = 0; i < 6; i++) {
+      const a = fromLegs[i] as number;
+      target[i] = f === 1 ? (toLegs[i] as number) : a + f * ((toLegs[i] as number) - a);
+    }
+    trial.set(q);
+    const it = hexapodForwardPose(g, target, 0, trial, ws, tol, maxIt);
+    if (it >= 0 && poseStep(trial, q) <= FK_MAX_POSE_STEP) {
+      q.set(trial);
+      done = f;
+      step = Math.min(nominal, 2 * h);
+    } else {
+      step = h / 2;
+      if (step < FK_MIN_FRACTION) return false;
+    }
+  }
+  return true;
+}
+
+/**
+ * Forward kinematics of a leg-length track (six columns, m): pose offsets (m, rad). The first sample
+ * is reached from the start pose (default neutral) and each later sample from the one before, so the
+ * solution follows one assembly mode. A small leg change (at most FK_SUBSTEP_M) is one Newton solve
+ * started from the previous pose extrapolated linearly in time along the last step (falling back to
+ * the previous pose itself); a larger change, as between the samples of a coarse file, and any solve
+ * that moved the pose by more than FK_MAX_POSE_STEP, is followed by sub-steps (followLegPath). Throws
+ * KinematicsError naming the sample when no continuous path reaches it.
  */
 export function hexapodForward(
   g: HexapodGeometry,
@@ -468,8 +530,22 @@ export function hexapodForward(
   const prev = new Float64Array(6);
   const prev2 = new Float64Array(6);
   if (options.start) for (let k = 0; k < 6; k++) q[k] = options.start[k] ?? 0;
+  prev.set(q);
+  // Leg lengths of the previous pose: the start pose's for the first sample.
+  const prevLegs = new Float64Array(6);
+  hexapodLegLengthsInto(
+    g,
+    q[0] as number,
+    q[1] as number,
+    q[2] as number,
+    q[3] as number,
+    q[4] as number,
+    q[5] as number,
+    prevLegs,
+  );
   const row = new Float64Array(6);
   const ws = newForwardWorkspace();
+  const scratch = { target: new Float64Array(6), trial: new Float64Array(6) };
   for (let s = 0; s < n; s++) {
     row[0] = l0[s] as number;
     row[1] = l1[s] as number;
@@ -477,40 +553,51 @@ export function hexapodForward(
     row[3] = l3[s] as number;
     row[4] = l4[s] as number;
     row[5] = l5[s] as number;
-    let it = -2;
-    if (s >= 2) {
-      const ratio = time
-        ? ((time[s] as number) - (time[s - 1] as number)) /
-          ((time[s - 1] as number) - (time[s - 2] as number))
-        : 1;
-      const w = Number.isFinite(ratio) && ratio > 0 && ratio < 4 ? ratio : 0;
-      for (let k = 0; k < 6; k++)
-        q[k] = (prev[k] as number) + ((prev[k] as number) - (prev2[k] as number)) * w;
-      it = hexapodForwardPose(g, row, 0, q, ws, tol, maxIt);
-      if (it < 0) q.set(prev);
+    let dmax = 0;
+    for (let i = 0; i < 6; i++) {
+      const d = Math.abs((row[i] as number) - (prevLegs[i] as number));
+      if (!(d <= dmax)) dmax = d;
     }
-    if (it < 0) it = hexapodForwardPose(g, row, 0, q, ws, tol, maxIt);
+    let it = -2;
+    if (dmax <= FK_SUBSTEP_M) {
+      if (s >= 2) {
+        const ratio = time
+          ? ((time[s] as number) - (time[s - 1] as number)) /
+            ((time[s - 1] as number) - (time[s - 2] as number))
+          : 1;
+        const w = Number.isFinite(ratio) && ratio > 0 && ratio < 4 ? ratio : 0;
+        for (let k = 0; k < 6; k++)
+          q[k] = (prev[k] as number) + ((prev[k] as number) - (prev2[k] as number)) * w;
+        it = hexapodForwardPose(g, row, 0, q, ws, tol, maxIt);
+        if (it >= 0 && poseStep(q, prev) > FK_MAX_POSE_STEP) it = -3;
+      }
+      if (it < 0) {
+        q.set(prev);
+        it = hexapodForwardPose(g, row, 0, q, ws, tol, maxIt);
+        if (it >= 0 && poseStep(q, prev) > FK_MAX_POSE_STEP) it = -3;
+      }
+    }
     if (it < 0) {
-      const t = time?.[s] ?? null;
-      if (it === -1) {
+      q.set(prev);
+      const ok = Number.isFinite(dmax) && followLegPath(g, prevLegs, row, q, ws, scratch, tol, maxIt);
+      if (!ok) {
+        const t = time?.[s] ?? null;
+        let worst = 0;
+        for (let i = 0; i < 6; i++) worst = Math.max(worst, Math.abs(ws.rhs[i] as number));
         throw new KinematicsError(
           s,
           t,
-          'singular',
-          'forward kinematics hit a singular Jacobian (near-singular pose)',
+          'noPath',
+          `forward kinematics found no continuous path from the ${s === 0 ? 'start pose' : 'previous sample'} ` +
+            `(legs change by up to ${Number.isFinite(dmax) ? dmax.toPrecision(3) : 'an unbounded amount'} m; last leg residual ` +
+            `${Number.isFinite(worst) ? worst.toPrecision(3) : 'unbounded'} m): the leg lengths in between pass a singular ` +
+            'pose or leave the reachable set, or the file is too coarse to follow',
         );
       }
-      let worst = 0;
-      for (let i = 0; i < 6; i++) worst = Math.max(worst, Math.abs(ws.rhs[i] as number));
-      throw new KinematicsError(
-        s,
-        t,
-        'noConvergence',
-        `forward kinematics did not converge in ${maxIt} iterations (leg residual ${Number.isFinite(worst) ? worst.toPrecision(3) : 'unbounded'} m); the leg lengths may be unreachable or jump too far from the previous sample`,
-      );
     }
-    prev2.set(prev);
+    prev2.set(s === 0 ? q : prev);
     prev.set(q);
+    prevLegs.set(row);
     for (let k = 0; k < 6; k++) (cols[k] as Float64Array)[s] = q[k] as number;
   }
   return out;

@@ -156,6 +156,8 @@ export const DEMO_BUDGET: Budget = {
     angularAccelMax_radps2: 4,
     msdvZMax_mps1_5: 12,
     wrmsMax_mps2: 0.8,
+    // The demo bases read about 2.4 (hexapod) and 1.2 (planar stage) at neutral.
+    conditioningMax: 50,
   },
 };
 

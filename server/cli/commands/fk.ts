@@ -18,8 +18,9 @@ Forward kinematics: reads a motion base (hexapod or planar3) and a leg-length tr
 (time_s, leg1 .. leg6 with unit suffixes; planar3: leg1 .. leg3) and writes the pose offsets
 from neutral at the same times: time_s, x_m, y_m, z_m, roll_rad, pitch_rad, yaw_rad
 (planar3: time_s, x_m, y_m, yaw_rad). The first sample starts from the neutral pose and each
-sample from the one before, so the output follows one assembly mode. A sample with no pose
-stops the command with an error naming its line.
+sample from the one before, so the output follows one assembly mode; when the legs change by more
+than 5 mm between samples (a coarse file) they are followed in sub-steps. A sample that no
+continuous path reaches stops the command with exit 2 and an error naming its line.
 
 Options:
   --base FILE   motion base JSON (motion-spec section 7)

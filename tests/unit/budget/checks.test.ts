@@ -50,6 +50,8 @@ describe('a quiet track', () => {
       'msdv/z',
       'startEnd/start',
       'startEnd/end',
+      // The demo budget sets a conditioning limit.
+      'conditioning/platform',
     ];
     expect([...uses.keys()].sort()).toEqual(expected.sort());
     // 1.874 m at neutral lies below the middle of [1.5 + 0.02, 2.3 - 0.02] m: ratio = lower bound / length.
@@ -211,10 +213,14 @@ describe('comfort limits only', () => {
   });
 
   it('a conditioning limit is checked only when the budget sets one, with subject "platform"', () => {
+    const { conditioningMax: _unset, ...noLimit } = makeBudget({}).comfort;
     expect(
-      processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 }).check.uses.some(
-        (u) => u.check === 'conditioning',
-      ),
+      processTrack({
+        track,
+        base,
+        budget: { ...makeBudget({}), comfort: noLimit },
+        chartBuckets: 0,
+      }).check.uses.some((u) => u.check === 'conditioning'),
     ).toBe(false);
     const r = processTrack({
       track,

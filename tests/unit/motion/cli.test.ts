@@ -148,7 +148,9 @@ describe('legwork command line', () => {
     );
     const r = await run('fk', '--base', fixture('base-hexapod.json'), '--in', p);
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/legs\.csv line 3: sample 1 \(t = 0\.01 s\): forward kinematics did not converge/);
+    expect(r.err).toMatch(
+      /legs\.csv line 3: sample 1 \(t = 0\.01 s\): forward kinematics found no continuous path from the previous sample/,
+    );
   });
 
   it('is an installed command: node_modules/.bin/legwork runs the compiled bundle, npx finds it locally', () => {
