@@ -3,6 +3,34 @@ import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
+import { readdirSync } from 'node:fs';
+
+// A feature does not import another feature: shared data lives in src/lib (e.g. src/lib/queries),
+// shared UI in src/components. One block per folder of src/features forbids the others' paths.
+const FEATURES = readdirSync(new URL('./src/features', import.meta.url), { withFileTypes: true })
+  .filter((entry) => entry.isDirectory())
+  .map((entry) => entry.name);
+const featureIsolation = FEATURES.map((feature) => {
+  const others = FEATURES.filter((other) => other !== feature);
+  return {
+    files: [`src/features/${feature}/**/*.{ts,tsx}`],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: others.length
+            ? [
+                {
+                  regex: `^(\\.\\./)+(features/)?(${others.join('|')})(/|$)`,
+                  message: `src/features/${feature} must not import another feature; move what both need to src/lib or src/components.`,
+                },
+              ]
+            : [],
+        },
+      ],
+    },
+  };
+});
 
 export default tseslint.config(
   {
@@ -29,6 +57,7 @@ export default tseslint.config(
     plugins: { 'react-hooks': reactHooks },
     rules: { ...reactHooks.configs.recommended.rules },
   },
+  ...featureIsolation,
   {
     // shared/ is a leaf: pure code, no I/O, importable by the browser, the server, the worker and the CLI.
     files: ['shared/**/*.ts'],

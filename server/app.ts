@@ -45,8 +45,9 @@ export function createApp(deps: AppDeps): LegworkApp {
   const staticDir = resolve(deps.env.STATIC_DIR);
   if (existsSync(join(staticDir, 'index.html'))) {
     app.use(express.static(staticDir, { index: false, maxAge: '1h' }));
-    // Client-side routes all load the same page.
-    app.get('/*splat', (_req, res) => res.sendFile(join(staticDir, 'index.html')));
+    // Every client-side route loads the same page, '/' included: under Express 5 (path-to-regexp 8)
+    // '/*splat' needs at least one segment, the optional group '{/*splat}' also matches '/'.
+    app.get('{/*splat}', (_req, res) => res.sendFile(join(staticDir, 'index.html')));
   }
   app.use((_req, res) => res.status(404).json({ error: 'Not found.' }));
 

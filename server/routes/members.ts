@@ -1,26 +1,20 @@
-// Members and invitations of a studio (studio admins only).
+// The members of a studio (studio admins only).
 import { Router } from 'express';
-import { and, asc, desc, eq, gt, isNull, ne } from 'drizzle-orm';
+import { asc, eq, ne } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
 import type { Db, Tx } from '../db/client';
-import { invitations, memberships, users, venues } from '../db/schema';
+import { memberships, users, venues } from '../db/schema';
 import { inStudio } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
 import { isUuid, parseBody } from '../lib/validate';
 import { badRequest, notFound } from '../lib/http-error';
-import { inviteBody, memberUpdateBody } from '../../shared/schemas/api';
-import type { Invitation, Member } from '../../shared/schemas/api';
+import { memberUpdateBody } from '../../shared/schemas/api';
+import type { Member } from '../../shared/schemas/api';
 import type { Role } from '../../shared/schemas/roles';
-import { ROLE_LABELS } from '../../shared/schemas/roles';
-import { hashToken, newToken } from '../lib/tokens';
 import { recordAudit } from '../audit';
-import { publicUrl } from '../env';
-import { studios } from '../db/schema';
 
-const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000;
-
-/** Venue ids must name venues of this studio; an operator needs at least one. */
-async function checkVenueScope(
+/** Venue ids must name venues of this studio; an operator needs at least one (members and invitations). */
+export async function checkVenueScope(
   db: Db | Tx,
   studioId: string,
   roles: string[],
@@ -44,18 +38,8 @@ async function checkVenueScope(
   return roles.includes('venue_operator') ? unique : [];
 }
 
-const toInvitation = (i: typeof invitations.$inferSelect): Invitation => ({
-  id: i.id,
-  email: i.email,
-  roles: i.roles as Role[],
-  venueIds: i.venueIds,
-  expiresAt: i.expiresAt.toISOString(),
-  acceptedAt: i.acceptedAt?.toISOString() ?? null,
-});
-
 export function membersRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
-  const now = deps.now ?? (() => new Date());
   const admin = requirePermission('members.manage');
 
   const listMembers = async (studioId: string, userId?: string): Promise<Member[]> => {
@@ -75,11 +59,11 @@ export function membersRouter(deps: AppDeps): Router {
     return rows.map((m) => ({ ...m, roles: m.roles as Role[], joinedAt: m.joinedAt.toISOString() }));
   };
 
-  r.get('/members', admin, async (req, res) => {
+  r.get('/', admin, async (req, res) => {
     res.json(await listMembers(req.member!.studioId));
   });
 
-  r.patch('/members/:userId', admin, async (req, res) => {
+  r.patch('/:userId', admin, async (req, res) => {
     const m = req.member!;
     const body = parseBody(memberUpdateBody, req.body, 'The member form');
     const userId = String(req.params.userId);
@@ -109,7 +93,7 @@ export function membersRouter(deps: AppDeps): Router {
     res.json(after);
   });
 
-  r.delete('/members/:userId', admin, async (req, res) => {
+  r.delete('/:userId', admin, async (req, res) => {
     const m = req.member!;
     const userId = String(req.params.userId);
     const [before] = await listMembers(
@@ -128,91 +112,6 @@ export function membersRouter(deps: AppDeps): Router {
         subjectId: userId,
         detail: { email: before.email, roles: before.roles },
       });
-    });
-    res.status(204).end();
-  });
-
-  r.get('/invitations', admin, async (req, res) => {
-    const rows = await deps.db
-      .select()
-      .from(invitations)
-      .where(
-        inStudio(
-          invitations,
-          req.member!.studioId,
-          isNull(invitations.revokedAt),
-          isNull(invitations.acceptedAt),
-          gt(invitations.expiresAt, now()),
-        ),
-      )
-      .orderBy(desc(invitations.createdAt));
-    res.json(rows.map(toInvitation));
-  });
-
-  r.post('/invitations', admin, async (req, res) => {
-    const m = req.member!;
-    const body = parseBody(inviteBody, req.body, 'The invitation form');
-    const [existing] = await deps.db
-      .select({ userId: users.id })
-      .from(users)
-      .innerJoin(memberships, and(eq(memberships.userId, users.id), eq(memberships.studioId, m.studioId)))
-      .where(eq(users.email, body.email));
-    if (existing)
-      throw badRequest('Already a member.', [
-        { path: 'email', message: 'this person is already a member of the studio' },
-      ]);
-    const venueIds = await checkVenueScope(deps.db, m.studioId, body.roles, body.venueIds);
-    const token = newToken();
-    const [studio] = await deps.db.select().from(studios).where(eq(studios.id, m.studioId));
-    const inv = await deps.db.transaction(async (tx) => {
-      const [row] = await tx
-        .insert(invitations)
-        .values({
-          studioId: m.studioId,
-          email: body.email,
-          roles: body.roles,
-          venueIds,
-          tokenHash: hashToken(token),
-          invitedBy: req.user!.id,
-          expiresAt: new Date(now().getTime() + INVITE_TTL_MS),
-        })
-        .returning();
-      await recordAudit(tx, {
-        studioId: m.studioId,
-        actor: req.user!,
-        action: 'invitation.sent',
-        subjectType: 'invitation',
-        subjectId: row!.id,
-        detail: { email: body.email, roles: body.roles, venueIds },
-      });
-      return row!;
-    });
-    const link = `${publicUrl(deps.env)}/invitations/${encodeURIComponent(token)}`;
-    await deps.mailer.send({
-      to: body.email,
-      subject: `Legwork: ${req.user!.name} invites you to ${studio?.name ?? 'a studio'}`,
-      text: `Hello,\n\n${req.user!.name} invites you to join ${studio?.name ?? 'a studio'} on Legwork as ${body.roles.map((x) => ROLE_LABELS[x]).join(', ')}.\n\nAccept within seven days:\n\n${link}\n`,
-    });
-    res.status(201).json(toInvitation(inv));
-  });
-
-  r.delete('/invitations/:id', admin, async (req, res) => {
-    const m = req.member!;
-    const id = String(req.params.id);
-    if (!isUuid(id)) throw notFound('No such invitation.');
-    const [row] = await deps.db
-      .update(invitations)
-      .set({ revokedAt: now() })
-      .where(inStudio(invitations, m.studioId, eq(invitations.id, id), isNull(invitations.revokedAt)))
-      .returning();
-    if (!row) throw notFound('No such invitation.');
-    await recordAudit(deps.db, {
-      studioId: m.studioId,
-      actor: req.user!,
-      action: 'invitation.revoked',
-      subjectType: 'invitation',
-      subjectId: id,
-      detail: { email: row.email },
     });
     res.status(204).end();
   });

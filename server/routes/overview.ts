@@ -2,9 +2,8 @@ import { Router } from 'express';
 import { count, eq } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
 import { cueRuns, memberships, studios, tracks, venues } from '../db/schema';
-import { inStudio } from '../db/scope';
+import { inStudio, visibleVenues } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
-import { visibleVenueFilter } from './venues';
 
 /** GET /api/studios/:studioId/overview: the counts every home screen starts from. */
 export function overviewRouter(deps: AppDeps): Router {
@@ -18,7 +17,7 @@ export function overviewRouter(deps: AppDeps): Router {
     const [v] = await deps.db
       .select({ n: count() })
       .from(venues)
-      .where(inStudio(venues, m.studioId, visibleVenueFilter(m)));
+      .where(inStudio(venues, m.studioId, visibleVenues(m)));
     const [mem] = await deps.db
       .select({ n: count() })
       .from(memberships)

@@ -8,13 +8,16 @@ import { apiTokens, memberships, studios } from '../db/schema';
 import { HttpError, notFound } from '../lib/http-error';
 import { TOKEN_ROLE } from '../auth/permissions';
 import { hashToken } from '../lib/tokens';
-import { membersRouter } from './members';
-import { venuesRouter } from './venues';
 import { auditRouter } from './audit';
+import { membersRouter } from './members';
 import { overviewRouter } from './overview';
-import { tracksRouter } from './pipeline-tracks';
-import { runsRouter, takeRunsRouter } from './pipeline-runs';
-import { profilesRouter, tokensRouter, venueSettingsRouter } from './pipeline-profiles';
+import { profilesRouter } from './profiles';
+import { runsRouter } from './runs';
+import { studioInvitationsRouter } from './studio-invitations';
+import { takesRouter } from './takes';
+import { tokensRouter } from './tokens';
+import { tracksRouter } from './tracks';
+import { venuesRouter } from './venues';
 
 const uuid = z.string().uuid();
 
@@ -48,15 +51,16 @@ export function studioRouter(deps: AppDeps): Router {
     req.member = { studioId, userId: req.user!.id, tokenId: null, roles: m.roles, venueIds: m.venueIds };
     next();
   });
+  // One router per resource, each mounted once.
   r.use('/overview', overviewRouter(deps));
   r.use('/venues', venuesRouter(deps));
-  r.use('/venues', venueSettingsRouter(deps));
   r.use('/tracks', tracksRouter(deps));
-  r.use('/takes', takeRunsRouter(deps));
+  r.use('/takes', takesRouter(deps));
   r.use('/runs', runsRouter(deps));
   r.use('/profiles', profilesRouter(deps));
   r.use('/tokens', tokensRouter(deps));
-  r.use('/', membersRouter(deps));
+  r.use('/members', membersRouter(deps));
+  r.use('/invitations', studioInvitationsRouter(deps));
   r.use('/audit', auditRouter(deps));
   return r;
 }

@@ -1,21 +1,21 @@
+// The studio's venues: list (scoped for venue operators), create, and each venue's motion base and
+// the cueing and budget profile versions its new runs use.
 import { Router } from 'express';
-import { asc, inArray } from 'drizzle-orm';
-import type { SQL } from 'drizzle-orm';
+import { asc, eq } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
-import { venues } from '../db/schema';
-import { inStudio } from '../db/scope';
+import { profileVersions, profiles, venueSettings, venues } from '../db/schema';
+import { inStudio, visibleVenues } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
+import { allows, canSeeVenue } from '../auth/permissions';
+import { isUuid, parseBody } from '../lib/validate';
+import { badRequest, forbidden, notFound } from '../lib/http-error';
+import { actorOf } from '../lib/actor';
+import { recordAudit } from '../audit';
+import { createVenueBody, venueBaseBody, venueSettingsBody } from '../../shared/schemas/pipeline';
+import type { VenueDetail } from '../../shared/schemas/pipeline';
 import type { Venue } from '../../shared/schemas/api';
-
-/** A member who is only a venue operator sees only the venues in their scope. */
-export function visibleVenueFilter(member: { roles: string[]; venueIds: string[] }): SQL | undefined {
-  const onlyOperator = member.roles.every((r) => r === 'venue_operator');
-  if (!onlyOperator) return undefined;
-  return inArray(
-    venues.id,
-    member.venueIds.length ? member.venueIds : ['00000000-0000-0000-0000-000000000000'],
-  );
-}
+import { MotionBaseError, parseMotionBase } from '../../shared/schemas/motion-base';
+import { versionRef } from '../pipeline/views';
 
 interface BaseSummary {
   kind?: 'hexapod' | 'planar3';
@@ -23,15 +23,34 @@ interface BaseSummary {
   seats_m?: unknown[];
 }
 
-/** GET /api/studios/:studioId/venues. */
+/** The studio's venues: the list, a new venue, one venue's motion base and the profile versions its runs use. */
 export function venuesRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
+  const detail = async (studioId: string, venueId: string): Promise<VenueDetail> => {
+    if (!isUuid(venueId)) throw notFound('No such venue.');
+    const [v] = await deps.db
+      .select({ venue: venues, cueing: venueSettings.cueingVersionId, budget: venueSettings.budgetVersionId })
+      .from(venues)
+      .leftJoin(venueSettings, eq(venueSettings.venueId, venues.id))
+      .where(inStudio(venues, studioId, eq(venues.id, venueId)));
+    if (!v) throw notFound('No such venue.');
+    return {
+      id: v.venue.id,
+      name: v.venue.name,
+      site: v.venue.site,
+      timeZone: v.venue.timeZone,
+      base: v.venue.base,
+      cueingVersion: await versionRef(deps.db, studioId, v.cueing),
+      budgetVersion: await versionRef(deps.db, studioId, v.budget),
+    };
+  };
+
   r.get('/', requirePermission('venues.read'), async (req, res) => {
     const m = req.member!;
     const rows = await deps.db
       .select()
       .from(venues)
-      .where(inStudio(venues, m.studioId, visibleVenueFilter(m)))
+      .where(inStudio(venues, m.studioId, visibleVenues(m)))
       .orderBy(asc(venues.name));
     const out: Venue[] = rows.map((v) => {
       const base = v.base as BaseSummary;
@@ -46,6 +65,125 @@ export function venuesRouter(deps: AppDeps): Router {
       };
     });
     res.json(out);
+  });
+  r.get('/:venueId', requirePermission('venues.read'), async (req, res) => {
+    const m = req.member!;
+    if (!canSeeVenue(m, String(req.params.venueId))) throw notFound('No such venue.');
+    res.json(await detail(m.studioId, String(req.params.venueId)));
+  });
+
+  /** The motion base from a form: every geometry problem comes back with its JSON path. */
+  const validBase = (input: unknown) => {
+    try {
+      return parseMotionBase(input);
+    } catch (e) {
+      if (e instanceof MotionBaseError) {
+        throw badRequest(
+          `The motion base has ${e.issues.length} problem(s): ${e.issues.map((i) => `${i.path}: ${i.message}`).join('; ')}`,
+          e.issues.map((i) => ({ path: i.path, message: i.message })),
+        );
+      }
+      throw e;
+    }
+  };
+
+  r.post('/', requirePermission('venues.create'), async (req, res) => {
+    const m = req.member!;
+    const body = parseBody(createVenueBody, req.body, 'The venue form');
+    const base = validBase(body.base);
+    const id = await deps.db.transaction(async (tx) => {
+      const [v] = await tx
+        .insert(venues)
+        .values({ studioId: m.studioId, name: body.name, site: body.site, timeZone: body.timeZone, base })
+        .returning();
+      await recordAudit(tx, {
+        studioId: m.studioId,
+        actor: actorOf(req),
+        action: 'venue.created',
+        subjectType: 'venue',
+        subjectId: v!.id,
+        detail: { name: body.name, kind: base.kind },
+      });
+      return v!.id;
+    });
+    res.status(201).json(await detail(m.studioId, id));
+  });
+
+  // Finished runs keep the base they used in their manifest; queued runs use the base as it is when they start.
+  r.put('/:venueId/base', requirePermission('venues.configure'), async (req, res) => {
+    const m = req.member!;
+    const before = await detail(m.studioId, String(req.params.venueId));
+    const body = parseBody(venueBaseBody, req.body, 'The motion base form');
+    const base = validBase(body.base);
+    await deps.db.transaction(async (tx) => {
+      await tx
+        .update(venues)
+        .set({ base })
+        .where(inStudio(venues, m.studioId, eq(venues.id, before.id)));
+      await recordAudit(tx, {
+        studioId: m.studioId,
+        actor: actorOf(req),
+        action: 'venue.base_changed',
+        subjectType: 'venue',
+        subjectId: before.id,
+        detail: { kind: base.kind, from: before.base, to: base },
+      });
+    });
+    res.json(await detail(m.studioId, before.id));
+  });
+
+  r.put('/:venueId/settings', async (req, res) => {
+    const m = req.member!;
+    if (!allows(m.roles, 'profiles.cueing.write') && !allows(m.roles, 'profiles.budget.write'))
+      throw forbidden();
+    const body = parseBody(venueSettingsBody, req.body, 'The venue settings');
+    const before = await detail(m.studioId, String(req.params.venueId));
+    // The motion engineer chooses the cueing profile; the safety reviewer owns the budget.
+    if (body.cueingVersionId !== undefined && !allows(m.roles, 'profiles.cueing.write'))
+      throw forbidden('Only a motion engineer chooses the cueing profile.');
+    if (body.budgetVersionId !== undefined && !allows(m.roles, 'profiles.budget.write'))
+      throw forbidden('Only a safety reviewer chooses the budget profile.');
+    for (const [field, id, kind] of [
+      ['cueingVersionId', body.cueingVersionId, 'cueing'],
+      ['budgetVersionId', body.budgetVersionId, 'budget'],
+    ] as const) {
+      if (!id) continue;
+      const [v] = await deps.db
+        .select({ kind: profiles.kind })
+        .from(profileVersions)
+        .innerJoin(profiles, eq(profiles.id, profileVersions.profileId))
+        .where(inStudio(profileVersions, m.studioId, eq(profileVersions.id, id)));
+      if (!v || v.kind !== kind)
+        throw badRequest('Unknown profile version.', [
+          { path: field, message: `not a ${kind} profile version of this studio` },
+        ]);
+    }
+    await deps.db.transaction(async (tx) => {
+      await tx
+        .insert(venueSettings)
+        .values({
+          venueId: before.id,
+          studioId: m.studioId,
+          cueingVersionId: body.cueingVersionId ?? null,
+          budgetVersionId: body.budgetVersionId ?? null,
+        })
+        .onConflictDoUpdate({
+          target: venueSettings.venueId,
+          set: {
+            ...(body.cueingVersionId !== undefined ? { cueingVersionId: body.cueingVersionId } : {}),
+            ...(body.budgetVersionId !== undefined ? { budgetVersionId: body.budgetVersionId } : {}),
+          },
+        });
+      await recordAudit(tx, {
+        studioId: m.studioId,
+        actor: actorOf(req),
+        action: 'venue.profiles_changed',
+        subjectType: 'venue',
+        subjectId: before.id,
+        detail: body,
+      });
+    });
+    res.json(await detail(m.studioId, before.id));
   });
   return r;
 }

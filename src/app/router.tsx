@@ -3,10 +3,12 @@ import { createBrowserRouter } from 'react-router-dom';
 import type { LoaderFunctionArgs } from 'react-router-dom';
 import { getMeQueryOptions } from '../features/auth/api/get-me';
 import { getStudioOverviewQueryOptions } from '../features/studios/api/get-studio-overview';
-import { getVenuesQueryOptions } from '../features/venues/api/get-venues';
+import { getVenuesQueryOptions } from '../lib/queries/venues';
 import { getRunQueryOptions } from '../features/runs/api/get-run';
 import { getTrackQueryOptions } from '../features/tracks/api/get-track';
 import { Loading } from '../components/ui/status';
+import { allows } from '../../shared/permissions';
+import type { Permission } from '../../shared/permissions';
 import { MailboxRoute } from './routes/mailbox';
 import {
   AcceptInvitationRoute,
@@ -31,28 +33,34 @@ export function createAppRouter(queryClient: QueryClient) {
   // Waits for the session (so a signed-out visit makes one request, not one per list), then starts
   // the page's own fetch for a studio the user belongs to; failures are left to the page, which
   // shows them with a retry.
+  // A page the member's roles do not cover fetches nothing (the page says whose work it is).
   const prefetchInStudio =
-    (prefetch: (studioId: string) => Promise<void>) =>
+    (permission: Permission, prefetch: (studioId: string) => Promise<void>) =>
     async ({ params }: LoaderFunctionArgs) => {
       const me = await queryClient.ensureQueryData(getMeQueryOptions()).catch(() => null);
       const studioId = params.studioId;
-      if (studioId && me?.memberships.some((m) => m.studioId === studioId)) void prefetch(studioId);
+      const membership = me?.memberships.find((m) => m.studioId === studioId);
+      if (studioId && membership && allows(membership.roles, permission)) void prefetch(studioId);
       return null;
     };
-  const studioLoader = prefetchInStudio((id) => queryClient.prefetchQuery(getStudioOverviewQueryOptions(id)));
-  const venuesLoader = prefetchInStudio((id) => queryClient.prefetchQuery(getVenuesQueryOptions(id)));
+  const studioLoader = prefetchInStudio('studio.read', (id) =>
+    queryClient.prefetchQuery(getStudioOverviewQueryOptions(id)),
+  );
+  const venuesLoader = prefetchInStudio('venues.read', (id) =>
+    queryClient.prefetchQuery(getVenuesQueryOptions(id)),
+  );
   // The track page also offers the venues to cue for, so both are asked for at once.
   const trackLoader = (args: LoaderFunctionArgs) =>
-    prefetchInStudio((id) =>
+    prefetchInStudio('tracks.read', (id) =>
       Promise.all([
         queryClient.prefetchQuery(getTrackQueryOptions(id, args.params.trackId ?? '')),
         queryClient.prefetchQuery(getVenuesQueryOptions(id)),
       ]).then(() => undefined),
     )(args);
   const runLoader = (args: LoaderFunctionArgs) =>
-    prefetchInStudio((id) => queryClient.prefetchQuery(getRunQueryOptions(id, args.params.runId ?? '')))(
-      args,
-    );
+    prefetchInStudio('runs.read', (id) =>
+      queryClient.prefetchQuery(getRunQueryOptions(id, args.params.runId ?? '')),
+    )(args);
 
   return createBrowserRouter([
     {

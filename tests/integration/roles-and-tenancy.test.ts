@@ -1,6 +1,6 @@
 // Every role against every studio route, from the outside: allowed, refused (403), and another
-// studio's things answering 404. The expected table is written out here by hand from the product's
-// role descriptions (shared/../product.md), not read from server/auth/permissions.ts.
+// studio's things answering 404. The expected table is written out here by hand from each role's
+// work (README.md, "Roles"), not read from shared/permissions.ts.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
@@ -36,7 +36,7 @@ interface RouteCase {
 const ALL: Role[] = ['producer', 'motion_engineer', 'safety_reviewer', 'venue_operator', 'studio_admin'];
 /** Everyone who works on tracks at the studio; a venue operator sees releases for their venues only. */
 const DESK: Role[] = ['producer', 'motion_engineer', 'safety_reviewer', 'studio_admin'];
-// A valid budget (the spec's example, section 7), for the create-profile route.
+// A valid budget (the example budget of the test factories), for the create-profile route.
 const MATRIX_BUDGET = SPEC_EXAMPLE_BUDGET;
 const ROUTES: RouteCase[] = [
   {

@@ -56,9 +56,26 @@ describe('npm start', () => {
     await waitFor(async () => output.includes('Demo sign-ins'), 'the welcome text', 10_000);
     expect(output).toContain(`Legwork is running at ${url}`);
 
-    const page = await fetch(`${url}/sign-in`);
-    expect(page.status).toBe(200);
-    expect(await page.text()).toMatch(/<div id="root">/);
+    // The address a new user is told to open, read from the output itself, then a reload of it, a
+    // deep link into a studio and the sign-in page: each answers the app's HTML.
+    const printed = /Legwork is running at (\S+)/.exec(output)?.[1];
+    expect(printed, output).toBeDefined();
+    const studioId = '00000000-0000-4000-8000-000000000000';
+    for (const address of [
+      printed!,
+      printed!,
+      `${url}/s/${studioId}/tracks?state=failed`,
+      `${url}/sign-in`,
+    ]) {
+      const page = await fetch(address);
+      expect(page.status, address).toBe(200);
+      expect(page.headers.get('content-type'), address).toMatch(/^text\/html/);
+      expect(await page.text(), address).toMatch(/<div id="root">/);
+    }
+    // An unknown API path is still a JSON 404, not the app's page.
+    const missing = await fetch(`${url}/api/no-such-route`);
+    expect(missing.status).toBe(404);
+    expect(((await missing.json()) as { error: string }).error).toMatch(/No API route/);
 
     const csrf = await fetch(`${url}/api/auth/csrf`);
     const cookie = csrf.headers.get('set-cookie')!.split(';')[0]!;

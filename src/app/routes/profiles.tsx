@@ -1,12 +1,14 @@
 // `/s/:studioId/profiles`: cueing profiles (motion engineers) and budget profiles (safety reviewers), versioned.
 import { Link } from 'react-router-dom';
+import { RoleGate } from '../../components/ui/role-gate';
 import { PageHeading, Section } from '../../components/ui/section';
 import { ProfilesList } from '../../features/profiles/components/profiles-list';
-import { useVenueChoices } from '../../features/tracks/api/get-venue-choices';
+import { useVenues } from '../../lib/queries/venues';
+import { useCan } from '../../lib/membership';
 import { useStudioContext } from './studio-layout';
 
 function VenueLinks({ studioId }: { studioId: string }) {
-  const venues = useVenueChoices(studioId);
+  const venues = useVenues(studioId);
   if (!venues.data || venues.data.length === 0) return null;
   return (
     <p className="flex flex-wrap gap-x-4 gap-y-1 text-sm">
@@ -22,8 +24,18 @@ function VenueLinks({ studioId }: { studioId: string }) {
 
 /** The profiles page: cueing and budget profiles with their versions, editable by the role that owns each kind. */
 export function ProfilesRoute() {
+  return (
+    <RoleGate permission="profiles.read" what="Profiles">
+      <ProfilesPage />
+    </RoleGate>
+  );
+}
+
+function ProfilesPage() {
   const { membership } = useStudioContext();
   const studioId = membership.studioId;
+  const canWriteCueing = useCan('profiles.cueing.write');
+  const canWriteBudget = useCan('profiles.budget.write');
   return (
     <>
       <PageHeading
@@ -32,18 +44,10 @@ export function ProfilesRoute() {
       />
       <VenueLinks studioId={studioId} />
       <Section title="Cueing profiles (classical washout)">
-        <ProfilesList
-          studioId={studioId}
-          kind="cueing"
-          canWrite={membership.roles.includes('motion_engineer')}
-        />
+        <ProfilesList studioId={studioId} kind="cueing" canWrite={canWriteCueing} />
       </Section>
       <Section title="Budget profiles (motion-safety budget)">
-        <ProfilesList
-          studioId={studioId}
-          kind="budget"
-          canWrite={membership.roles.includes('safety_reviewer')}
-        />
+        <ProfilesList studioId={studioId} kind="budget" canWrite={canWriteBudget} />
       </Section>
     </>
   );

@@ -9,6 +9,8 @@ import { useMe } from '../../features/auth/api/get-me';
 import { useLogout } from '../../features/auth/api/logout';
 import { StudioSwitcher } from '../../features/studios/components/studio-switcher';
 import { firstStudio } from '../../lib/landing';
+import { MembershipProvider } from '../../lib/membership';
+import { allows } from '../../../shared/permissions';
 
 export interface StudioContext {
   me: Me;
@@ -20,24 +22,28 @@ export function useStudioContext(): StudioContext {
   return useOutletContext<StudioContext>();
 }
 
+/** Renders a studio's page with its context: the outlet context and the membership behind `useCan`. */
+export function StudioOutlet({ context }: { context: StudioContext }) {
+  return (
+    <MembershipProvider membership={context.membership}>
+      <Outlet context={context} />
+    </MembershipProvider>
+  );
+}
+
 function navFor(membership: Membership): NavItem[] {
   const base = `/s/${membership.studioId}`;
   const items: NavItem[] = [
     { to: base, label: 'Home', end: true },
     { to: `${base}/venues`, label: 'Venues' },
   ];
-  const has = (...roles: Membership['roles']) => roles.some((role) => membership.roles.includes(role));
-  if (has('producer', 'motion_engineer', 'safety_reviewer', 'studio_admin')) {
-    items.push({ to: `${base}/tracks`, label: 'Tracks' });
-  }
-  if (has('motion_engineer', 'safety_reviewer')) items.push({ to: `${base}/profiles`, label: 'Profiles' });
-  if (membership.roles.includes('studio_admin')) {
-    items.push(
-      { to: `${base}/members`, label: 'Members' },
-      { to: `${base}/audit`, label: 'Audit log' },
-      { to: `${base}/tokens`, label: 'API tokens' },
-    );
-  }
+  // Each page is listed for the members whose roles may read it (the shared permission table).
+  const can = (permission: Parameters<typeof allows>[1]) => allows(membership.roles, permission);
+  if (can('tracks.read')) items.push({ to: `${base}/tracks`, label: 'Tracks' });
+  if (can('profiles.read')) items.push({ to: `${base}/profiles`, label: 'Profiles' });
+  if (can('members.manage')) items.push({ to: `${base}/members`, label: 'Members' });
+  if (can('audit.read')) items.push({ to: `${base}/audit`, label: 'Audit log' });
+  if (can('tokens.manage')) items.push({ to: `${base}/tokens`, label: 'API tokens' });
   return items;
 }
 
@@ -108,7 +114,7 @@ export function StudioLayout() {
   const context: StudioContext = { me: me.data, membership };
   return (
     <AppShell switcher={switcher} account={<Account me={me.data} />} nav={navFor(membership)}>
-      <Outlet context={context} />
+      <StudioOutlet context={context} />
     </AppShell>
   );
 }

@@ -1,10 +1,12 @@
 // `/s/:studioId/tracks`: the tracks table; its sort, filters and page live in the address so a view can be shared.
 import { useNavigate, useSearchParams } from 'react-router-dom';
 import { runStateSchema } from '../../../shared/schemas/pipeline';
+import { RoleGate } from '../../components/ui/role-gate';
 import { PageHeading, Section } from '../../components/ui/section';
 import type { TrackSort, TracksParams } from '../../features/tracks/api/get-tracks';
 import { NewTrackForm } from '../../features/tracks/components/new-track-form';
 import { TracksTable } from '../../features/tracks/components/tracks-table';
+import { useCan } from '../../lib/membership';
 import { useStudioContext } from './studio-layout';
 
 export const TRACKS_PAGE_SIZE = 20;
@@ -39,7 +41,16 @@ function toSearch(params: TracksParams): URLSearchParams {
 
 /** The tracks page: the "New track" form for producers above the table. */
 export function TracksRoute() {
+  return (
+    <RoleGate permission="tracks.read" what="Tracks">
+      <TracksPage />
+    </RoleGate>
+  );
+}
+
+function TracksPage() {
   const { membership } = useStudioContext();
+  const canCreate = useCan('tracks.write');
   const [search, setSearch] = useSearchParams();
   const navigate = useNavigate();
   const studioId = membership.studioId;
@@ -50,7 +61,7 @@ export function TracksRoute() {
         title="Tracks"
         subtitle="Ride-film motion, its takes and the latest cue run at each venue."
       />
-      {membership.roles.includes('producer') ? (
+      {canCreate ? (
         <Section title="New track">
           <NewTrackForm
             studioId={studioId}

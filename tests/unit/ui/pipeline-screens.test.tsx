@@ -5,14 +5,13 @@
 // and the navigation follows the product's roles table.
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
-import { Outlet } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { Me } from '../../../shared/schemas/api';
 import { DEFAULT_CUEING_PROFILE } from '../../../shared/schemas/cueing-profile';
 import { demoHexapodInput } from '../../../shared/schemas/motion-base';
 import type { ApiToken, Profile, VenueDetail } from '../../../shared/schemas/pipeline';
 import type { Role } from '../../../shared/schemas/roles';
-import { StudioLayout } from '../../../src/app/routes/studio-layout';
+import { StudioLayout, StudioOutlet } from '../../../src/app/routes/studio-layout';
 import type { StudioContext } from '../../../src/app/routes/studio-layout';
 import { VenueSettingsRoute } from '../../../src/app/routes/venue-settings';
 import { UseRatioBar } from '../../../src/components/charts/run-badges';
@@ -205,7 +204,7 @@ describe('venue settings page', () => {
       [
         {
           path: '/s/:studioId',
-          element: <Outlet context={context} />,
+          element: <StudioOutlet context={context} />,
           children: [{ path: 'venues/:venueId', element: <VenueSettingsRoute /> }],
         },
       ],
@@ -280,14 +279,15 @@ describe('pipeline navigation', () => {
       ],
     };
   }
-  // Product roles table: producers, engineers, reviewers and admins work with tracks; engineers own
-  // cueing profiles and reviewers budget profiles; admins manage tokens; operators see venues only.
+  // The roles as the product describes them: producers, engineers, reviewers and admins work with
+  // tracks and may read the profiles (engineers own cueing, reviewers budget profiles); admins manage
+  // members, the audit log and tokens; operators see venues only.
   const expected: [Role, string[]][] = [
-    ['producer', ['Home', 'Venues', 'Tracks']],
+    ['producer', ['Home', 'Venues', 'Tracks', 'Profiles']],
     ['motion_engineer', ['Home', 'Venues', 'Tracks', 'Profiles']],
     ['safety_reviewer', ['Home', 'Venues', 'Tracks', 'Profiles']],
     ['venue_operator', ['Home', 'Venues']],
-    ['studio_admin', ['Home', 'Venues', 'Tracks', 'Members', 'Audit log', 'API tokens']],
+    ['studio_admin', ['Home', 'Venues', 'Tracks', 'Profiles', 'Members', 'Audit log', 'API tokens']],
   ];
   for (const [role, links] of expected) {
     it(`shows ${role} the pipeline pages of that role`, async () => {

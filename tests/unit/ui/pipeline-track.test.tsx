@@ -4,12 +4,12 @@
 // 400 with the reason when a venue cannot run the take.
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
-import { Outlet } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { Me } from '../../../shared/schemas/api';
 import type { RunSummary, TrackDetail } from '../../../shared/schemas/pipeline';
 import type { Role } from '../../../shared/schemas/roles';
 import { TrackRoute } from '../../../src/app/routes/track';
+import { StudioOutlet } from '../../../src/app/routes/studio-layout';
 import type { StudioContext } from '../../../src/app/routes/studio-layout';
 import { fakeApi, json, renderRoutes, FAKE_IDS, FAKE_VENUES } from './harness';
 
@@ -90,7 +90,7 @@ function renderTrackPage(roles: Role[]) {
     [
       {
         path: '/s/:studioId',
-        element: <Outlet context={context} />,
+        element: <StudioOutlet context={context} />,
         children: [{ path: 'tracks/:trackId', element: <TrackRoute /> }],
       },
     ],

@@ -5,7 +5,6 @@
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import type { ReactElement } from 'react';
-import { Outlet } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { Venue } from '../../../shared/schemas/api';
 import {
@@ -16,9 +15,11 @@ import {
 } from '../../../shared/schemas/motion-base';
 import type { VenueDetail } from '../../../shared/schemas/pipeline';
 import type { Role } from '../../../shared/schemas/roles';
+import { StudioOutlet } from '../../../src/app/routes/studio-layout';
 import type { StudioContext } from '../../../src/app/routes/studio-layout';
 import { VenuesRoute } from '../../../src/app/routes/studio-pages';
 import { VenueSettingsRoute } from '../../../src/app/routes/venue-settings';
+import { TracksRoute } from '../../../src/app/routes/tracks';
 import { fakeApi, json, renderRoutes } from './harness';
 import type { RecordedCall } from './harness';
 
@@ -53,7 +54,7 @@ function context(roles: Role[]): StudioContext {
 
 function renderInStudio(roles: Role[], path: string, child: { path: string; element: ReactElement }) {
   return renderRoutes(
-    [{ path: '/s/:studioId', element: <Outlet context={context(roles)} />, children: [child] }],
+    [{ path: '/s/:studioId', element: <StudioOutlet context={context(roles)} />, children: [child] }],
     path,
   );
 }
@@ -149,7 +150,7 @@ describe('motion base form', () => {
       path: 'venues/:venueId',
       element: <VenueSettingsRoute />,
     });
-    // Roles table (motion-spec): only motion engineers and studio admins configure a venue.
+    // Roles: only motion engineers and studio admins configure a venue (shared/permissions.ts).
     expect(await screen.findByRole('table', { name: /^Joints/ })).toBeInTheDocument();
     expect(screen.queryByRole('textbox', { name: 'Motion base (JSON)' })).not.toBeInTheDocument();
   });
@@ -251,5 +252,35 @@ describe('new venue form', () => {
     await screen.findByRole('link', { name: 'Harbour Lights Dome' });
     // Roles table: creating a venue is a studio admin's job.
     expect(screen.queryByRole('form', { name: 'New venue' })).not.toBeInTheDocument();
+  });
+});
+
+describe('what a venue operator sees', () => {
+  it('shows the venue and its versions without asking for what the role may not read', async () => {
+    const { calls } = fakeApi({
+      [`GET /api/studios/${STUDIO}/venues/${VENUE}`]: () =>
+        json({ ...venueDetail, budgetVersion: { id: NEW_VENUE, name: 'Dome budget', version: 3 } }),
+    });
+    renderInStudio(['venue_operator'], `/s/${STUDIO}/venues/${VENUE}`, {
+      path: 'venues/:venueId',
+      element: <VenueSettingsRoute />,
+    });
+    expect(await screen.findByRole('table', { name: /^Joints/ })).toBeInTheDocument();
+    expect(screen.getByText('Dome budget v3')).toBeInTheDocument();
+    // No red box and no "Try again": the profiles list (not an operator's to read) is never asked for.
+    expect(screen.queryByRole('alert')).not.toBeInTheDocument();
+    expect(screen.queryByRole('button', { name: 'Try again' })).not.toBeInTheDocument();
+    expect(screen.queryByRole('button', { name: 'Save' })).not.toBeInTheDocument();
+    expect(calls.some((c) => c.path.endsWith('/profiles'))).toBe(false);
+  });
+
+  it('answers a deep link to the tracks with a quiet note instead of an error', async () => {
+    const { calls } = fakeApi({});
+    renderInStudio(['venue_operator'], `/s/${STUDIO}/tracks`, { path: 'tracks', element: <TracksRoute /> });
+    expect(await screen.findByRole('note')).toHaveTextContent(
+      'Tracks belong to the work of: Producer, Motion engineer, Safety reviewer or Studio admin.',
+    );
+    expect(screen.queryByRole('alert')).not.toBeInTheDocument();
+    expect(calls.filter((c) => c.path.includes('/tracks'))).toEqual([]);
   });
 });

@@ -2,7 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { profileSchema } from '../../../../shared/schemas/pipeline';
 import type { Profile } from '../../../../shared/schemas/pipeline';
 import { api } from '../../../lib/api-client';
-import { profilesQueryKey } from './get-profiles';
+import { profileKeys } from '../../../lib/queries/profiles';
 
 export interface CreateProfileInput {
   studioId: string;
@@ -21,6 +21,6 @@ export function useCreateProfile(studioId: string, kind: Profile['kind']) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: createProfile,
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: profilesQueryKey(studioId, kind) }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: profileKeys.list(studioId, kind) }),
   });
 }

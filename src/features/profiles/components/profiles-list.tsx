@@ -6,7 +6,7 @@ import { Button } from '../../../components/ui/button';
 import { Empty, ErrorNotice, Loading } from '../../../components/ui/status';
 import { Table, Td, Th } from '../../../components/ui/table';
 import { formatDateTime } from '../../../lib/format';
-import { useProfiles } from '../api/get-profiles';
+import { useProfiles } from '../../../lib/queries/profiles';
 import { ProfileEditor } from './profile-editor';
 
 const KIND_TEXT = {

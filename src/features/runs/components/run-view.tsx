@@ -7,7 +7,7 @@ import { ErrorNotice, Loading } from '../../../components/ui/status';
 import { isUnauthorized } from '../../../lib/api-client';
 import { isRunActive, useRun } from '../api/get-run';
 import { useRunSeries } from '../api/get-run-series';
-import { useRunVenue } from '../api/get-run-venue';
+import { useVenue } from '../../../lib/queries/venues';
 import { BudgetTable } from './budget-table';
 import { ComfortSummary } from './comfort-summary';
 import { FindingsTable } from './findings-table';
@@ -37,7 +37,7 @@ function Charts({
   findings: Parameters<typeof RunCharts>[0]['findings'];
 }) {
   const series = useRunSeries(studioId, runId, true);
-  const venue = useRunVenue(studioId, venueId);
+  const venue = useVenue(studioId, venueId);
   const base = useMemo(() => (venue.data ? readBase(venue.data.base) : null), [venue.data]);
   if (series.isPending) return <Loading what="Loading the chart series" />;
   if (series.isError) return <ErrorNotice error={series.error} retry={() => void series.refetch()} />;

@@ -5,7 +5,7 @@ import { Button } from '../../../components/ui/button';
 import { CheckboxGroup } from '../../../components/ui/form';
 import { ErrorNotice, Loading, Notice } from '../../../components/ui/status';
 import { useRequestRuns } from '../api/request-runs';
-import { useVenueChoices } from '../api/get-venue-choices';
+import { useVenues } from '../../../lib/queries/venues';
 
 /** Queues cue runs of one take for the venues ticked; the server refuses venues without profiles or of the wrong kind. */
 export function CueVenuesForm({
@@ -17,7 +17,7 @@ export function CueVenuesForm({
   take: Take;
   onDone?: () => void;
 }) {
-  const venues = useVenueChoices(studioId);
+  const venues = useVenues(studioId);
   const [venueIds, setVenueIds] = useState<string[]>([]);
   const [error, setError] = useState<string | undefined>();
   const [queued, setQueued] = useState<string | null>(null);

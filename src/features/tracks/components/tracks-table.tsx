@@ -10,7 +10,7 @@ import { Table, Td, Th } from '../../../components/ui/table';
 import { formatDateTime } from '../../../lib/format';
 import { useTracks } from '../api/get-tracks';
 import type { TrackSort, TracksParams } from '../api/get-tracks';
-import { useVenueChoices } from '../api/get-venue-choices';
+import { useVenues } from '../../../lib/queries/venues';
 
 const STATE_NAMES = Object.keys(RUN_STATE_LABELS) as RunStateName[];
 
@@ -81,7 +81,7 @@ function Filters({
   params: TracksParams;
   onChange: (next: TracksParams) => void;
 }) {
-  const venues = useVenueChoices(studioId);
+  const venues = useVenues(studioId);
   const [text, setText] = useState(params.q ?? '');
   const search = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();

@@ -2,6 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { venueDetailSchema } from '../../../../shared/schemas/pipeline';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
 import { api } from '../../../lib/api-client';
+import { venueKeys } from '../../../lib/queries/venues';
 
 export interface CreateVenueInput {
   studioId: string;
@@ -23,7 +24,6 @@ export function useCreateVenue(studioId: string) {
   return useMutation({
     mutationFn: createVenue,
     // Same key as the venues list (features do not import each other), so the table refetches.
-    onSuccess: () =>
-      queryClient.invalidateQueries({ queryKey: ['studios', studioId, 'venues'], exact: true }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: venueKeys.list(studioId), exact: true }),
   });
 }

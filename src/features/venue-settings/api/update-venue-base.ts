@@ -2,7 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { venueDetailSchema } from '../../../../shared/schemas/pipeline';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
 import { api } from '../../../lib/api-client';
-import { venueDetailQueryKey } from './get-venue-detail';
+import { venueKeys } from '../../../lib/queries/venues';
 
 export interface UpdateVenueBaseInput {
   studioId: string;
@@ -26,9 +26,9 @@ export function useUpdateVenueBase(studioId: string, venueId: string) {
   return useMutation({
     mutationFn: updateVenueBase,
     onSuccess: (venue) => {
-      queryClient.setQueryData(venueDetailQueryKey(studioId, venueId), venue);
+      queryClient.setQueryData(venueKeys.detail(studioId, venueId), venue);
       // The venues table shows the base kind, rate and seats, so it is stale too.
-      void queryClient.invalidateQueries({ queryKey: ['studios', studioId, 'venues'], exact: true });
+      void queryClient.invalidateQueries({ queryKey: venueKeys.list(studioId), exact: true });
     },
   });
 }

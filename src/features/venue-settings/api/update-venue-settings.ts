@@ -2,7 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { venueDetailSchema } from '../../../../shared/schemas/pipeline';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
 import { api } from '../../../lib/api-client';
-import { venueDetailQueryKey } from './get-venue-detail';
+import { venueKeys } from '../../../lib/queries/venues';
 
 export interface UpdateVenueSettingsInput {
   studioId: string;
@@ -25,6 +25,6 @@ export function useUpdateVenueSettings(studioId: string, venueId: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: updateVenueSettings,
-    onSuccess: (venue) => queryClient.setQueryData(venueDetailQueryKey(studioId, venueId), venue),
+    onSuccess: (venue) => queryClient.setQueryData(venueKeys.detail(studioId, venueId), venue),
   });
 }

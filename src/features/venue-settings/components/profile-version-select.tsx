@@ -3,7 +3,7 @@ import type { FormEvent } from 'react';
 import type { Profile, VenueDetail } from '../../../../shared/schemas/pipeline';
 import { Button } from '../../../components/ui/button';
 import { ErrorNotice, Loading, Notice } from '../../../components/ui/status';
-import { useProfileChoices } from '../api/get-profile-choices';
+import { useProfiles } from '../../../lib/queries/profiles';
 import { useUpdateVenueSettings } from '../api/update-venue-settings';
 
 const KIND_TEXT = {
@@ -25,7 +25,7 @@ export function ProfileVersionSelect({
   const current = kind === 'cueing' ? venue.cueingVersion : venue.budgetVersion;
   const [chosen, setChosen] = useState(current?.id ?? '');
   const [saved, setSaved] = useState(false);
-  const profiles = useProfileChoices(studioId, kind);
+  const profiles = useProfiles(studioId, kind);
   const update = useUpdateVenueSettings(studioId, venue.id);
 
   const submit = (event: FormEvent<HTMLFormElement>) => {

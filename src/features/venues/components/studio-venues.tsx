@@ -1,5 +1,5 @@
 import { Empty, ErrorNotice, Loading } from '../../../components/ui/status';
-import { useVenues } from '../api/get-venues';
+import { useVenues } from '../../../lib/queries/venues';
 import { VenuesTable } from './venues-table';
 
 /** The studio's venues as the caller may see them; `onlyIds` narrows to a venue operator's scope. */

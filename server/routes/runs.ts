@@ -1,4 +1,4 @@
-// Cue runs: queue them for venues, read them, their chart series and their artifacts.
+// Cue runs: read one, its chart series and its artifacts (runs are asked for on a take, takes.ts).
 import { Router } from 'express';
 import type { Response } from 'express';
 import type { Readable } from 'node:stream';
@@ -8,12 +8,9 @@ import type { AppDeps } from '../deps';
 import { cueRuns, takes, tracks, venues } from '../db/schema';
 import { inStudio } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
-import { isUuid, parseBody } from '../lib/validate';
-import { HttpError, notFound } from '../lib/http-error';
-import { actorOf } from '../lib/actor';
-import { requestRunsBody } from '../../shared/schemas/pipeline';
+import { isUuid } from '../lib/validate';
+import { notFound } from '../lib/http-error';
 import type { RunDetail } from '../../shared/schemas/pipeline';
-import { queueRuns } from '../pipeline/queue-runs';
 import { toRunSummary, toTake, versionRef } from '../pipeline/views';
 
 const ARTIFACTS = new Set([
@@ -25,42 +22,6 @@ const ARTIFACTS = new Set([
   'manifest.json',
   'series.json',
 ]);
-
-export function takeRunsRouter(deps: AppDeps): Router {
-  const r = Router({ mergeParams: true });
-  r.post('/:takeId/runs', requirePermission('runs.request'), async (req, res) => {
-    const studioId = req.member!.studioId;
-    const takeId = String(req.params.takeId);
-    const body = parseBody(requestRunsBody, req.body, 'The run request');
-    if (!isUuid(takeId)) throw notFound('No such take.');
-    const [take] = await deps.db
-      .select()
-      .from(takes)
-      .where(inStudio(takes, studioId, eq(takes.id, takeId)));
-    if (!take) throw notFound('No such take.');
-    if (!deps.boss) throw new HttpError(503, 'The job queue is not running; try again shortly.');
-    const made = await queueRuns(deps.pool, deps.boss, {
-      studioId,
-      take,
-      venueIds: [...new Set(body.venueIds)],
-      actor: actorOf(req),
-      now: (deps.now ?? (() => new Date()))(),
-      retry: { limit: deps.env.CUE_RUN_RETRY_LIMIT, delay_s: deps.env.CUE_RUN_RETRY_DELAY_S },
-    });
-    const names = await deps.db
-      .select({ id: venues.id, name: venues.name })
-      .from(venues)
-      .where(inStudio(venues, studioId));
-    res
-      .status(201)
-      .json(
-        made.map((m) =>
-          toRunSummary(m.run, take.number, names.find((v) => v.id === m.run.venueId)?.name ?? ''),
-        ),
-      );
-  });
-  return r;
-}
 
 export function runsRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
