@@ -1,0 +1,169 @@
+// What a venue's motion controller loads: actuator positions at the controller rate, measured from the
+// fully retracted length (the base's leg.min_m) in mm, as CSV and as little-endian float32 frames
+// (one frame = one value per actuator, in leg order), and optionally as encoder counts. Also the
+// ramps from neutral at rest into the show's first pose and back out of its last, so the platform
+// never jumps at show start or stop. Pure: bytes are built in Uint8Arrays, no Buffer.
+import type { ControllerOutput, RampProfile } from '../schemas/controller-output';
+import type { PoseColumns } from './hexapod';
+
+/** The binary file's layout, written into the manifest so any reader can decode it. */
+export interface FrameLayout {
+  file: string;
+  format: 'float32';
+  byteOrder: 'little-endian';
+  valuesPerFrame: number;
+  bytesPerFrame: number;
+  frames: number;
+  rate_hz: number;
+  columns: string[];
+  unit: 'mm';
+  zero: string;
+  header: 'none';
+}
+
+/** Positions (mm) of each actuator from its fully retracted length retracted_m, one array per leg. */
+export function actuatorPositions_mm(legs_m: readonly Float64Array[], retracted_m: number): Float64Array[] {
+  return legs_m.map((leg) => {
+    const out = new Float64Array(leg.length);
+    for (let i = 0; i < leg.length; i++) out[i] = ((leg[i] as number) - retracted_m) * 1000;
+    return out;
+  });
+}
+
+/** Encoder counts of each position: round(mm x countsPerMm + zeroOffset_counts). */
+export function encoderCounts(
+  positions_mm: readonly Float64Array[],
+  enc: NonNullable<ControllerOutput['encoder']>,
+): Float64Array[] {
+  return positions_mm.map((p) => {
+    const out = new Float64Array(p.length);
+    for (let i = 0; i < p.length; i++)
+      out[i] = Math.round((p[i] as number) * enc.countsPerMm + enc.zeroOffset_counts);
+    return out;
+  });
+}
+
+/** Little-endian float32 frames: frame k holds value k of every column, in column order. */
+export function float32Frames(columns: readonly Float64Array[]): Uint8Array {
+  const n = columns[0]?.length ?? 0;
+  const c = columns.length;
+  const bytes = new Uint8Array(n * c * 4);
+  const view = new DataView(bytes.buffer);
+  for (let k = 0; k < n; k++) {
+    for (let j = 0; j < c; j++)
+      view.setFloat32((k * c + j) * 4, (columns[j] as Float64Array)[k] as number, true);
+  }
+  return bytes;
+}
+
+/** The manifest's description of a float32 frame file. */
+export function frameLayout(file: string, columns: string[], frames: number, rate_hz: number): FrameLayout {
+  return {
+    file,
+    format: 'float32',
+    byteOrder: 'little-endian',
+    valuesPerFrame: columns.length,
+    bytesPerFrame: columns.length * 4,
+    frames,
+    rate_hz,
+    columns,
+    unit: 'mm',
+    zero: 'fully retracted actuator length (leg.min_m of the motion base)',
+    header: 'none',
+  };
+}
+
+/** CSV of actuator positions (mm, three decimals) and, when given, encoder counts. */
+export function controllerCsv(
+  time_s: Float64Array,
+  positions_mm: readonly Float64Array[],
+  counts?: readonly Float64Array[],
+): string {
+  const legs = positions_mm.map((_, i) => `leg${i + 1}`);
+  const header = ['time_s', ...legs.map((l) => `${l}_mm`), ...(counts ? legs.map((l) => `${l}_counts`) : [])];
+  const lines = new Array<string>(time_s.length + 1);
+  lines[0] = header.join(',');
+  const row = new Array<string>(header.length);
+  for (let i = 0; i < time_s.length; i++) {
+    row[0] = (time_s[i] as number).toFixed(6);
+    for (let j = 0; j < positions_mm.length; j++)
+      row[1 + j] = ((positions_mm[j] as Float64Array)[i] as number).toFixed(3);
+    if (counts) {
+      for (let j = 0; j < counts.length; j++) {
+        row[1 + positions_mm.length + j] = String((counts[j] as Float64Array)[i] as number);
+      }
+    }
+    lines[i + 1] = row.join(',');
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+// Quintic Hermite basis from rest: p(0) = p'(0) = p''(0) = 0, p(1) = P, p'(1) = V, p''(1) = A (in the
+// ramp's unit time). With V = A = 0 it is the minimum-jerk smoothstep 10u^3 - 15u^4 + 6u^5.
+function quinticFromRest(u: number, P: number, V: number, A: number): number {
+  const u3 = u * u * u;
+  const u4 = u3 * u;
+  const u5 = u4 * u;
+  return P * (10 * u3 - 15 * u4 + 6 * u5) + V * (-4 * u3 + 7 * u4 - 3 * u5) + A * (0.5 * u3 - u4 + 0.5 * u5);
+}
+
+/** Raised cosine from 0 to P: zero speed at both ends (the acceleration steps there). */
+const raisedCosine = (u: number, P: number) => P * (0.5 - 0.5 * Math.cos(Math.PI * u));
+
+/** Shape value at u in [0, 1] of a ramp from neutral at rest to (P, V, A), V and A per ramp length. */
+function rampValue(profile: RampProfile, u: number, P: number, V: number, A: number): number {
+  return profile === 'quintic' ? quinticFromRest(u, P, V, A) : raisedCosine(u, P);
+}
+
+/** The show's pose with its ramps; time 0 is the start of the ramp in, the show starts at rampIn_s. */
+export interface RampedPose {
+  time_s: Float64Array;
+  pose: PoseColumns;
+  /** Length of the ramp into the show (s): the show's first sample plays at this time. */
+  rampIn_s: number;
+  rampOut_s: number;
+}
+
+const POSE_KEYS = ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const;
+
+/**
+ * Adds a ramp from neutral at rest (pose offset 0) into the first pose and one from the last pose back
+ * to neutral at rest, at the uniform rate of the show. The quintic ramp meets the show's position,
+ * speed and acceleration at the join, so nothing steps there; the raised cosine meets the position only.
+ */
+export function withNeutralRamps(
+  time_s: Float64Array,
+  pose: PoseColumns,
+  rate_hz: number,
+  ramp: ControllerOutput['ramp'],
+): RampedPose {
+  const n = time_s.length;
+  const r = Math.round(ramp.duration_s * rate_hz);
+  if (r === 0 || n < 3) return { time_s, pose, rampIn_s: 0, rampOut_s: 0 };
+  const dt = 1 / rate_hz;
+  const d = r * dt;
+  const m = n + 2 * r;
+  const out = new Float64Array(m);
+  for (let k = 0; k < m; k++) out[k] = k * dt;
+  const ramped = {} as Record<(typeof POSE_KEYS)[number], Float64Array>;
+  for (const key of POSE_KEYS) {
+    const src = pose[key];
+    const col = new Float64Array(m);
+    col.set(src, r);
+    // One-sided speed and acceleration of the show at its ends, scaled to the ramp's unit time.
+    const v0 = (((src[1] as number) - (src[0] as number)) / dt) * d;
+    const a0 = (((src[2] as number) - 2 * (src[1] as number) + (src[0] as number)) / (dt * dt)) * d * d;
+    const v1 = (((src[n - 1] as number) - (src[n - 2] as number)) / dt) * d;
+    const a1 =
+      (((src[n - 1] as number) - 2 * (src[n - 2] as number) + (src[n - 3] as number)) / (dt * dt)) * d * d;
+    for (let k = 0; k < r; k++) {
+      // Ramp in: u from 0 (neutral, k = 0) towards 1 (the show's first sample at k = r).
+      col[k] = rampValue(ramp.profile, k / r, src[0] as number, v0, a0);
+      // Ramp out, mirrored in time: from the last sample (u = 1) down to neutral (u = 0) at the end.
+      const u = (r - 1 - k) / r;
+      col[n + r + k] = rampValue(ramp.profile, u, src[n - 1] as number, -v1, a1);
+    }
+    ramped[key] = col;
+  }
+  return { time_s: out, pose: ramped, rampIn_s: d, rampOut_s: d };
+}
