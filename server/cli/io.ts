@@ -23,7 +23,7 @@ import {
   scanJson,
 } from '../../shared/schemas/json-input';
 
-/** Exit codes of motion-spec section 7 (1 is left for failures of the program itself). */
+/** Exit codes of docs/motion-conventions.md section 7 (1 is left for failures of the program itself). */
 export const EXIT = { ok: 0, internal: 1, badInput: 2, comfort: 3, hard: 4 } as const;
 
 /** Printed in every help text: the product supports, never replaces, engineering and sign-off. */

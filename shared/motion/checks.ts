@@ -1,9 +1,9 @@
-// The motion-safety budget checks (motion-spec sections 5-6): each check gives a use ratio (worst value
+// The motion-safety budget checks (docs/motion-conventions.md sections 5-6): each check gives a use ratio (worst value
 // over limit) per subject, and a finding with its time span for every stretch at or over the limit.
 //
 // Ratios, per check:
 // - stroke: allowed [min + margin, max - margin]; ratio = length / upper bound above the middle,
-//   lower bound / length below it (the spec's example: 2.312 m against 2.28 m gives 1.014). value and
+//   lower bound / length below it (e.g. 2.312 m against 2.28 m gives 1.014). value and
 //   limit are the length and the bound it approached, in m.
 // - legSpeed, legAccel: |value| / limit per leg.
 // - envelope: see envelope.ts; subject = seat, with the axis and row named on the finding.
@@ -16,7 +16,7 @@
 //   (see start-end.ts).
 //
 // Rider quantities are compared after a 4-pole Butterworth low-pass at 5 Hz (common practice for
-// post-processing ride accelerations, shared/reference-values.md), run forward only and started in
+// post-processing measured ride accelerations), run forward only and started in
 // steady state; its group delay near 0 Hz is about 0.08 s, so spans can trail the pose by that much.
 // The ISO 2631-1 weightings take the unfiltered specific force: they carry their own band limits.
 import type { Budget } from '../schemas/budget';
@@ -70,7 +70,7 @@ export interface CheckInput {
 type Triple = readonly [Float64Array, Float64Array, Float64Array];
 
 /**
- * Specific force on a rigid platform is affine in the seat position r (motion-spec section 5:
+ * Specific force on a rigid platform is affine in the seat position r (docs/motion-conventions.md section 5:
  * f = R^T (a_O - g) + R^T (alpha x R r + w x (w x R r))), so f(r) = origin + sum_j r_j perMetre[j]
  * (m/s^2 and m/s^2 per m, platform frame). The ISO weightings are linear filters, so they then run on
  * these four signals per axis instead of once per seat; seats_m lists each seat's r (m, platform frame).

@@ -1,4 +1,4 @@
-// The rider's acceleration-duration envelope (motion-spec sections 5-7). For each row (duration d,
+// The rider's acceleration-duration envelope (docs/motion-conventions.md sections 5-7). For each row (duration d,
 // lower, upper) the longest continuous time outside [lower, upper] must be shorter than d; d = 0 makes
 // the row an absolute bound. A value exactly on a bound is inside.
 //

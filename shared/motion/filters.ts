@@ -1,5 +1,5 @@
 // Continuous filters discretised by the bilinear (Tustin) transform with pre-warping at each section's
-// corner (motion-spec section 4). A filter is a cascade of biquad sections; first-order sections are
+// corner (docs/motion-conventions.md section 4). A filter is a cascade of biquad sections; first-order sections are
 // biquads with b2 = a2 = 0. Sections run in direct form II transposed over whole Float64Arrays.
 
 /** One analog section (b2 s^2 + b1 s + b0) / (a2 s^2 + a1 s + a0), s in rad/s, pre-warped at warp_hz. */

@@ -1,4 +1,4 @@
-// 6-6 hexapod kinematics on whole tracks (motion-spec section 2). Poses are offsets from neutral:
+// 6-6 hexapod kinematics on whole tracks (docs/motion-conventions.md section 2). Poses are offsets from neutral:
 // platform origin at (x, y, h0 + z) in the base frame, orientation R = Rz(yaw) Ry(pitch) Rx(roll).
 // Leg i: L_i = p + R P_i - B_i, length l_i = |L_i|. All loops run on flat Float64Arrays and allocate
 // nothing per sample.

@@ -29,7 +29,7 @@ export interface WeightingParameters {
   step?: { f5: number; Q5: number; f6: number; Q6: number };
 }
 
-/** Table A.1 of ISO 2631-1:1997 as recalled in shared/reference-values.md (Hz). */
+/** Table A.1 of ISO 2631-1:1997 (Hz), from memory of the standard and as transcribed in public code; checked against the standard's weighting factors in tests/unit/iso. */
 export const WEIGHTING_PARAMETERS: Readonly<Record<Weighting, WeightingParameters>> = {
   Wk: { f1: 0.4, f2: 100, f3: 12.5, f4: 12.5, Q4: 0.63, step: { f5: 2.37, Q5: 0.91, f6: 3.35, Q6: 0.91 } },
   Wd: { f1: 0.4, f2: 100, f3: 2.0, f4: 2.0, Q4: 0.63 },

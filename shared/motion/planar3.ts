@@ -1,4 +1,4 @@
-// Planar three-leg stage (3-RPR, motion-spec section 2): pose (x, y, yaw) in the base plane, leg i
+// Planar three-leg stage (3-RPR, docs/motion-conventions.md section 2): pose (x, y, yaw) in the base plane, leg i
 // joins base joint B_i to platform joint P_i, L_i = p + R(yaw) P_i - B_i. The neutral pose is the
 // platform origin on the base origin with zero yaw, so pose offsets and poses coincide.
 

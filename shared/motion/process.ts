@@ -1,4 +1,4 @@
-// The offline pipeline in one pure function (motion-spec sections 3-7): a parsed track (vehicle, pose or
+// The offline pipeline in one pure function (docs/motion-conventions.md sections 3-7): a parsed track (vehicle, pose or
 // legs) and a motion base, plus an optional cueing profile and budget, become every output of a package
 // in memory: leg lengths and poses at the controller rate, findings, spectra and chart series. No I/O,
 // no clock: the CLI, the worker and the tests call the same function and write the results themselves.
@@ -363,7 +363,7 @@ function ratio4(r: number): number {
 
 const time4 = (t: number) => Math.round(t * 1e4) / 1e4;
 
-/** The findings JSON of motion-spec section 7, rounded for reading, plus the comfort summary and notes. */
+/** The findings JSON of docs/motion-conventions.md section 7, rounded for reading, plus the comfort summary and notes. */
 export function findingsForJson(check: CheckResult, notes: readonly string[] = []): CheckResult {
   const out: CheckResult = {
     within: check.within,
@@ -391,7 +391,7 @@ export function findingsForJson(check: CheckResult, notes: readonly string[] = [
   return out;
 }
 
-/** CSV text of the pose offsets (motion-spec section 3 pose columns, SI units). */
+/** CSV text of the pose offsets (docs/motion-conventions.md section 3 pose columns, SI units). */
 export function poseCsv(r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind'>): string {
   const p = r.pose;
   const cols =
@@ -403,7 +403,7 @@ export function poseCsv(r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind'>):
   return columnsCsv(header, r.time_s, cols);
 }
 
-/** CSV text of the leg lengths (motion-spec section 3 legs columns, m). */
+/** CSV text of the leg lengths (docs/motion-conventions.md section 3 legs columns, m). */
 export function legsCsv(r: Pick<ProcessResult, 'time_s' | 'legs'>): string {
   const header = ['time_s', ...r.legs.map((_, i) => `leg${i + 1}_m`)].join(',');
   return columnsCsv(header, r.time_s, r.legs);

@@ -1,5 +1,5 @@
 // The plain-language report of a package (report.txt): what was run, what was found, how much of the
-// budget each check used, and the cautions (motion-spec section 8). Pure text from the pipeline result.
+// budget each check used, and the cautions (docs/motion-conventions.md section 8). Pure text from the pipeline result.
 import type { Budget } from '../schemas/budget';
 import type { CheckResult, Finding } from '../schemas/findings';
 import { CHECK_UNIT } from '../schemas/findings';

@@ -1,4 +1,4 @@
-// Orientation convention (motion-spec section 1): roll about x, pitch about y, yaw about z,
+// Orientation convention (docs/motion-conventions.md section 1): roll about x, pitch about y, yaw about z,
 // applied about the fixed axes in that order, so R = Rz(yaw) * Ry(pitch) * Rx(roll).
 
 /** A 3x3 rotation matrix, row-major: [r00, r01, r02, r10, ..., r22]. */

@@ -1,4 +1,4 @@
-// Specific force felt at a seat (motion-spec section 5):
+// Specific force felt at a seat (docs/motion-conventions.md section 5):
 //   f_seat = R^T (a_O + alpha x (R r) + w x (w x (R r)) - g),  g = (0, 0, -g0),
 // with a_O, w and alpha taken from a uniformly sampled pose track by finite differences: central
 // differences inside the track and second-order one-sided differences at its two ends, so the error
@@ -11,7 +11,7 @@ import { G0_MPS2 } from './units';
 // A module-local copy: live import bindings can compile to property reads in hot loops.
 const G0 = G0_MPS2;
 
-/** Pose offsets from neutral at a uniform rate (motion-spec section 1); h0 is constant, so it drops out of every derivative. */
+/** Pose offsets from neutral at a uniform rate (docs/motion-conventions.md section 1); h0 is constant, so it drops out of every derivative. */
 export interface PoseOffsetTrack extends PoseColumns {
   rate_hz: number;
 }

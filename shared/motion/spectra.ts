@@ -3,7 +3,7 @@
 // that the PSD summed over the bins times df equals the signal's variance (Parseval).
 import FFT from 'fft.js';
 
-/** The band where motion sickness is most provoked (motion-spec section 5), Hz. */
+/** The band where motion sickness is most provoked (docs/motion-conventions.md section 5), Hz. */
 export const SICKNESS_BAND_HZ = { low: 0.1, high: 0.5 } as const;
 
 export interface WelchPsd {

@@ -1,11 +1,11 @@
-// Incremental reader for the track CSV files of motion-spec section 3. Text is pushed in chunks so a
+// Incremental reader for the track CSV files of docs/motion-conventions.md section 3. Text is pushed in chunks so a
 // long take (600,000 rows and more) never has to sit in memory as one string; numbers land in columnar
 // Float64Arrays that grow by doubling. Every problem becomes a TrackFileError naming file, line and
 // column, so the CLI, the API and the worker can show the same message.
 
 import { G0_MPS2, RAD_PER_DEG } from './units';
 
-/** The three track kinds of motion-spec section 3. */
+/** The three track kinds of docs/motion-conventions.md section 3. */
 export type TrackKind = 'vehicle' | 'pose' | 'legs';
 /** Which column set a track carries: vehicle motion, or pose/legs of a hexapod or a planar3 stage. */
 export type TrackLayout = 'vehicle' | 'hexapod' | 'planar3';

@@ -1,5 +1,5 @@
 // Classical washout (Reid and Nahon, UTIAS reports 1985-86; Nahon and Reid 1990) over a whole track,
-// motion-spec section 4. Channels run one after another over Float64Arrays at the processing rate:
+// docs/motion-conventions.md section 4. Channels run one after another over Float64Arrays at the processing rate:
 //   scale + soft limit -> translational high-pass -> double integration -> position
 //   scaled surge/sway -> low-pass -> tilt (asin, angle limit, rate limit)
 //   scaled angular velocity -> high-pass -> Euler rates -> integration, plus tilt -> angles

@@ -1,4 +1,4 @@
-// The motion-safety budget (motion-spec sections 5-7): actuator margin, the rider's acceleration-duration
+// The motion-safety budget (docs/motion-conventions.md sections 5-7): actuator margin, the rider's acceleration-duration
 // envelope and the comfort limits. Written once here and used by the form, the API, the worker and the CLI.
 //
 // The envelope numbers of a real venue come from its safety engineering and the code that applies

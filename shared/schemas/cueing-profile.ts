@@ -1,4 +1,4 @@
-// A cueing profile: the versioned parameter set of the classical washout (motion-spec section 4).
+// A cueing profile: the versioned parameter set of the classical washout (docs/motion-conventions.md section 4).
 // Filter frequencies are in rad/s as in the washout literature; angles and angle rates are in degrees
 // because people write and review these files; shared/motion/washout.ts converts to SI.
 //

@@ -1,4 +1,4 @@
-// Findings JSON (motion-spec section 7): the output of a budget check, read by the CLI, the worker, the
+// Findings JSON (docs/motion-conventions.md section 7): the output of a budget check, read by the CLI, the worker, the
 // review page and the plots that mark each finding's time span.
 import { z } from 'zod';
 
@@ -55,7 +55,7 @@ export const CHECK_UNIT: Readonly<Record<CheckName, string>> = {
 
 const finiteNumber = z.number().refine(Number.isFinite, 'must be finite');
 
-// `axis` and `row` are additions to the spec's example: an envelope finding names the seat (its subject),
+// `axis` and `row` are additions to the findings shape of docs/motion-conventions.md section 7: an envelope finding names the seat (its subject),
 // and a reviewer also needs to know which axis and which envelope row it broke.
 export const findingSchema = z.object({
   check: checkNameSchema,
@@ -106,7 +106,7 @@ export const checkResultSchema = z.object({
 });
 export type CheckResult = z.infer<typeof checkResultSchema>;
 
-/** Exit codes of `legwork check` and `legwork process` (motion-spec section 7). */
+/** Exit codes of `legwork check` and `legwork process` (docs/motion-conventions.md section 7). */
 export const EXIT_WITHIN = 0;
 export const EXIT_BAD_INPUT = 2;
 export const EXIT_COMFORT = 3;

@@ -1,4 +1,4 @@
-// Motion base files (motion-spec section 7): one schema used by the CLI, the API, the worker and the
+// Motion base files (docs/motion-conventions.md section 7): one schema used by the CLI, the API, the worker and the
 // venue editor. A hexapod may be given by its twelve joints or by the parametric form, which is turned
 // into joints here; every base is then checked for geometry that cannot work (coincident joints, a
 // neutral pose outside the stroke, a singular neutral pose).

@@ -7,7 +7,7 @@ import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromiu
 import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
-// Standard gravity, 3rd CGPM (1901): a level vehicle at rest feels +g0 on z (motion-spec section 3).
+// Standard gravity, 3rd CGPM (1901): a level vehicle at rest feels +g0 on z (docs/motion-conventions.md section 3).
 const G0_MPS2 = 9.80665;
 const BAD_FILE = 'reef-dive-bad.csv';
 

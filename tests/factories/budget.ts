@@ -1,6 +1,6 @@
-// The example budget printed in motion-spec section 7 (the project's contract), for tests that need
-// a valid budget that is not the product's own demo budget.
-export const SPEC_EXAMPLE_BUDGET = {
+// A valid example budget (the example of docs/motion-conventions.md section 7), for tests that need
+// a budget that is not the product's own demo budget.
+export const EXAMPLE_BUDGET = {
   strokeMargin_m: 0.02,
   envelope: {
     x: [

@@ -6,7 +6,7 @@ import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { DEMO_USERS } from '../../shared/demo';
 import type { Role } from '../../shared/schemas/roles';
-import { SPEC_EXAMPLE_BUDGET } from '../factories/budget';
+import { EXAMPLE_BUDGET } from '../factories/budget';
 import { demoHexapodBase, demoPlanar3Base } from '../../shared/schemas/motion-base';
 
 let t: TestApp;
@@ -37,7 +37,7 @@ const ALL: Role[] = ['producer', 'motion_engineer', 'safety_reviewer', 'venue_op
 /** Everyone who works on tracks at the studio; a venue operator sees releases for their venues only. */
 const DESK: Role[] = ['producer', 'motion_engineer', 'safety_reviewer', 'studio_admin'];
 // A valid budget (the example budget of the test factories), for the create-profile route.
-const MATRIX_BUDGET = SPEC_EXAMPLE_BUDGET;
+const MATRIX_BUDGET = EXAMPLE_BUDGET;
 const ROUTES: RouteCase[] = [
   {
     name: 'overview',

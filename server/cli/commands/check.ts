@@ -16,7 +16,7 @@ export const summary = 'motion-safety budget of a pose track: findings JSON, exi
 export const help = `Usage: legwork check --base BASE.json --budget BUDGET.json --in POSE.csv[.gz] [--out FINDINGS.json]
 
 Checks a pose track (or a legs track) on a motion base against a safety budget and prints the
-findings JSON (motion-spec section 7): every check's worst use ratio per leg, seat or axis, and a
+findings JSON (docs/motion-conventions.md section 7): every check's worst use ratio per leg, seat or axis, and a
 finding with its time span for each stretch at or over a limit. The track is resampled to the base's
 controller rate first. Checks: leg stroke (inside [min + margin, max - margin]), leg speed and
 acceleration, the rider acceleration-duration envelope at every seat (hard limits); jerk, angular
@@ -25,8 +25,8 @@ a limit (comfort limits). Rider forces are compared after a 4-pole 5 Hz Butterwo
 (common practice).
 
 Options:
-  --base FILE     motion base JSON (motion-spec section 7)
-  --budget FILE   safety budget JSON: strokeMargin_m, envelope, comfort (motion-spec section 7)
+  --base FILE     motion base JSON (docs/motion-conventions.md section 7)
+  --budget FILE   safety budget JSON: strokeMargin_m, envelope, comfort (docs/motion-conventions.md section 7)
   --in FILE       pose or legs track CSV, optionally gzipped
   --out FILE      write the findings JSON here instead of stdout
   -h, --help      this text

@@ -1,4 +1,4 @@
-// `legwork cue`: classical washout of a vehicle track into platform pose offsets (motion-spec section 4).
+// `legwork cue`: classical washout of a vehicle track into platform pose offsets (docs/motion-conventions.md section 4).
 
 import { resampleTrack } from '../../../shared/motion/resample';
 import { trackColumn, trackColumnNames } from '../../../shared/motion/track-reader';
@@ -8,7 +8,7 @@ import { parseCommandOptions } from '../args';
 import type { CliIo } from '../io';
 import { CAUTION, CliInputError, readProfileFile, readTrackFile, writeCsv } from '../io';
 
-/** Processing rate when --rate is not given: the controller rate of the spec's example motion base. */
+/** Processing rate when --rate is not given: the controller rate of the demo motion base. */
 export const DEFAULT_CUE_RATE_HZ = 100;
 const MAX_RATE_HZ = 10_000;
 

@@ -23,7 +23,7 @@ than 5 mm between samples (a coarse file) they are followed in sub-steps. A samp
 continuous path reaches stops the command with exit 2 and an error naming its line.
 
 Options:
-  --base FILE   motion base JSON (motion-spec section 7)
+  --base FILE   motion base JSON (docs/motion-conventions.md section 7)
   --in FILE     leg-length track CSV, optionally gzipped
   --out FILE    write the CSV here instead of stdout
   -h, --help    this text

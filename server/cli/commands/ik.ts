@@ -19,7 +19,7 @@ writes the leg lengths at the same times: time_s, leg1_m .. leg6_m (planar3: leg
 Lengths outside the base's stroke are still written, with a warning on stderr.
 
 Options:
-  --base FILE   motion base JSON (motion-spec section 7)
+  --base FILE   motion base JSON (docs/motion-conventions.md section 7)
   --in FILE     pose track CSV, optionally gzipped
   --out FILE    write the CSV here instead of stdout
   -h, --help    this text

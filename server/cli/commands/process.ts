@@ -33,7 +33,7 @@ forward for a legs track), checks the safety budget and computes the rider's spe
 Without --budget the DEMO budget is used (invented numbers, not a standard's), and the report says so.
 
 Options:
-  --base FILE      motion base JSON (motion-spec section 7)
+  --base FILE      motion base JSON (docs/motion-conventions.md section 7)
   --profile FILE   cueing profile JSON (vehicle tracks only)
   --budget FILE    safety budget JSON
   --in FILE        track CSV, optionally gzipped

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { DEMO_BUDGET, JsonInputError, budgetSchema, parseBudgetText } from '../../../shared/schemas/budget';
-import { SPEC_EXAMPLE_BUDGET } from '../../factories/budget';
+import { EXAMPLE_BUDGET } from '../../factories/budget';
 
 const fixturePath = new URL('../../fixtures/budget-demo.json', import.meta.url);
 const demoText = readFileSync(fixturePath, 'utf8');
@@ -16,13 +16,13 @@ function problemsOf(text: string): JsonInputError['problems'] {
   throw new Error('expected the budget to be rejected');
 }
 
-describe('budget schema (motion-spec section 7 format)', () => {
+describe('budget schema (docs/motion-conventions.md section 7 format)', () => {
   it('accepts the demo fixture, which matches the built-in demo budget', () => {
     expect(parseBudgetText(demoText, 'budget-demo.json')).toEqual(DEMO_BUDGET);
   });
 
-  it('accepts the example budget printed in motion-spec section 7', () => {
-    const specExample = structuredClone(SPEC_EXAMPLE_BUDGET);
+  it('accepts the example budget printed in docs/motion-conventions.md section 7', () => {
+    const specExample = structuredClone(EXAMPLE_BUDGET);
     expect(budgetSchema.safeParse(specExample).success).toBe(true);
   });
 

@@ -1,5 +1,5 @@
 // Budget checks on tracks whose outcome is known in closed form: leg lengths from plane geometry
-// (shared/reference-values.md), leg speed from the leg's direction at neutral, tilt from gravity.
+// (law of cosines), leg speed from the leg's direction at neutral, tilt from gravity.
 import { describe, expect, it } from 'vitest';
 import { processTrack } from '../../../shared/motion/process';
 import { checkResultSchema, exitCodeFor } from '../../../shared/schemas/findings';
@@ -14,7 +14,7 @@ const DEG = Math.PI / 180;
 /**
  * Leg length of the symmetric demo hexapod at a pure heave z (m): plane geometry of joint circles Rb,
  * Rp with angular offset d between a leg's joints, L = sqrt(Rb^2 + Rp^2 - 2 Rb Rp cos d + h^2)
- * (shared/reference-values.md), with h = h0 + z.
+ * (law of cosines), with h = h0 + z.
  */
 function heaveLegLength(z_m: number): number {
   const p = demoHexapodInput;
@@ -92,7 +92,7 @@ describe('a heave past the stroke', () => {
 });
 
 describe('a fast sway', () => {
-  // y = A sin(wt): at neutral the speed of leg i is u_i . v (motion-spec section 2), and legs 4 and 5
+  // y = A sin(wt): at neutral the speed of leg i is u_i . v (docs/motion-conventions.md section 2), and legs 4 and 5
   // lean furthest sideways. Their unit vectors, computed here from the joints, pick the peak speed so
   // that legs 4 and 5 run 10 % over the limit while the others stay far below.
   const u = base.baseJoints_m.map((B, i) => {
@@ -133,7 +133,7 @@ describe('a fast sway', () => {
 });
 
 describe('a sustained pitch', () => {
-  // Pitch 10 deg held for 3 s: gravity then gives f_x = -g0 sin(pitch) at every seat (motion-spec
+  // Pitch 10 deg held for 3 s: gravity then gives f_x = -g0 sin(pitch) at every seat (docs/motion-conventions.md
   // section 1: positive pitch puts the nose down), 0.174 g, over a surge row allowing 0.1 g for 1 s.
   const theta = 10 * DEG;
   const pitch = (t: number) => theta * (smoothStep(t, 1, 3) - smoothStep(t, 6, 8));

@@ -1,4 +1,4 @@
-// `legwork check` and `legwork process` end to end on files: exit codes 0 / 2 / 3 / 4 (motion-spec
+// `legwork check` and `legwork process` end to end on files: exit codes 0 / 2 / 3 / 4 (docs/motion-conventions.md
 // section 7), error positions, and the package folder with its SHA-256 manifest.
 import { createHash } from 'node:crypto';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';

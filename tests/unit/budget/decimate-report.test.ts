@@ -66,7 +66,7 @@ const result: CheckResult = {
 describe('findings JSON and report text', () => {
   it('rounds for reading but never shows a ratio under 1 as 1', () => {
     const j = findingsForJson(result);
-    // The spec's example: 2.312 m against 2.28 m is a ratio of 1.014 (motion-spec section 7).
+    // Worked by hand: 2.312 m against 2.28 m is a ratio of 1.014 (2.312 / 2.28, rounded to three decimals).
     expect(j.findings[0]?.ratio).toBe(1.014);
     expect(j.uses[1]?.ratio).toBe(0.9999);
   });
@@ -103,7 +103,7 @@ describe('findings JSON and report text', () => {
     expect(comfortWording(3)).toBe('extremely uncomfortable');
   });
 
-  it('writes legs CSV in the spec columns with plain zeros', () => {
+  it('writes legs CSV in the documented columns with plain zeros', () => {
     const csv = legsCsv({ time_s: Float64Array.from([0, 0.01]), legs: [Float64Array.from([1.9, -1e-12])] });
     expect(csv).toBe('time_s,leg1_m\n0.000000,1.900000000\n0.010000,0.000000000\n');
   });

@@ -1,4 +1,4 @@
-// The acceleration-duration rule of motion-spec section 5 on signals whose excursions are known by
+// The acceleration-duration rule of docs/motion-conventions.md section 5 on signals whose excursions are known by
 // construction: "for each row (duration d, lower, upper), the longest continuous time outside
 // [lower, upper] must be shorter than d"; d = 0 is an absolute bound (spec section 7).
 import { describe, expect, it } from 'vitest';

@@ -28,7 +28,7 @@ function comfortOfSine(axis: 'x' | 'z', f_hz: number, a_mps2: number, rate_hz: n
 }
 
 describe('ISO 2631-1 weighting factors through seat force, weighting and r.m.s. (within 2 %)', () => {
-  // Weighting factors from memory of the standard's tables (shared/reference-values.md).
+  // Weighting factors from memory of the standard's tables.
   const cases: { axis: 'x' | 'z'; weighting: string; f_hz: number; factor: number }[] = [
     { axis: 'z', weighting: 'Wk', f_hz: 1, factor: 0.482 },
     { axis: 'z', weighting: 'Wk', f_hz: 2, factor: 0.531 },
@@ -83,7 +83,7 @@ describe('ISO 2631-1 weighting factors through seat force, weighting and r.m.s. 
       { rate_hz: rate, x_m: zero, y_m: zero, z_m, roll_rad: zero, pitch_rad: zero, yaw_rad: zero },
       [0.3, -0.2, 0.9],
     );
-    // Seat force minus gravity is the sinusoid itself (motion-spec section 5 with no rotation).
+    // Seat force minus gravity is the sinusoid itself (docs/motion-conventions.md section 5 with no rotation).
     const settled = force.z.subarray(5 * rate).map((v) => v - G0_MPS2);
     let sumSq = 0;
     for (const v of settled) sumSq += v * v;

@@ -27,7 +27,7 @@ describe('Hermite resampling', () => {
 
   it('a 60 Hz heave checked at a 1 kHz controller gives the closed-form peak leg acceleration', () => {
     // Pure heave z = A sin(wt) on the symmetric demo hexapod: every leg has l^2 = c + (h0 + z)^2 with
-    // c = Rb^2 + Rp^2 - 2 Rb Rp cos d (plane geometry, shared/reference-values.md), so
+    // c = Rb^2 + Rp^2 - 2 Rb Rp cos d (plane geometry, law of cosines), so
     // l'' = (z'^2 + (h0 + z) z'') / l - ((h0 + z) z')^2 / l^3.
     const A = 0.1;
     const w = 2 * Math.PI * 1.2;

@@ -45,7 +45,7 @@ describe('legwork cue', () => {
     const lines = readFileSync(outPath, 'utf8').trim().split('\n');
     expect(lines[0]).toBe('time_s,x_m,y_m,z_m,roll_rad,pitch_rad,yaw_rad');
     expect(lines.length).toBe(1 + 8 * 50 + 1);
-    // Before the push: exactly neutral (motion-spec section 4).
+    // Before the push: exactly neutral (docs/motion-conventions.md section 4).
     expect(lines[50]).toBe('0.98,0,0,0,0,0,0');
     // At the end the tilt gives the rider the scaled push through gravity (default surge gain 0.6).
     const last = lines[lines.length - 1]!.split(',').map(Number);

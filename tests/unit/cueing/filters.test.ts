@@ -59,7 +59,7 @@ const SQRT1_2 = Math.SQRT1_2;
 
 describe('second-order coefficients', () => {
   it('low-pass Fs 100 Hz, f0 1 Hz, Q 1/sqrt2 matches the worked example', () => {
-    // reference-values.md, computed from the Audio EQ Cookbook formulas.
+    // Computed from the Audio EQ Cookbook formulas (R. Bristow-Johnson; W3C Working Group Note 2021).
     const c = lowPass2(1, SQRT1_2, 100).coefficients;
     const expected = [0.000945, 0.001889, 0.000945, -1.911197, 0.914976];
     expected.forEach((e, i) => expect(c[i]).toBeCloseTo(e, 6));
@@ -81,7 +81,7 @@ describe('second-order coefficients', () => {
   });
 
   it('has |H(f0)| = 0.70711 at the corner', () => {
-    // reference-values.md: |H(f0)| = 0.70711 for the cookbook low-pass with Q = 1/sqrt2.
+    // Audio EQ Cookbook: |H(f0)| = 0.70711 for the cookbook low-pass with Q = 1/sqrt2.
     expect(digitalMagnitude(lowPass2(1, SQRT1_2, 100), 1)).toBeCloseTo(0.70711, 5);
     expect(digitalMagnitude(highPass2(1, SQRT1_2, 100), 1)).toBeCloseTo(0.70711, 5);
   });
@@ -109,7 +109,7 @@ describe.each(designs)('%s frequency response', (_name, cascade) => {
 
   it('digital response equals the analytic response at the pre-warped bilinear frequency, everywhere below fs/4', () => {
     // The bilinear transform maps digital f to analog K tan(pi f / fs) / (2 pi), K pre-warped at each
-    // section's corner (motion-spec section 4); that is the comparison the spec's discretisation implies.
+    // section's corner (docs/motion-conventions.md section 4); that is the comparison the documented discretisation implies.
     for (const f of freqs) {
       const d = digitalMagnitude(cascade, f);
       const a = prewarpedAnalogMagnitude(cascade.analog, f, rate);

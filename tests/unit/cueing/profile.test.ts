@@ -15,12 +15,12 @@ describe('default cueing profile', () => {
   });
 
   it('limits the tilt rate to 3 deg/s', () => {
-    // Groen and Bles 2004 (reference-values.md); motion-spec section 4 default.
+    // Groen and Bles 2004 (J. Vestib. Res. 14(5)); docs/motion-conventions.md section 4 default.
     expect(defaultCueingProfile().tilt.rateLimit_degps).toBe(3);
   });
 
   it('uses a third-order translational high-pass on every axis', () => {
-    // motion-spec section 4: so a sustained input washes out to neutral.
+    // docs/motion-conventions.md section 4: so a sustained input washes out to neutral.
     const t = defaultCueingProfile().translational;
     expect([t.x.order, t.y.order, t.z.order]).toEqual([3, 3, 3]);
   });

@@ -24,7 +24,7 @@ function track(rate_hz: number, duration_s: number, fn: PoseFn): PoseOffsetTrack
   return { rate_hz, x_m, y_m, z_m, roll_rad, pitch_rad, yaw_rad };
 }
 
-/** three.js rotation R = Rz Ry Rx (Euler order 'ZYX', reference-values.md), independent of rotation.ts. */
+/** three.js rotation R = Rz Ry Rx (Euler order 'ZYX', Matrix4.makeRotationFromEuler), independent of rotation.ts. */
 function threeRotation(roll: number, pitch: number, yaw: number): Matrix4 {
   return new Matrix4().makeRotationFromEuler(new Euler(roll, pitch, yaw, 'ZYX'));
 }
@@ -53,7 +53,7 @@ function seatForceByTrajectory(fn: PoseFn, r: Vector3, t: number, h = 1e-4): Vec
 
 describe('seat specific force', () => {
   it('is exactly (0, 0, +g0) at neutral and at rest, at any seat', () => {
-    // motion-spec section 3: at rest and level f = (0, 0, +g0).
+    // docs/motion-conventions.md section 3: at rest and level f = (0, 0, +g0).
     const f = seatSpecificForce(
       track(100, 2, () => [0, 0, 0, 0, 0, 0]),
       [0.4, -0.3, 0.9],

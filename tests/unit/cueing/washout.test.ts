@@ -32,7 +32,7 @@ const poseKeys = ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as co
 
 describe('a level vehicle at rest', () => {
   it('stays exactly at neutral and the rider feels exactly (0, 0, g0)', () => {
-    // motion-spec section 4: a level vehicle at rest (f = (0, 0, g0), w = 0) stays exactly at neutral.
+    // docs/motion-conventions.md section 4: a level vehicle at rest (f = (0, 0, g0), w = 0) stays exactly at neutral.
     const r = cueClassical(vehicle(100, 30), defaultCueingProfile());
     for (const k of poseKeys) expect(r.pose[k].every((v) => v === 0)).toBe(true);
     expect(r.diagnostics.riderForce_mps2.x.every((v) => v === 0)).toBe(true);
@@ -59,7 +59,7 @@ describe('sustained forward specific force', () => {
   });
 
   it('never tilts faster than the 3 deg/s rate limit', () => {
-    // Groen and Bles 2004: tilt below about 3 deg/s goes unnoticed (reference-values.md).
+    // Groen and Bles 2004: tilt below about 3 deg/s goes unnoticed (J. Vestib. Res. 14(5)).
     const maxStep = 3 * RAD_PER_DEG * (1 / rate);
     let seenLimit = false;
     for (let i = 1; i <= last; i++) {

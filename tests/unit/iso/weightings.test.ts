@@ -15,7 +15,7 @@ import {
 } from '../../../shared/motion/iso2631';
 import { G0_MPS2 } from '../../../shared/motion/units';
 
-// Weighting factors from memory of the ISO 2631-1:1997 tables (shared/reference-values.md).
+// Weighting factors from memory of the ISO 2631-1:1997 tables.
 const TABLE: [Weighting, number, number][] = [
   ['Wk', 1, 0.482],
   ['Wk', 2, 0.531],
@@ -27,7 +27,7 @@ const TABLE: [Weighting, number, number][] = [
 ];
 
 /**
- * The Annex A formula of ISO 2631-1 as written in shared/reference-values.md, evaluated with mathjs
+ * The Annex A formula of ISO 2631-1 (the standard's analytic weighting definitions), evaluated with mathjs
  * complex numbers at s = j 2 pi f: an independent restatement of the same definition.
  */
 function annexA(p: {
@@ -78,12 +78,12 @@ function sine(A: number, f_hz: number, rate_hz: number, duration_s: number, offs
 
 describe('analytic weightings', () => {
   it.each(TABLE)('%s at %f Hz is within 2 %% of the tabulated factor %f', (w, f, expected) => {
-    // From memory of the standard's tables (reference-values.md).
+    // From memory of the standard's tables.
     expect(Math.abs(weightingMagnitude(w, f) / expected - 1)).toBeLessThan(0.02);
   });
 
   it.each(['Wk', 'Wd', 'We', 'Wf'] as const)('%s equals a mathjs evaluation of the Annex A formula', (w) => {
-    // mathjs complex arithmetic on the formula as transcribed in reference-values.md.
+    // mathjs complex arithmetic on the Annex A formula.
     for (const f of [0.02, 0.1, 0.315, 1, 3.15, 10, 31.5, 80]) {
       expect(weightingMagnitude(w, f)).toBeCloseTo(annex[w](f), 12);
     }

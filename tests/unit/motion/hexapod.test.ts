@@ -51,7 +51,7 @@ function poseOf(rows: number[][]): PoseColumns {
 
 describe('hexapod inverse kinematics', () => {
   it('gives all legs the closed-form length of a symmetric hexapod at neutral', () => {
-    // Source: plane geometry (reference-values.md): L = sqrt(Rb^2 + Rp^2 - 2 Rb Rp cos d + h^2), with
+    // Source: plane geometry (law of cosines): L = sqrt(Rb^2 + Rp^2 - 2 Rb Rp cos d + h^2), with
     // d = 60 - a_b - a_p deg the angle between a leg's two joints in this layout.
     const cases = [
       {

@@ -34,7 +34,7 @@ describe('motion base schema', () => {
   });
 
   it('generates joints from the parametric form counter-clockwise seen from above', () => {
-    // Source: motion-spec section 2 (legs numbered counter-clockwise seen from above): the base joint angle
+    // Source: docs/motion-conventions.md section 2 (legs numbered counter-clockwise seen from above): the base joint angle
     // atan2(y, x) increases from leg 1 to leg 6.
     const angles = demoHexapodBase.baseJoints_m.map(([x, y]) => Math.atan2(y, x));
     const unwrapped = angles.map((a) => (a < angles[0]! ? a + 2 * Math.PI : a));

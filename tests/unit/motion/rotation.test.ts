@@ -19,7 +19,7 @@ function apply(R: Float64Array, v: [number, number, number]): [number, number, n
 
 describe('rotation R = Rz(yaw) Ry(pitch) Rx(roll)', () => {
   it('matches three.js makeRotationFromEuler with order ZYX on random angles', () => {
-    // Source: three.js Matrix4.makeRotationFromEuler; Euler order 'ZYX' is Rz * Ry * Rx (reference-values.md).
+    // Source: three.js Matrix4.makeRotationFromEuler; Euler order 'ZYX' is Rz * Ry * Rx (three.js docs, Euler.order).
     const rng = makeRng(7);
     for (let k = 0; k < 200; k++) {
       const [roll, pitch, yaw] = randomAngles(rng);
@@ -46,14 +46,14 @@ describe('rotation R = Rz(yaw) Ry(pitch) Rx(roll)', () => {
   });
 
   it('puts the nose (+x) down for a positive pitch', () => {
-    // Source: motion-spec section 1 (x forward, z up; positive pitch is nose down).
+    // Source: docs/motion-conventions.md section 1 (x forward, z up; positive pitch is nose down).
     const nose = apply(rotation(0, 0.2, 0), [1, 0, 0]);
     expect(nose[2]).toBeLessThan(0);
     expect(nose[2]).toBeCloseTo(-Math.sin(0.2), 15);
   });
 
   it('lowers the right side (-y) for a positive roll', () => {
-    // Source: motion-spec section 1 (y left, so the right side is -y; positive roll lowers it).
+    // Source: docs/motion-conventions.md section 1 (y left, so the right side is -y; positive roll lowers it).
     const right = apply(rotation(0.2, 0, 0), [0, -1, 0]);
     expect(right[2]).toBeLessThan(0);
     expect(right[2]).toBeCloseTo(-Math.sin(0.2), 15);

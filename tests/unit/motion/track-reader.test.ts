@@ -105,7 +105,7 @@ describe('track reader errors name file, line, column and reason', () => {
     ['empty', '\n  \n', /^pose\.csv line 1: empty file/],
     ['noRows', `${POSE_HEADER}\n`, /^pose\.csv line 1: no data rows after the header$/],
   ];
-  // Source for each expectation: the error list of motion-spec section 3 and the message format of the reader.
+  // Source for each expectation: the error list of docs/motion-conventions.md section 3 and the message format of the reader.
   it.each(cases)('%s: %j', (code, text, message, options) => {
     const e = failure(text, options);
     expect(e.code).toBe(code);

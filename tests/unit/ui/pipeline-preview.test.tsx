@@ -1,6 +1,6 @@
 // The 3-D preview places the platform with three.js's matrices; its leg lengths must equal those of
 // Legwork's own inverse kinematics (shared/motion), which builds R = Rz Ry Rx by hand. Two independent
-// computations of motion-spec sections 1 and 2 agreeing is the check.
+// computations of docs/motion-conventions.md sections 1 and 2 agreeing is the check.
 import * as three from 'three';
 import { describe, expect, it } from 'vitest';
 import { demoHexapodBase, demoPlanar3Base } from '../../../shared/schemas/motion-base';
@@ -51,7 +51,7 @@ describe('3-D preview geometry', () => {
   });
 
   it('puts a symmetric hexapod at neutral with all legs equal to the plane-geometry length', () => {
-    // reference-values.md (plane geometry): L = sqrt(Rb^2 + Rp^2 - 2 Rb Rp cos d + h^2), with d the
+    // Plane geometry (law of cosines): L = sqrt(Rb^2 + Rp^2 - 2 Rb Rp cos d + h^2), with d the
     // angle between a leg's two joints; the demo base has Rb 1.5 m, Rp 1.0 m, h 1.6 m.
     const legs = previewLegLengths(previewJoints(three, demoHexapodBase, POSES[0]!));
     const b = demoHexapodBase.baseJoints_m[0]!;

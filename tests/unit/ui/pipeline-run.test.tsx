@@ -1,5 +1,5 @@
 // @vitest-environment jsdom
-// Run page against the API contract of GET /runs/:id (RunDetail with findings JSON, motion-spec
+// Run page against the API contract of GET /runs/:id (RunDetail with findings JSON, docs/motion-conventions.md
 // section 7) and GET /runs/:id/series. uPlot draws on a canvas, which jsdom lacks: it is replaced by a
 // recorder here, and the drawing itself is checked in the browser test.
 import '@testing-library/jest-dom/vitest';
@@ -71,7 +71,7 @@ function makeRun(overrides: Partial<RunDetail> = {}): RunDetail {
     },
     cueingVersion: { id: '4e5f6a7b-8c9d-4e0f-9a1b-3c4d5e6f7a8b', name: 'Dome washout', version: 3 },
     budgetVersion: { id: '5f6a7b8c-9d0e-4f1a-8b2c-4d5e6f7a8b9c', name: 'DEMO budget', version: 1 },
-    // The findings example of motion-spec section 7, plus a comfort finding and two uses.
+    // The findings example of docs/motion-conventions.md section 7, plus a comfort finding and two uses.
     result: {
       within: false,
       findings: [
@@ -163,7 +163,7 @@ describe('run page', () => {
       'legSpeed',
       'wrms',
     ]);
-    // Severity per check is motion-spec section 7's: stroke and legSpeed hard, jerk and wrms comfort.
+    // Severity per check is docs/motion-conventions.md section 7's: stroke and legSpeed hard, jerk and wrms comfort.
     const severities = rows.map((row) => within(row).getAllByRole('cell')[3]!.textContent);
     expect(severities).toEqual(
       ['jerk', 'stroke', 'legSpeed', 'wrms'].map((c) =>

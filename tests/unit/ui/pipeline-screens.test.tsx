@@ -331,7 +331,7 @@ describe('budget uses at a glance', () => {
   });
 
   it('never prints a ratio in another band than its colour', () => {
-    // motion-spec section 6: within budget while the ratio is below 1; 0.8 is the house warning line.
+    // docs/motion-conventions.md section 6: within budget while the ratio is below 1; 0.8 is the house warning line.
     renderWithApp(
       <>
         <UseRatioBar ratio={0.7996} label="a" />

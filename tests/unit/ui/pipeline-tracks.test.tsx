@@ -137,7 +137,7 @@ describe('tracks table', () => {
     expect(within(row).getByText('Awaiting review')).toBeInTheDocument();
     const meters = within(row).getAllByRole('meter');
     expect(meters.map((m) => m.getAttribute('aria-valuenow'))).toEqual(['1.12', '0.64']);
-    // motion-spec section 6: a run is within budget while every ratio is below 1, so 1.12 reads as over.
+    // docs/motion-conventions.md section 6: a run is within budget while every ratio is below 1, so 1.12 reads as over.
     expect(within(row).getByText('1.12')).toHaveClass('text-stop-700');
     expect(within(row).getByText('0.64')).toHaveClass('text-ink-800');
   });

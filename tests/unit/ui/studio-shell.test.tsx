@@ -112,7 +112,7 @@ describe('studio shell', () => {
     });
     const { router } = renderRoutes(routes, `/s/${LANTERNFISH}`);
     await screen.findByText('Inside Lanternfish Studios');
-    // House caution (motion spec section 8): every screen says Legwork never replaces the people who answer for safety.
+    // Caution (docs/motion-conventions.md section 8): every screen says Legwork never replaces the people who answer for safety.
     expect(screen.getByRole('note', { name: 'Safety caution' })).toHaveTextContent(
       "Legwork supports the ride manufacturer's engineering, the applicable codes and a qualified person's sign-off; it never replaces them.",
     );

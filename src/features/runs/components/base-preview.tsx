@@ -35,7 +35,7 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
   const hexapod = base.kind === 'hexapod';
   const height_m = hexapod ? base.neutralHeight_m : 0;
   const camera = new three.PerspectiveCamera(35, width_px / height_px, 0.05, 100);
-  // z is up in every Legwork frame (motion-spec section 1).
+  // z is up in every Legwork frame (docs/motion-conventions.md section 1).
   camera.up.set(0, 0, 1);
   camera.position.set(hexapod ? 4.2 : 2.5, hexapod ? -4.2 : -3.5, hexapod ? 3.2 : 5);
   const target = new three.Vector3(0, 0, height_m * 0.5);

@@ -11,7 +11,7 @@ export function subjectText(use: Pick<Use, 'subject' | 'axis'>): string {
   return use.axis && use.axis !== use.subject ? `${use.subject} (${use.axis})` : use.subject;
 }
 
-/** "hard limit" in red or "comfort limit" in amber (motion-spec section 6). */
+/** "hard limit" in red or "comfort limit" in amber (docs/motion-conventions.md section 6). */
 export function SeverityText({ severity }: { severity: 'hard' | 'comfort' }) {
   return severity === 'hard' ? (
     <span className="text-xs font-medium text-stop-700">hard limit</span>

@@ -6,7 +6,7 @@ import type { RunSeries } from '../../../../shared/schemas/run-series';
 
 export type ThreeModule = typeof Three;
 
-/** A pose offset from neutral (m, rad), angles in the roll-pitch-yaw order of motion-spec section 1. */
+/** A pose offset from neutral (m, rad), angles in the roll-pitch-yaw order of docs/motion-conventions.md section 1. */
 export interface PreviewPose {
   x_m: number;
   y_m: number;
@@ -45,7 +45,7 @@ export function previewJoints(
   const baseOut = new Float64Array(3 * n);
   const platformOut = new Float64Array(3 * n);
   const hexapod = base.kind === 'hexapod';
-  // three.js's 'ZYX' Euler order builds Rz * Ry * Rx, the fixed-axis roll-pitch-yaw order of the spec.
+  // three.js's 'ZYX' Euler order builds Rz * Ry * Rx, the fixed-axis roll-pitch-yaw order of docs/motion-conventions.md section 1.
   const euler = hexapod
     ? new three.Euler(pose.roll_rad, pose.pitch_rad, pose.yaw_rad, 'ZYX')
     : new three.Euler(0, 0, pose.yaw_rad, 'ZYX');

@@ -69,7 +69,7 @@ export function UploadTakeForm({ studioId, trackId }: { studioId: string; trackI
       {done ? <Notice>{done}</Notice> : null}
       <p className="text-xs text-ink-400">
         Vehicle takes: time_s, fx/fy/fz (mps2 or g), wx/wy/wz (radps or degps). Pose and legs takes follow the
-        motion spec. Units are part of each column name.
+        motion conventions. Units are part of each column name.
       </p>
     </form>
   );

@@ -10,7 +10,7 @@ export interface CreateVenueInput {
   site: string;
   /** IANA time zone name, e.g. "Europe/Lisbon". */
   timeZone: string;
-  /** A motion base object (motion-spec section 7; lengths m, angles deg); the server validates it. */
+  /** A motion base object (docs/motion-conventions.md section 7; lengths m, angles deg); the server validates it. */
   base: unknown;
 }
 

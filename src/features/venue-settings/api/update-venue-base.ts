@@ -7,7 +7,7 @@ import { venueKeys } from '../../../lib/queries/venues';
 export interface UpdateVenueBaseInput {
   studioId: string;
   venueId: string;
-  /** A motion base object (motion-spec section 7; lengths m, angles deg); the server validates it. */
+  /** A motion base object (docs/motion-conventions.md section 7; lengths m, angles deg); the server validates it. */
   base: unknown;
 }
 
