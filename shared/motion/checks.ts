@@ -14,7 +14,10 @@
 // - conditioning: Jacobian condition number / limit, subject "platform".
 // - startEnd: pose offset or rate at the first / last sample / its tolerance, subject "start" or "end"
 //   (see start-end.ts).
+// - vdv (when the budget sets vdvMax_mps1_75): VDV at its own worst seat / limit, per axis.
+// - outOfBand: the share of an axis' r.m.s. the anti-alias low-pass removed / 0.05 (comfort tier).
 //
+// Derivatives (jerk, angular acceleration) are exact on the band-limited interpolant (band-limit.ts).
 // Rider quantities are compared after a 4-pole Butterworth low-pass at 5 Hz (common practice for
 // post-processing measured ride accelerations), run forward only and started in
 // steady state; its group delay near 0 Hz is about 0.08 s, so spans can trail the pose by that much.
@@ -29,7 +32,7 @@ import { analogLowPass2, cascadeFromAnalog, filterSignal } from './filters';
 import { msdv, rms, upsamplingFactor, vdv, vomitingShare_percent, weight } from './iso2631';
 import type { PoseColumns } from './hexapod';
 import { checkStartEnd } from './start-end';
-import { derivativeInto } from './track-derivative';
+import { bandLimitedDerivativeInto, differentiator } from './band-limit';
 import { G0_MPS2 } from './units';
 
 /** Rider low-pass (common practice): 4-pole Butterworth at this corner, Hz. */
@@ -65,7 +68,18 @@ export interface CheckInput {
   legLimits: LegLimits;
   /** The rigid platform's specific force as a function of seat position, for many seats (see SeatForceModel). */
   seatForceModel?: SeatForceModel;
+  /** Per input axis, the share (0..1) of its r.m.s. the anti-alias low-pass removed. */
+  bandLimit?: readonly { subject: string; share: number }[];
 }
+
+/** Share of an axis' r.m.s. removed by the anti-alias low-pass above which it is a finding. */
+export const OUT_OF_BAND_SHARE_MAX = 0.05;
+
+/** Crest factor above which the basic r.m.s. evaluation may underestimate (ISO 2631-1:1997, 6.2.1). */
+export const CREST_FACTOR_FLAG = 9;
+
+/** Running r.m.s. integration time of the MTVV, s (ISO 2631-1:1997, 6.3.1, tau = 1 s). */
+export const MTVV_TAU_S = 1;
 
 type Triple = readonly [Float64Array, Float64Array, Float64Array];
 
@@ -269,6 +283,7 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
   ];
   const scratch = new Float64Array(n);
   const g = new Float64Array(n);
+  const D = differentiator(rate_hz);
   input.seatForce_mps2.forEach((force, s) => {
     const seat = `seat${s + 1}`;
     const lp = force.map((f, a) => {
@@ -278,6 +293,7 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
     seatForceLp.push(lp);
     let seatWorst = 0;
     let seatAxis: 'x' | 'y' | 'z' = 'x';
+    let seatRow = { row: 0, totalOutside_s: 0, excursions: 0 };
     for (const axis of ENVELOPE_AXES) {
       const f = lp[AXIS_INDEX[axis]];
       for (let i = 0; i < n; i++) g[i] = (f[i] as number) / G0_MPS2;
@@ -285,6 +301,12 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
       if (res.ratio > seatWorst) {
         seatWorst = res.ratio;
         seatAxis = axis;
+        const rs = res.rows[res.worstRow];
+        seatRow = {
+          row: res.worstRow,
+          totalOutside_s: rs?.totalOutside_s ?? 0,
+          excursions: rs?.excursions ?? 0,
+        };
       }
       for (const v of res.violations) {
         out.findings.push({
@@ -297,17 +319,19 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
           ratio: v.ratio,
           axis,
           row: v.row,
+          totalOutside_s: v.rowOutside_s,
+          excursions: v.rowExcursions,
         });
       }
       // Jerk of the low-passed force; the worst seat at each instant.
-      derivativeInto(time_s, f, scratch);
+      bandLimitedDerivativeInto(D, 1, f, scratch);
       const jw = jerkWorst[AXIS_INDEX[axis]];
       for (let i = 0; i < n; i++) {
         const j = Math.abs(scratch[i] as number);
         if (j > (jw[i] as number)) jw[i] = j;
       }
     }
-    out.uses.push({ check: 'envelope', subject: seat, ratio: seatWorst, axis: seatAxis });
+    out.uses.push({ check: 'envelope', subject: seat, ratio: seatWorst, axis: seatAxis, ...seatRow });
   });
 
   const c = budget.comfort;
@@ -323,7 +347,7 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
     assertFinite(`angular velocity ${axis}`, raw, time_s);
     const w = smooth(raw);
     out.scanAbs('angularSpeed', axis, w, c.angularSpeedMax_radps, ratio);
-    derivativeInto(time_s, w, alpha);
+    bandLimitedDerivativeInto(D, 1, w, alpha);
     out.scanAbs('angularAccel', axis, alpha, c.angularAccelMax_radps2, ratio);
   }
 
@@ -352,6 +376,23 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
   if (comfort) {
     for (const axis of ENVELOPE_AXES) out.whole('wrms', axis, comfort.wrms_mps2[axis], c.wrmsMax_mps2);
     out.whole('msdv', 'z', comfort.msdvZ_mps1_5, c.msdvZMax_mps1_5);
+    if (c.vdvMax_mps1_75 !== undefined) {
+      for (const axis of ENVELOPE_AXES) out.whole('vdv', axis, comfort.vdv_mps1_75[axis], c.vdvMax_mps1_75);
+    }
+    const crest = comfort.crestFactor;
+    if (crest) {
+      const high = ENVELOPE_AXES.filter((a) => crest[a] > CREST_FACTOR_FLAG);
+      if (high.length > 0) {
+        notes.push(
+          `Crest factor above ${CREST_FACTOR_FLAG} on ${high.map((a) => `${a} (${crest[a].toFixed(1)} at ${comfort.wrmsSeat[a]})`).join(', ')}: ` +
+            'the basic r.m.s. method may underestimate the effect of the shocks (ISO 2631-1:1997, 6.2.1); read the MTVV and the VDV beside it.',
+        );
+      }
+    }
+  }
+
+  for (const b of input.bandLimit ?? []) {
+    out.whole('outOfBand', b.subject, b.share, OUT_OF_BAND_SHARE_MAX);
   }
 
   return {
@@ -364,14 +405,70 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
   };
 }
 
-/** Per seat: weighted r.m.s. (signal unit), VDV (unit s^0.25) and MSDV (unit s^0.5) of one axis. */
-type SeatDose = (seat: number) => { rms: number; vdv: number; msdv: number };
+/**
+ * Per seat: weighted r.m.s. (signal unit), VDV (unit s^0.25), MSDV (unit s^0.5), peak |a_w| and the
+ * MTVV (signal unit) of one axis.
+ */
+interface Dose {
+  rms: number;
+  vdv: number;
+  msdv: number;
+  peak: number;
+  mtvv: number;
+}
+type SeatDose = (seat: number) => Dose;
+
+/**
+ * Accumulates the figures of a weighted signal fed sample by sample. The MTVV is the largest running
+ * r.m.s. with linear integration over tau = 1 s (ISO 2631-1:1997, 6.3.1, equation 4) once a whole
+ * window has passed, or the whole track's r.m.s. when it is shorter than tau.
+ */
+class DoseAccumulator {
+  private sum2 = 0;
+  private sum4 = 0;
+  private peak = 0;
+  private window = 0;
+  private maxWindow = 0;
+  private count = 0;
+  private readonly ring: Float64Array;
+  constructor(private readonly rate_hz: number) {
+    this.ring = new Float64Array(Math.max(1, Math.round(MTVV_TAU_S * rate_hz)));
+  }
+  add(v: number): void {
+    const v2 = v * v;
+    this.sum2 += v2;
+    this.sum4 += v2 * v2;
+    const a = Math.abs(v);
+    if (a > this.peak) this.peak = a;
+    const W = this.ring.length;
+    const slot = this.count % W;
+    this.window += v2 - (this.ring[slot] as number);
+    this.ring[slot] = v2;
+    this.count++;
+    if (this.count >= W && this.window > this.maxWindow) this.maxWindow = this.window;
+  }
+  result(): Dose {
+    const n = this.count;
+    const W = this.ring.length;
+    return {
+      rms: n > 0 ? Math.sqrt(this.sum2 / n) : 0,
+      vdv: Math.pow(this.sum4 / this.rate_hz, 0.25),
+      msdv: Math.sqrt(this.sum2 / this.rate_hz),
+      peak: this.peak,
+      mtvv: n >= W ? Math.sqrt(Math.max(0, this.maxWindow) / W) : n > 0 ? Math.sqrt(this.sum2 / n) : 0,
+    };
+  }
+}
 
 /** Weights each seat's own signal (a filter run per seat and axis). */
 function directDose(input: CheckInput, axis: 0 | 1 | 2, w: 'Wk' | 'Wd' | 'Wf', rate_hz: number): SeatDose {
   return (s) => {
     const weighted = weight((input.seatForce_mps2[s] as Triple)[axis], rate_hz, w);
-    return { rms: rms(weighted), vdv: vdv(weighted, rate_hz), msdv: msdv(weighted, rate_hz) };
+    const acc = new DoseAccumulator(rate_hz);
+    for (let i = 0; i < weighted.length; i++) acc.add(weighted[i] as number);
+    const d = acc.result();
+    // The library's own VDV and MSDV, which also refuse a non-finite sample.
+    return { ...d, vdv: vdv(weighted, rate_hz), msdv: msdv(weighted, rate_hz), rms: rms(weighted) };
   };
 }
 
@@ -384,19 +481,11 @@ function modelDose(model: SeatForceModel, axis: 0 | 1 | 2, w: 'Wk' | 'Wd' | 'Wf'
   const n = w0.length;
   return (s) => {
     const [rx, ry, rz] = model.seats_m[s] as readonly [number, number, number];
-    let sum2 = 0;
-    let sum4 = 0;
+    const acc = new DoseAccumulator(rate_hz);
     for (let i = 0; i < n; i++) {
-      const v = (w0[i] as number) + rx * (w1[i] as number) + ry * (w2[i] as number) + rz * (w3[i] as number);
-      const v2 = v * v;
-      sum2 += v2;
-      sum4 += v2 * v2;
+      acc.add((w0[i] as number) + rx * (w1[i] as number) + ry * (w2[i] as number) + rz * (w3[i] as number));
     }
-    return {
-      rms: n > 0 ? Math.sqrt(sum2 / n) : 0,
-      vdv: Math.pow(sum4 / rate_hz, 0.25),
-      msdv: Math.sqrt(sum2 / rate_hz),
-    };
+    return acc.result();
   };
 }
 
@@ -415,15 +504,29 @@ export function comfortFigures(input: CheckInput, rate_hz: number): ComfortSumma
   const wrms = { x: 0, y: 0, z: 0 };
   const wrmsSeat = { x: 'seat1', y: 'seat1', z: 'seat1' };
   const vdvs = { x: 0, y: 0, z: 0 };
+  const vdvSeat = { x: 'seat1', y: 'seat1', z: 'seat1' };
+  const crest = { x: 0, y: 0, z: 0 };
+  const mtvv = { x: 0, y: 0, z: 0 };
+  const mtvvSeat = { x: 'seat1', y: 'seat1', z: 'seat1' };
   for (const axis of ENVELOPE_AXES) {
     const a = AXIS_INDEX[axis];
     const of = dose(a, axis === 'z' ? 'Wk' : 'Wd');
     for (let s = 0; s < seats; s++) {
       const d = of(s);
+      const seat = `seat${s + 1}`;
       if (d.rms > wrms[axis] || s === 0) {
         wrms[axis] = d.rms;
-        wrmsSeat[axis] = `seat${s + 1}`;
+        wrmsSeat[axis] = seat;
+        crest[axis] = d.rms > 0 ? d.peak / d.rms : 0;
+      }
+      // VDV and MTVV each at their own worst seat: a seat with a lower r.m.s. can take harder shocks.
+      if (d.vdv > vdvs[axis] || s === 0) {
         vdvs[axis] = d.vdv;
+        vdvSeat[axis] = seat;
+      }
+      if (d.mtvv > mtvv[axis] || s === 0) {
+        mtvv[axis] = d.mtvv;
+        mtvvSeat[axis] = seat;
       }
     }
   }
@@ -441,12 +544,16 @@ export function comfortFigures(input: CheckInput, rate_hz: number): ComfortSumma
   const weightingNote =
     up > 1
       ? `Wk and Wd were evaluated at ${rate_hz * up} Hz (the ${rate_hz} Hz track interpolated up ${up} times) so ` +
-        `their 100 Hz band limit is kept; the track itself holds nothing above ${rate_hz / 2} Hz.`
+        `their 100 Hz band limit is kept; the track itself was band-limited below ${Number((0.45 * rate_hz).toPrecision(6))} Hz by the anti-alias low-pass.`
       : `Wk and Wd were evaluated at the track rate ${rate_hz} Hz.`;
   return {
     wrms_mps2: wrms,
     wrmsSeat,
     vdv_mps1_75: vdvs,
+    vdvSeat,
+    crestFactor: crest,
+    mtvv_mps2: mtvv,
+    mtvvSeat,
     msdvZ_mps1_5: msdvZ,
     msdvSeat,
     vomitShare_pct: vomitingShare_percent(msdvZ),

@@ -1,6 +1,11 @@
 // The rider's acceleration-duration envelope (docs/motion-conventions.md sections 5-7). For each row (duration d,
 // lower, upper) the longest continuous time outside [lower, upper] must be shorter than d; d = 0 makes
-// the row an absolute bound. A value exactly on a bound is inside.
+// the row an absolute bound. For a timed row a value exactly on a bound is inside. An absolute row is
+// a use ratio like any other check (bandRatio, 1 on the bound), and a ratio at or over 1 is a finding,
+// so a value exactly on an absolute bound (1.0 g against 1.0 g) is a finding.
+//
+// Besides each violating excursion, every row reports the whole time spent outside it over the track
+// and the number of separate excursions, so ten 0.4 s dips against a 1 s row read as what they are.
 //
 // Time outside is counted on the sample grid: an excursion of k consecutive samples outside lasts
 // k / rate seconds (each sample stands for one sample interval). That errs on the safe side by up to one
@@ -21,6 +26,16 @@ export interface EnvelopeViolation {
   /** The bound crossed (g) for an absolute row, the row's duration (s) for a timed row. */
   limit: number;
   ratio: number;
+  /** Whole time outside this row over the track, s, and the number of excursions. */
+  rowOutside_s: number;
+  rowExcursions: number;
+}
+
+/** One row's totals over the track. */
+export interface EnvelopeRowSummary {
+  ratio: number;
+  totalOutside_s: number;
+  excursions: number;
 }
 
 /** Worst use of one axis signal against its envelope rows. */
@@ -30,6 +45,8 @@ export interface EnvelopeAxisResult {
   /** Row that gave the worst ratio. */
   worstRow: number;
   violations: EnvelopeViolation[];
+  /** Per row: its worst ratio, the whole time outside it (s) and the number of excursions. */
+  rows: EnvelopeRowSummary[];
 }
 
 /**
@@ -56,9 +73,13 @@ export function checkEnvelopeAxis(
   rest_g: number,
 ): EnvelopeAxisResult {
   const violations: EnvelopeViolation[] = [];
+  const summaries: EnvelopeRowSummary[] = [];
   let worst = 0;
   let worstRow = 0;
   for (let r = 0; r < rows.length; r++) {
+    const rowFirstViolation = violations.length;
+    let outsideCount = 0;
+    let excursions = 0;
     const row = rows[r] as EnvelopeRow;
     const d_s = row[0];
     const lo = row[1];
@@ -70,6 +91,8 @@ export function checkEnvelopeAxis(
     const closeRun = (last: number) => {
       const count = last - runFirst + 1;
       const duration_s = count / rate_hz;
+      outsideCount += count;
+      excursions++;
       if (d_s === 0) {
         violations.push({
           row: r,
@@ -79,6 +102,8 @@ export function checkEnvelopeAxis(
           value: peakValue,
           limit: peakValue > rest_g ? hi : lo,
           ratio: peakRatio,
+          rowOutside_s: 0,
+          rowExcursions: 0,
         });
       } else {
         const ratio = duration_s / d_s;
@@ -92,6 +117,8 @@ export function checkEnvelopeAxis(
             value: duration_s,
             limit: d_s,
             ratio,
+            rowOutside_s: 0,
+            rowExcursions: 0,
           });
         }
       }
@@ -99,10 +126,12 @@ export function checkEnvelopeAxis(
     };
     for (let i = 0; i < n; i++) {
       const v = signal_g[offset + i * stride] as number;
-      const outside = v < lo || v > hi;
+      let outside: boolean;
       if (d_s === 0) {
         const q = bandRatio(v, lo, hi, rest_g);
         if (q > rowRatio) rowRatio = q;
+        // At or over the bound: ratio >= 1 (see the file comment).
+        outside = q >= 1;
         if (outside) {
           if (runFirst < 0) {
             runFirst = i;
@@ -113,16 +142,24 @@ export function checkEnvelopeAxis(
             peakValue = v;
           }
         }
-      } else if (outside && runFirst < 0) {
-        runFirst = i;
+      } else {
+        outside = v < lo || v > hi;
+        if (outside && runFirst < 0) runFirst = i;
       }
       if (!outside && runFirst >= 0) closeRun(i - 1);
     }
     if (runFirst >= 0) closeRun(n - 1);
+    const totalOutside_s = outsideCount / rate_hz;
+    for (let v = rowFirstViolation; v < violations.length; v++) {
+      const viol = violations[v] as EnvelopeViolation;
+      viol.rowOutside_s = totalOutside_s;
+      viol.rowExcursions = excursions;
+    }
+    summaries.push({ ratio: rowRatio, totalOutside_s, excursions });
     if (rowRatio > worst) {
       worst = rowRatio;
       worstRow = r;
     }
   }
-  return { ratio: worst, worstRow, violations };
+  return { ratio: worst, worstRow, violations, rows: summaries };
 }

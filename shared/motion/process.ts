@@ -20,17 +20,16 @@ import {
   hexapodForward,
   hexapodGeometry,
   hexapodInverse,
-  hexapodLegAccelerations,
   hexapodLegSpeeds,
-  poseRates,
 } from './hexapod';
 import { planar3ConditionNumbers, planar3Forward, planar3Geometry, planar3Inverse } from './planar3';
-import { resampleHermite, resampleTrack } from './resample';
+import { bandLimitedDerivative, differentiator, ANTI_ALIAS_CUTOFF } from './band-limit';
+import type { RemovedContent } from './resample';
+import { resampleAntiAlias } from './resample';
 import type { PoseOffsetTrack } from './seat-force';
 import { platformMotion, seatForceFromMotion } from './seat-force';
 import type { WelchPsd } from './spectra';
 import { SICKNESS_BAND_HZ, bandPower, totalPower, welchPsd, welchSegmentLength } from './spectra';
-import { derivative } from './track-derivative';
 import type { Track } from './track-reader';
 import { trackColumn } from './track-reader';
 import { cueClassical } from './washout';
@@ -119,9 +118,11 @@ export function processTrack(input: ProcessInput): ProcessResult {
     );
   }
   const rate_hz = base.controllerRate_hz;
-  // Platform motion (pose, legs) is resampled on a smooth curve so its derivatives stay true; a vehicle
-  // track goes through the washout's filters and double integration, which smooth it anyway.
-  const rs = track.kind === 'vehicle' ? resampleTrack(track, rate_hz) : resampleHermite(track, rate_hz);
+  // Every track reaches the controller rate through the anti-alias low-pass (resampleAntiAlias):
+  // platform motion (pose, legs) on a cubic Hermite curve, a vehicle track on straight segments (the
+  // washout's filters and double integration smooth it anyway).
+  const decimated = resampleAntiAlias(track, rate_hz);
+  const rs = decimated.track;
   const n = rs.length;
   if (n < 4) {
     throw new ProcessInputError(
@@ -196,18 +197,29 @@ export function processTrack(input: ProcessInput): ProcessResult {
   let legAccel: Float64Array[];
   let conditioning: Float64Array | undefined;
   const wantConditioning = budget.comfort.conditioningMax !== undefined;
+  // Pose rates and leg accelerations are exact derivatives of the band-limited interpolant at the
+  // controller rate (band-limit.ts), so they do not depend on the rate for content it can carry.
+  const D = differentiator(rate_hz);
+  const d1 = (a: Float64Array) => bandLimitedDerivative(D, 1, a);
   if (base.kind === 'hexapod') {
     const g = hexapodGeometry(base);
     legs ??= hexapodInverse(g, pose);
-    legSpeed = hexapodLegSpeeds(g, pose, poseRates(time_s, pose));
-    legAccel = hexapodLegAccelerations(time_s, legSpeed);
+    legSpeed = hexapodLegSpeeds(g, pose, {
+      vx_mps: d1(pose.x_m),
+      vy_mps: d1(pose.y_m),
+      vz_mps: d1(pose.z_m),
+      droll_radps: d1(pose.roll_rad),
+      dpitch_radps: d1(pose.pitch_rad),
+      dyaw_radps: d1(pose.yaw_rad),
+    });
+    legAccel = legSpeed.map(d1);
     if (wantConditioning) conditioning = hexapodConditionNumbers(g, pose);
   } else {
     const g = planar3Geometry(base);
     const planarPose = { x_m: pose.x_m, y_m: pose.y_m, yaw_rad: pose.yaw_rad };
     legs ??= planar3Inverse(g, planarPose);
-    legSpeed = legs.map((l) => derivative(time_s, l));
-    legAccel = legSpeed.map((v) => derivative(time_s, v));
+    legSpeed = legs.map(d1);
+    legAccel = legSpeed.map(d1);
     if (wantConditioning) conditioning = planar3ConditionNumbers(g, planarPose);
   }
 
@@ -271,9 +283,11 @@ export function processTrack(input: ProcessInput): ProcessResult {
       ...(conditioning ? { conditioning } : {}),
       ...(seatForceModel ? { seatForceModel } : {}),
       legLimits: base.leg,
+      bandLimit: decimated.removed.map((r) => ({ subject: axisName(r.name), share: removedShare(r) })),
     },
     budget,
   );
+  notes.push(bandLimitNote(decimated.removed, rate_hz));
   notes.push(...check.notes);
   if (check.comfort) notes.push(check.comfort.weightingNote);
 
@@ -303,6 +317,33 @@ export function processTrack(input: ProcessInput): ProcessResult {
       seat1Force_mps2: seat1 ? seat1.map((f) => decimateMinMax(f, 0, 1, n, t0, rate_hz, buckets)) : [],
     },
   };
+}
+
+// Below these r.m.s. levels an axis counts as still, so a share of nothing is not a finding (m, rad,
+// m/s^2, rad/s; common practice for measurement noise floors, well under anything a rider feels).
+const STILL_RMS: Readonly<Record<string, number>> = { m: 1e-5, rad: 1e-5, mps2: 1e-3, radps: 1e-4 };
+
+/** The share (0..1) of a column's r.m.s. the anti-alias low-pass removed, a still axis counting as its floor. */
+export function removedShare(r: RemovedContent): number {
+  const unit = r.name.slice(r.name.lastIndexOf('_') + 1);
+  const floor = STILL_RMS[unit] ?? 0;
+  const total = Math.max(r.totalRms, floor);
+  return total > 0 ? Math.min(1, r.removedRms / total) : 0;
+}
+
+/** 'roll_rad' -> 'roll': the axis a column carries, without its unit. */
+const axisName = (column: string) => column.slice(0, Math.max(0, column.lastIndexOf('_'))) || column;
+
+function bandLimitNote(removed: readonly RemovedContent[], rate_hz: number): string {
+  const cut = sig(ANTI_ALIAS_CUTOFF * rate_hz);
+  const parts = removed.map((r) => {
+    return `${axisName(r.name)} ${(removedShare(r) * 100).toFixed(1)} %`;
+  });
+  return (
+    `Decimated to the ${rate_hz} Hz controller rate through an anti-alias low-pass (Kaiser-windowed sinc, ` +
+    `cut-off ${cut} Hz = ${ANTI_ALIAS_CUTOFF} x the rate, zero phase); share of each axis' r.m.s. removed: ` +
+    `${parts.join(', ')}.`
+  );
 }
 
 function riderSpectra(
@@ -383,6 +424,12 @@ export function findingsForJson(check: CheckResult, notes: readonly string[] = [
       ...c,
       wrms_mps2: { x: sig(c.wrms_mps2.x), y: sig(c.wrms_mps2.y), z: sig(c.wrms_mps2.z) },
       vdv_mps1_75: { x: sig(c.vdv_mps1_75.x), y: sig(c.vdv_mps1_75.y), z: sig(c.vdv_mps1_75.z) },
+      ...(c.crestFactor
+        ? { crestFactor: { x: sig(c.crestFactor.x), y: sig(c.crestFactor.y), z: sig(c.crestFactor.z) } }
+        : {}),
+      ...(c.mtvv_mps2
+        ? { mtvv_mps2: { x: sig(c.mtvv_mps2.x), y: sig(c.mtvv_mps2.y), z: sig(c.mtvv_mps2.z) } }
+        : {}),
       msdvZ_mps1_5: sig(c.msdvZ_mps1_5),
       vomitShare_pct: sig(c.vomitShare_pct),
     };
@@ -505,9 +552,10 @@ export function packageContents(
       controller_hz: result.rate_hz,
       samples: result.time_s.length,
       resampling:
-        source.track.kind === 'vehicle'
-          ? 'linear interpolation onto the controller grid'
-          : 'cubic Hermite interpolation (three-point slopes) onto the controller grid',
+        (source.track.kind === 'vehicle'
+          ? 'linear interpolation onto a fine grid'
+          : 'cubic Hermite interpolation (three-point slopes) onto a fine grid') +
+        `, then an anti-alias Kaiser-windowed sinc low-pass (cut-off ${sig(ANTI_ALIAS_CUTOFF * result.rate_hz)} Hz) read at the controller instants`,
       riderLowPass: `4-pole Butterworth, ${RIDER_LOWPASS_HZ} Hz (common practice)`,
       weighting: result.findings.comfort?.weightingNote ?? null,
     },

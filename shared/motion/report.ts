@@ -43,8 +43,10 @@ const CHECK_WORDS: Record<Finding['check'], string> = {
   angularAccel: 'platform angular acceleration',
   msdv: 'motion sickness dose (MSDV z)',
   wrms: 'frequency-weighted r.m.s. acceleration',
+  vdv: 'vibration dose value (VDV)',
   conditioning: 'kinematic conditioning (near-singular pose)',
   startEnd: 'start and end at neutral, at rest',
+  outOfBand: 'content above the controller band (removed)',
 };
 
 const fmt = (v: number, digits = 4) => Number(v.toPrecision(digits)).toString();

@@ -6,6 +6,7 @@
 // controller rates, so this matches interpolating the rotation itself far below the tolerances used.
 
 import type { Track } from './track-reader';
+import { antiAliasTaps, decimateColumn } from './band-limit';
 import { derivativeInto } from './track-derivative';
 
 // Grid points within this many periods of the end still count (absorbs floating-point round-off
@@ -117,4 +118,132 @@ export function resampleHermite(track: Track, rate_hz: number): Track {
     return out;
   });
   return { kind: track.kind, layout: track.layout, length: m, time_s, names: track.names, columns };
+}
+
+/** Median of the sample spacings of strictly increasing times (s); 0 for fewer than two samples. */
+export function medianSpacing(time_s: Float64Array): number {
+  const n = time_s.length;
+  if (n < 2) return 0;
+  const d = new Float64Array(n - 1);
+  for (let i = 0; i < n - 1; i++) d[i] = (time_s[i + 1] as number) - (time_s[i] as number);
+  return selectKth(d, (n - 2) >> 1);
+}
+
+/** The k-th smallest value of a (reordered in place): Hoare's selection, expected linear time. */
+function selectKth(a: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (lo < hi) {
+    const pivot = a[(lo + hi) >> 1] as number;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while ((a[i] as number) < pivot) i++;
+      while ((a[j] as number) > pivot) j--;
+      if (i <= j) {
+        const t = a[i] as number;
+        a[i] = a[j] as number;
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else break;
+  }
+  return a[k] as number;
+}
+
+/** Content the anti-alias low-pass removed from one column (units of the column). */
+export interface RemovedContent {
+  name: string;
+  removedRms: number;
+  totalRms: number;
+}
+
+/**
+ * Resamples a track to rate_hz through the anti-alias low-pass of band-limit.ts: each column is
+ * interpolated (linearly for a vehicle track, by the cubic Hermite of resampleHermite otherwise) onto
+ * a fine grid of m x rate_hz with m the smallest whole number that makes the fine grid at least as
+ * dense as the track's median spacing, low-passed there, and read at the controller instants (the
+ * grid of resampleLinear). Returns the track and, per column, the r.m.s. removed.
+ */
+export function resampleAntiAlias(
+  track: Track,
+  rate_hz: number,
+): { track: Track; removed: RemovedContent[]; fineFactor: number } {
+  const t = track.time_s;
+  const n = t.length;
+  if (n < 3) return { track: resampleTrack(track, rate_hz), removed: [], fineFactor: 1 };
+  const t0 = t[0] as number;
+  const tEnd = t[n - 1] as number;
+  const count = uniformGridLength(t0, tEnd, rate_hz);
+  const spacing = medianSpacing(t);
+  const m = Math.max(1, Math.ceil(1 / (spacing * rate_hz) - 1e-9));
+  const fineRate = m * rate_hz;
+  const nf = uniformGridLength(t0, tEnd, fineRate);
+  const fineT = new Float64Array(nf);
+  for (let j = 0; j < nf; j++) fineT[j] = Math.min(t0 + j / fineRate, tEnd);
+  const time_s = new Float64Array(count);
+  for (let k = 0; k < count; k++) time_s[k] = Math.min(t0 + k / rate_hz, tEnd);
+  const taps = antiAliasTaps(m);
+  const linear = track.kind === 'vehicle';
+  const slope = new Float64Array(n);
+  const fine = new Float64Array(nf);
+  const removed: RemovedContent[] = [];
+  const columns = track.columns.map((col, c) => {
+    if (linear) linearColumnInto(t, col, fineT, fine);
+    else hermiteColumnInto(t, col, slope, fineT, fine);
+    const d = decimateColumn(fine, m, count, taps);
+    removed.push({
+      name: track.names[c] ?? `column${c + 1}`,
+      removedRms: d.removedRms,
+      totalRms: d.totalRms,
+    });
+    return d.values;
+  });
+  return {
+    track: { kind: track.kind, layout: track.layout, length: count, time_s, names: track.names, columns },
+    removed,
+    fineFactor: m,
+  };
+}
+
+function linearColumnInto(t: Float64Array, col: Float64Array, at: Float64Array, out: Float64Array): void {
+  const n = t.length;
+  let j = 0;
+  for (let k = 0; k < at.length; k++) {
+    const tk = at[k] as number;
+    while (j < n - 2 && (t[j + 1] as number) <= tk) j++;
+    const ta = t[j] as number;
+    const w = (tk - ta) / ((t[j + 1] as number) - ta);
+    out[k] = (col[j] as number) + ((col[j + 1] as number) - (col[j] as number)) * w;
+  }
+}
+
+function hermiteColumnInto(
+  t: Float64Array,
+  col: Float64Array,
+  slope: Float64Array,
+  at: Float64Array,
+  out: Float64Array,
+): void {
+  const n = t.length;
+  derivativeInto(t, col, slope);
+  let j = 0;
+  for (let k = 0; k < at.length; k++) {
+    const tk = at[k] as number;
+    while (j < n - 2 && (t[j + 1] as number) <= tk) j++;
+    const ta = t[j] as number;
+    const h = (t[j + 1] as number) - ta;
+    const s = (tk - ta) / h;
+    const s2 = s * s;
+    const s3 = s2 * s;
+    out[k] =
+      (2 * s3 - 3 * s2 + 1) * (col[j] as number) +
+      (s3 - 2 * s2 + s) * h * (slope[j] as number) +
+      (-2 * s3 + 3 * s2) * (col[j + 1] as number) +
+      (s3 - s2) * h * (slope[j + 1] as number);
+  }
 }

@@ -1,7 +1,7 @@
 // Classical washout (Reid and Nahon, UTIAS reports 1985-86; Nahon and Reid 1990) over a whole track,
 // docs/motion-conventions.md section 4. Channels run one after another over Float64Arrays at the processing rate:
 //   scale + soft limit -> translational high-pass -> double integration -> position
-//   scaled surge/sway -> low-pass -> tilt (asin, angle limit, rate limit)
+//   scaled surge/sway -> low-pass -> tilt (asin, angle limit, smooth rate and acceleration limit)
 //   scaled angular velocity -> high-pass -> Euler rates -> integration, plus tilt -> angles
 // and a final soft limit keeps every pose offset inside the profile's poseLimit.
 //
@@ -198,17 +198,18 @@ export function cueClassical(vehicle: VehicleTrack, profile: CueingProfile): Cue
   const tiltPitch = new Float64Array(n);
   const tiltRoll = new Float64Array(n);
   const tiltMax = profile.tilt.angleLimit_deg * RAD;
-  const tiltStep = profile.tilt.rateLimit_degps * RAD * dt;
-  let tp = 0;
-  let tr = 0;
+  const limits = {
+    rate: profile.tilt.rateLimit_degps * RAD,
+    accel: profile.tilt.accelLimit_degps2 * RAD,
+  };
+  const pitchCmd = new Float64Array(n);
+  const rollCmd = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    const cp = clamp(-Math.asin(clamp((lx[i] as number) / G0, -1, 1)), -tiltMax, tiltMax);
-    const cr = clamp(Math.asin(clamp((ly[i] as number) / G0, -1, 1)), -tiltMax, tiltMax);
-    tp += clamp(cp - tp, -tiltStep, tiltStep);
-    tr += clamp(cr - tr, -tiltStep, tiltStep);
-    tiltPitch[i] = tp;
-    tiltRoll[i] = tr;
+    pitchCmd[i] = clamp(-Math.asin(clamp((lx[i] as number) / G0, -1, 1)), -tiltMax, tiltMax);
+    rollCmd[i] = clamp(Math.asin(clamp((ly[i] as number) / G0, -1, 1)), -tiltMax, tiltMax);
   }
+  smoothTiltInto(pitchCmd, dt, limits, tiltPitch);
+  smoothTiltInto(rollCmd, dt, limits, tiltRoll);
 
   // 4. Rotational channel: high-pass the body rates, turn them into Euler rates at the platform's
   // current (limited, hence far from the pitch singularity) attitude, integrate, add the tilt.
@@ -273,6 +274,40 @@ export function cueClassical(vehicle: VehicleTrack, profile: CueingProfile): Cue
       riderForce_mps2: seatSpecificForce(pose, [ref[0], ref[1], ref[2]]),
     },
   };
+}
+
+/** Knee of the tilt limiter's soft limits: linear (exact tracking) below 0.8 of each limit. */
+const TILT_KNEE = 0.8;
+
+/**
+ * Tilt that follows a commanded angle (rad) with its rate and angular acceleration smoothly limited:
+ * the wanted rate is the command's own rate plus a correction kp (command - tilt), soft-limited to the
+ * rate limit; the angular acceleration that would reach it in one step is soft-limited to the
+ * acceleration limit and integrated. Below the knees the tilt equals the command exactly; above them
+ * the rate approaches its limit without a step and never passes it. kp = a_max / (2 w_max) keeps the
+ * deceleration toward the command inside the linear range, so the tilt does not overshoot. Starts at
+ * neutral, at rest. A hard clamp on the rate instead steps it each time the clamp engages or lets go,
+ * an angular acceleration impulse that grows with the processing rate.
+ */
+export function smoothTiltInto(
+  command: Float64Array,
+  dt: number,
+  limits: { rate: number; accel: number },
+  out: Float64Array,
+): void {
+  const n = command.length;
+  const kp = limits.accel / (2 * limits.rate);
+  let angle = 0;
+  let rate = 0;
+  for (let i = 0; i < n; i++) {
+    out[i] = angle;
+    const c = command[i] as number;
+    const next = i + 1 < n ? (command[i + 1] as number) : c;
+    const wanted = softLimit((next - c) / dt + kp * (c - angle), limits.rate, TILT_KNEE);
+    const accel = softLimit((wanted - rate) / dt, limits.accel, TILT_KNEE);
+    rate += accel * dt;
+    angle += rate * dt;
+  }
 }
 
 function clamp(v: number, lo: number, hi: number): number {

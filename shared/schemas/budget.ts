@@ -79,6 +79,8 @@ export const comfortLimitsSchema = z.strictObject({
   angularAccelMax_radps2: positive('angularAccelMax_radps2'),
   msdvZMax_mps1_5: positive('msdvZMax_mps1_5'),
   wrmsMax_mps2: positive('wrmsMax_mps2'),
+  /** Optional VDV limit per axis at the worst seat (ISO 2631-1 fourth-power dose), m/s^1.75. */
+  vdvMax_mps1_75: positive('vdvMax_mps1_75').optional(),
   // Dimensionless; a condition number is at least 1, so a limit at or below 1 could never be met.
   conditioningMax: finite('conditioningMax')
     .refine((v) => v > 1, 'conditioningMax must be greater than 1')

@@ -64,10 +64,15 @@ const inputLimitSchema = z.strictObject({
   angularRate_radps: limiterSchema,
 });
 
+/** Default tilt angular acceleration limit, deg/s^2 (common practice: the 3 deg/s rate is reached in 0.6 s). */
+export const DEFAULT_TILT_ACCEL_LIMIT_DEGPS2 = 5;
+
 const tiltSchema = z.strictObject({
   lowPassFrequency_radps: positive(100),
   damping: positive(5),
   rateLimit_degps: positive(30),
+  /** Limit on the tilt's angular acceleration; profiles stored before it existed take the default. */
+  accelLimit_degps2: positive(1000).default(DEFAULT_TILT_ACCEL_LIMIT_DEGPS2),
   angleLimit_deg: positive(30),
 });
 
@@ -102,7 +107,13 @@ export const DEFAULT_CUEING_PROFILE = {
     y: { order: 3, naturalFrequency_radps: 2.5, damping: 1, breakFrequency_radps: 0.5 },
     z: { order: 3, naturalFrequency_radps: 4, damping: 1, breakFrequency_radps: 0.5 },
   },
-  tilt: { lowPassFrequency_radps: 5, damping: 1, rateLimit_degps: 3, angleLimit_deg: 10 },
+  tilt: {
+    lowPassFrequency_radps: 5,
+    damping: 1,
+    rateLimit_degps: 3,
+    accelLimit_degps2: DEFAULT_TILT_ACCEL_LIMIT_DEGPS2,
+    angleLimit_deg: 10,
+  },
   rotational: {
     x: { order: 2, frequency_radps: 1, damping: 1 },
     y: { order: 2, frequency_radps: 1, damping: 1 },

@@ -12,8 +12,10 @@ export const CHECK_NAMES = [
   'angularAccel',
   'msdv',
   'wrms',
+  'vdv',
   'conditioning',
   'startEnd',
+  'outOfBand',
 ] as const;
 export const checkNameSchema = z.enum(CHECK_NAMES);
 export type CheckName = z.infer<typeof checkNameSchema>;
@@ -32,8 +34,10 @@ export const CHECK_SEVERITY: Readonly<Record<CheckName, Severity>> = {
   angularAccel: 'comfort',
   msdv: 'comfort',
   wrms: 'comfort',
+  vdv: 'comfort',
   conditioning: 'comfort',
   startEnd: 'hard',
+  outOfBand: 'comfort',
 };
 
 /** The unit of each check's value and limit (the unit of the budget key it checks). */
@@ -48,9 +52,12 @@ export const CHECK_UNIT: Readonly<Record<CheckName, string>> = {
   angularAccel: 'rad/s^2',
   msdv: 'm/s^1.5',
   wrms: 'm/s^2',
+  vdv: 'm/s^1.75',
   conditioning: '1',
   // The pose offset or rate that is furthest outside its tolerance; the finding carries its unit.
   startEnd: 'm, rad, m/s or rad/s',
+  // The share of an axis' r.m.s. that the anti-alias low-pass removed, against 0.05.
+  outOfBand: '1',
 };
 
 const finiteNumber = z.number().refine(Number.isFinite, 'must be finite');
@@ -71,6 +78,10 @@ export const findingSchema = z.object({
   /** startEnd: which pose offset or rate (e.g. "pitch", "x rate") and its unit. */
   quantity: z.string().min(1).optional(),
   unit: z.string().min(1).optional(),
+  /** Envelope findings: the whole time (s) the axis spent outside this row's band over the track. */
+  totalOutside_s: finiteNumber.optional(),
+  /** Envelope findings: how many separate excursions outside this row's band the track has. */
+  excursions: z.number().int().nonnegative().optional(),
 });
 export type Finding = z.infer<typeof findingSchema>;
 
@@ -79,6 +90,10 @@ export const useSchema = z.object({
   subject: z.string().min(1),
   ratio: finiteNumber,
   axis: z.enum(['x', 'y', 'z']).optional(),
+  /** Envelope uses: the row that gave the worst ratio, with its whole time outside (s) and excursions. */
+  row: z.number().int().nonnegative().optional(),
+  totalOutside_s: finiteNumber.optional(),
+  excursions: z.number().int().nonnegative().optional(),
 });
 export type Use = z.infer<typeof useSchema>;
 
@@ -87,6 +102,13 @@ export const comfortSummarySchema = z.object({
   wrms_mps2: z.object({ x: finiteNumber, y: finiteNumber, z: finiteNumber }),
   wrmsSeat: z.object({ x: z.string(), y: z.string(), z: z.string() }),
   vdv_mps1_75: z.object({ x: finiteNumber, y: finiteNumber, z: finiteNumber }),
+  /** The seat with the highest VDV per axis (VDV is reported at its own worst seat). */
+  vdvSeat: z.object({ x: z.string(), y: z.string(), z: z.string() }).optional(),
+  /** Crest factor (peak / r.m.s. of the weighted signal) at the wrms seat per axis; above 9 the r.m.s. may understate (ISO 2631-1 6.2.1). */
+  crestFactor: z.object({ x: finiteNumber, y: finiteNumber, z: finiteNumber }).optional(),
+  /** Maximum transient vibration value: the largest 1 s running r.m.s. (ISO 2631-1 6.3.1), m/s^2, at its worst seat. */
+  mtvv_mps2: z.object({ x: finiteNumber, y: finiteNumber, z: finiteNumber }).optional(),
+  mtvvSeat: z.object({ x: z.string(), y: z.string(), z: z.string() }).optional(),
   msdvZ_mps1_5: finiteNumber,
   msdvSeat: z.string(),
   /** Km * MSDV_z with Km = 1/3 (ISO 2631-1 Annex D): per cent of people who may vomit. */

@@ -52,6 +52,7 @@ describe('a quiet track', () => {
       'startEnd/end',
       // The demo budget sets a conditioning limit.
       'conditioning/platform',
+      ...['x', 'y', 'z', 'roll', 'pitch', 'yaw'].map((a) => `outOfBand/${a}`),
     ];
     expect([...uses.keys()].sort()).toEqual(expected.sort());
     // 1.874 m at neutral lies below the middle of [1.5 + 0.02, 2.3 - 0.02] m: ratio = lower bound / length.

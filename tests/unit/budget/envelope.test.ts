@@ -39,16 +39,38 @@ describe('envelope rule', () => {
     expect(r.worstRow).toBe(1);
   });
 
-  it('counts a value exactly on a bound as inside', () => {
+  it('a value exactly on an absolute bound has ratio 1 and is a finding; on a timed row it is inside', () => {
+    // Findings are for use ratios at or over 1 (the budget rule); 1.0 g against a 1.0 g bound is ratio 1.
     const onBound = new Float64Array(300).fill(1.0);
     const r = checkEnvelopeAxis(onBound, 0, 1, onBound.length, RATE, [[0, -1, 1]], 0);
-    expect(r.violations).toHaveLength(0);
     expect(r.ratio).toBe(1);
-    const justOver = new Float64Array(300).fill(1.0);
-    justOver[150] = 1.0 + 1e-9;
-    expect(checkEnvelopeAxis(justOver, 0, 1, justOver.length, RATE, [[0, -1, 1]], 0).violations).toHaveLength(
-      1,
-    );
+    expect(r.violations).toHaveLength(1);
+    expect(r.violations[0]?.ratio).toBe(1);
+    expect(r.violations[0]?.value).toBe(1);
+    expect(r.violations[0]?.limit).toBe(1);
+    // A timed row asks for strictly less time outside [lower, upper]; the bound itself is inside.
+    const timed = checkEnvelopeAxis(onBound, 0, 1, onBound.length, RATE, [[0.5, -1, 1]], 0);
+    expect(timed.violations).toHaveLength(0);
+    expect(timed.rows[0]?.totalOutside_s).toBe(0);
+    const below = new Float64Array(300).fill(0.999);
+    expect(checkEnvelopeAxis(below, 0, 1, below.length, RATE, [[0, -1, 1]], 0).violations).toHaveLength(0);
+  });
+
+  it('reports the whole time outside a row and the number of excursions: ten 0.4 s dips against 1 s', () => {
+    // Ten separate 0.4 s excursions: none breaks a 1 s row (each is shorter), 4 s outside in all.
+    const s = new Float64Array(RATE * 30);
+    for (let k = 0; k < 10; k++) s.fill(0.7, RATE * (2 + 2.5 * k), RATE * (2 + 2.5 * k) + RATE * 0.4);
+    const r = checkEnvelopeAxis(s, 0, 1, s.length, RATE, [[1, -0.5, 0.5]], 0);
+    expect(r.violations).toHaveLength(0);
+    expect(r.rows[0]?.excursions).toBe(10);
+    expect(r.rows[0]?.totalOutside_s).toBeCloseTo(4, 9);
+    expect(r.ratio).toBeCloseTo(0.4, 9);
+    // One of them lengthened to 1.2 s: a finding, which carries the row's totals.
+    s.fill(0.7, RATE * 2, RATE * 3.2);
+    const v = checkEnvelopeAxis(s, 0, 1, s.length, RATE, [[1, -0.5, 0.5]], 0).violations;
+    expect(v).toHaveLength(1);
+    expect(v[0]?.rowExcursions).toBe(10);
+    expect(v[0]?.rowOutside_s).toBeCloseTo(4.8, 9);
   });
 
   it('measures only the longest continuous stretch: a short and a long excursion', () => {

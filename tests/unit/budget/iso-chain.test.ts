@@ -138,28 +138,28 @@ describe('many seats', () => {
       [0.6, 0, 0.7],
     ];
     const base = makeHexapodBase({ controllerRate_hz: rate, seats_m: seats });
-    const c = processTrack({ track, base, chartBuckets: 0 }).check.comfort;
-    const [x_m, y_m, z_m, roll_rad, pitch_rad, yaw_rad] = track.columns as Float64Array[];
-    const pose = { rate_hz: rate, x_m, y_m, z_m, roll_rad, pitch_rad, yaw_rad } as Parameters<
-      typeof seatSpecificForce
-    >[0];
+    const result = processTrack({ track, base, chartBuckets: 0 });
+    const c = result.check.comfort;
+    // The pose the pipeline checked (after its anti-alias resampling), weighted seat by seat.
+    const pose = { rate_hz: rate, ...result.pose };
     let best = { z: -1, seat: '' };
     let bestMsdv = { v: -1, seat: '' };
-    let vdvZ = 0;
+    let bestVdv = { v: -1, seat: '' };
     seats.forEach((r, s) => {
       const f = seatSpecificForce(pose, r);
       const wz = weight(f.z, rate, 'Wk');
       const rz = rms(wz);
-      if (rz > best.z) {
-        best = { z: rz, seat: `seat${s + 1}` };
-        vdvZ = vdv(wz, rate);
-      }
+      if (rz > best.z) best = { z: rz, seat: `seat${s + 1}` };
+      const vz = vdv(wz, rate);
+      if (vz > bestVdv.v) bestVdv = { v: vz, seat: `seat${s + 1}` };
       const m = msdv(weight(f.z, rate, 'Wf'), rate);
       if (m > bestMsdv.v) bestMsdv = { v: m, seat: `seat${s + 1}` };
     });
     expect(c?.wrmsSeat.z).toBe(best.seat);
     expect((c?.wrms_mps2.z ?? NaN) / best.z).toBeCloseTo(1, 9);
-    expect((c?.vdv_mps1_75.z ?? NaN) / vdvZ).toBeCloseTo(1, 9);
+    // VDV at its own worst seat, which need not be the worst-r.m.s. seat.
+    expect(c?.vdvSeat?.z).toBe(bestVdv.seat);
+    expect((c?.vdv_mps1_75.z ?? NaN) / bestVdv.v).toBeCloseTo(1, 9);
     expect(c?.msdvSeat).toBe(bestMsdv.seat);
     expect((c?.msdvZ_mps1_5 ?? NaN) / bestMsdv.v).toBeCloseTo(1, 9);
   });

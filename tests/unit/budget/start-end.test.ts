@@ -32,7 +32,8 @@ describe('startEnd', () => {
     expect(startEnd(r)).toEqual([]);
     const uses = r.check.uses.filter((u) => u.check === 'startEnd');
     expect(uses.map((u) => u.subject)).toEqual(['start', 'end']);
-    for (const u of uses) expect(u.ratio).toBeLessThan(1e-9);
+    // The anti-alias low-pass (pass-band ripple 3e-4) leaves the ends still to within a few 1e-5 of a tolerance.
+    for (const u of uses) expect(u.ratio).toBeLessThan(1e-3);
     expect(r.exitCode).toBe(0);
   });
 
@@ -49,8 +50,9 @@ describe('startEnd', () => {
       unit: 'm',
       limit: tol.position_m,
     });
-    expect(f[0]?.value).toBeCloseTo(0.2, 12);
-    expect(f[0]?.ratio).toBeCloseTo(0.2 / tol.position_m, 9);
+    // Within 1e-6 m: the anti-alias low-pass passes a held offset to within its pass-band ripple.
+    expect(f[0]?.value).toBeCloseTo(0.2, 6);
+    expect(f[0]?.ratio).toBeCloseTo(0.2 / tol.position_m, 4);
     expect(f[0]?.start_s).toBeCloseTo(-0.5 / RATE, 12);
     expect(f[0]?.end_s).toBeCloseTo(0.5 / RATE, 12);
     expect(r.exitCode).toBe(4);
@@ -63,8 +65,8 @@ describe('startEnd', () => {
     const f = startEnd(r);
     expect(f).toHaveLength(1);
     expect(f[0]).toMatchObject({ subject: 'start', quantity: 'pitch', unit: 'rad', severity: 'hard' });
-    expect(f[0]?.value).toBeCloseTo(10 * DEG, 12);
-    expect(f[0]?.ratio).toBeCloseTo((10 * DEG) / tol.angle_rad, 9);
+    expect(f[0]?.value).toBeCloseTo(10 * DEG, 6);
+    expect(f[0]?.ratio).toBeCloseTo((10 * DEG) / tol.angle_rad, 4);
     expect(r.exitCode).toBe(4);
   });
 
