@@ -22,6 +22,7 @@ import {
   locateJsonPath,
   scanJson,
 } from '../../shared/schemas/json-input';
+import { trackName } from '../../shared/motion/track-names';
 
 /** Exit codes of docs/motion-conventions.md section 7 (1 is left for failures of the program itself). */
 export const EXIT = { ok: 0, internal: 1, badInput: 2, comfort: 3, hard: 4 } as const;
@@ -246,7 +247,7 @@ export async function readBaseAndTrack(
   const track = await readTrackFile(inputPath);
   if (track.kind !== kind || track.layout !== base.kind) {
     throw new CliInputError(
-      `${inputPath} line 1: expected a ${base.kind} ${kind} track (${['time_s', ...trackColumnNames(kind, base.kind)].join(', ')}), found a ${track.layout} ${track.kind} track`,
+      `${inputPath} line 1: expected a ${trackName(kind, base.kind)} (${['time_s', ...trackColumnNames(kind, base.kind)].join(', ')}), found a ${trackName(track.kind, track.layout)}`,
     );
   }
   return { base, track };

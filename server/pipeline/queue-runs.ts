@@ -12,6 +12,7 @@ import { inStudio } from '../db/scope';
 import { badRequest } from '../lib/http-error';
 import { QUEUES } from '../queue';
 import { recordAudit } from '../audit';
+import { trackName } from '../../shared/motion/track-names';
 
 export interface CueRunJob {
   runId: string;
@@ -73,7 +74,7 @@ export async function queueRuns(
       const kind = (v.base as { kind: string }).kind;
       if (opts.take.kind !== 'vehicle' && opts.take.layout !== kind) {
         throw badRequest(
-          `Take ${opts.take.number} is a ${opts.take.layout} ${opts.take.kind} track; ${v.name} is a ${kind} base.`,
+          `Take ${opts.take.number} is a ${trackName(opts.take.kind, opts.take.layout)}; ${v.name} is a ${kind} base.`,
           [{ path: 'venueIds', message: `${v.name}: the take's columns are for another kind of base` }],
         );
       }

@@ -67,7 +67,7 @@ export async function listRuns(db: Db, studioId: string, trackIds?: string[]): P
     .innerJoin(takes, eq(takes.id, cueRuns.takeId))
     .innerJoin(venues, eq(venues.id, cueRuns.venueId))
     .where(inStudio(cueRuns, studioId, trackIds ? inArray(cueRuns.trackId, trackIds) : undefined))
-    .orderBy(desc(cueRuns.createdAt));
+    .orderBy(desc(cueRuns.createdAt), desc(cueRuns.id));
   return rows.map((r) => toRunSummary(r.run, r.takeNumber, r.venueName));
 }
 

@@ -1,7 +1,8 @@
 // Tracks and takes: list, create, read, and the streamed take upload (browser session or API token).
 import { Router } from 'express';
 import { randomUUID } from 'node:crypto';
-import { and, asc, count, desc, eq, exists, ilike, inArray, max, sql } from 'drizzle-orm';
+import { and, asc, count, desc, eq, exists, ilike, inArray, max, notExists, sql } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/pg-core';
 import type { AppDeps } from '../deps';
 import { cueRuns, takes, tracks } from '../db/schema';
 import { inStudio } from '../db/scope';
@@ -44,6 +45,9 @@ export function tracksRouter(deps: AppDeps): Router {
   r.get('/', requirePermission('tracks.read'), async (req, res) => {
     const q = parseBody(tracksQuery, req.query, 'The track list query');
     const studioId = req.member!.studioId;
+    // The filter looks at what each row shows: the latest run per venue (newest created_at, then the
+    // greater id, the same order as listRuns), never an older run of the track.
+    const later = alias(cueRuns, 'later_run');
     const runFilter =
       q.state || q.venueId
         ? exists(
@@ -55,6 +59,18 @@ export function tracksRouter(deps: AppDeps): Router {
                   eq(cueRuns.trackId, tracks.id),
                   q.state ? eq(cueRuns.state, q.state) : undefined,
                   q.venueId ? eq(cueRuns.venueId, q.venueId) : undefined,
+                  notExists(
+                    deps.db
+                      .select({ one: sql`1` })
+                      .from(later)
+                      .where(
+                        and(
+                          eq(later.trackId, cueRuns.trackId),
+                          eq(later.venueId, cueRuns.venueId),
+                          sql`(${later.createdAt}, ${later.id}) > (${cueRuns.createdAt}, ${cueRuns.id})`,
+                        ),
+                      ),
+                  ),
                 ),
               ),
           )

@@ -33,6 +33,7 @@ import { SICKNESS_BAND_HZ, bandPower, totalPower, welchPsd, welchSegmentLength }
 import type { Track } from './track-reader';
 import { trackColumn } from './track-reader';
 import { cueClassical } from './washout';
+import { trackName } from './track-names';
 
 /** Inputs of the pipeline; the track is parsed (SI) but not yet resampled. */
 export interface ProcessInput {
@@ -114,7 +115,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
   }
   if (track.kind !== 'vehicle' && track.layout !== base.kind) {
     throw new ProcessInputError(
-      `a ${track.layout} ${track.kind} track does not fit a ${base.kind} base (its columns are for the other kind)`,
+      `a ${trackName(track.kind, track.layout)} does not fit a ${base.kind} base (its columns are for the other kind)`,
     );
   }
   const rate_hz = base.controllerRate_hz;

@@ -4,6 +4,7 @@
 // column, so the CLI, the API and the worker can show the same message.
 
 import { G0_MPS2, RAD_PER_DEG } from './units';
+import { trackName } from './track-names';
 
 /** The three track kinds of docs/motion-conventions.md section 3. */
 export type TrackKind = 'vehicle' | 'pose' | 'legs';
@@ -409,7 +410,7 @@ export class TrackReader {
           null,
           `${b}_${UNITS[q][0]?.[0]}`,
           'missingColumn',
-          `missing column ${alts} for a ${spec.layout} ${spec.kind} track`,
+          `missing column ${alts} for a ${trackName(spec.kind, spec.layout)}`,
         );
       }
     }
@@ -425,7 +426,7 @@ export class TrackReader {
         c,
         extra ?? null,
         'unknownColumn',
-        `column does not belong to a ${spec.layout} ${spec.kind} track`,
+        `column does not belong to a ${trackName(spec.kind, spec.layout)}`,
       );
     }
     const target = new Int32Array(n);

@@ -7,6 +7,7 @@ import { defaultCueingProfile } from '../../../shared/schemas/cueing-profile';
 import { parseCommandOptions } from '../args';
 import type { CliIo } from '../io';
 import { CAUTION, CliInputError, readProfileFile, readTrackFile, writeCsv } from '../io';
+import { trackName } from '../../../shared/motion/track-names';
 
 /** Processing rate when --rate is not given: the controller rate of the demo motion base. */
 export const DEFAULT_CUE_RATE_HZ = 100;
@@ -82,7 +83,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
     const expected = ['time_s', ...trackColumnNames('vehicle', 'vehicle')].join(', ');
     throw new CliInputError(
       `${args.input} line 1: expected a vehicle track (${expected}, or their _g / _degps variants), found a ` +
-        `${track.layout} ${track.kind} track. \`cue\` turns vehicle motion into platform poses; a pose ` +
+        `${trackName(track.kind, track.layout)}. \`cue\` turns vehicle motion into platform poses; a pose ` +
         'track is already cued and goes straight to `ik` or `check`.',
     );
   }
