@@ -69,11 +69,12 @@ function kaiserBeta(a_db: number): number {
 
 /**
  * Anti-alias low-pass taps on the fine grid of m samples per controller sample: 2H+1 taps, centre at
- * index H, unity DC gain. The cut-off and edges are ANTI_ALIAS_* x the controller rate.
+ * index H, unity DC gain. The cut-off and edges are ANTI_ALIAS_* x the controller rate, all times
+ * `scale` (at most 1) when the track itself is coarser than the controller.
  */
-export function antiAliasTaps(m: number): Float64Array {
-  const fc = ANTI_ALIAS_CUTOFF / m; // cycles per fine sample
-  const width = (ANTI_ALIAS_STOP_EDGE - ANTI_ALIAS_PASS_EDGE) / m;
+export function antiAliasTaps(m: number, scale = 1): Float64Array {
+  const fc = (scale * ANTI_ALIAS_CUTOFF) / m; // cycles per fine sample
+  const width = (scale * (ANTI_ALIAS_STOP_EDGE - ANTI_ALIAS_PASS_EDGE)) / m;
   // Kaiser's length rule: N - 1 = (A - 8) / (2.285 * 2 pi * width).
   const H = Math.ceil((ANTI_ALIAS_ATTENUATION_DB - 8) / (2.285 * 2 * Math.PI * width) / 2);
   const beta = kaiserBeta(ANTI_ALIAS_ATTENUATION_DB);

@@ -288,7 +288,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
     },
     budget,
   );
-  notes.push(bandLimitNote(decimated.removed, rate_hz));
+  notes.push(bandLimitNote(decimated.removed, rate_hz, decimated.bandScale));
   notes.push(...check.notes);
   if (check.comfort) notes.push(check.comfort.weightingNote);
 
@@ -335,14 +335,18 @@ export function removedShare(r: RemovedContent): number {
 /** 'roll_rad' -> 'roll': the axis a column carries, without its unit. */
 const axisName = (column: string) => column.slice(0, Math.max(0, column.lastIndexOf('_'))) || column;
 
-function bandLimitNote(removed: readonly RemovedContent[], rate_hz: number): string {
-  const cut = sig(ANTI_ALIAS_CUTOFF * rate_hz);
+function bandLimitNote(removed: readonly RemovedContent[], rate_hz: number, scale: number): string {
+  const cut = sig(ANTI_ALIAS_CUTOFF * rate_hz * scale);
+  const where =
+    scale < 1
+      ? `0.4 x the track's own rate, which is below the controller's`
+      : `${ANTI_ALIAS_CUTOFF} x the rate`;
   const parts = removed.map((r) => {
     return `${axisName(r.name)} ${(removedShare(r) * 100).toFixed(1)} %`;
   });
   return (
     `Decimated to the ${rate_hz} Hz controller rate through an anti-alias low-pass (Kaiser-windowed sinc, ` +
-    `cut-off ${cut} Hz = ${ANTI_ALIAS_CUTOFF} x the rate, zero phase); share of each axis' r.m.s. removed: ` +
+    `cut-off ${cut} Hz = ${where}, zero phase); share of each axis' r.m.s. removed: ` +
     `${parts.join(', ')}.`
   );
 }

@@ -167,15 +167,16 @@ export interface RemovedContent {
  * interpolated (linearly for a vehicle track, by the cubic Hermite of resampleHermite otherwise) onto
  * a fine grid of m x rate_hz with m the smallest whole number that makes the fine grid at least as
  * dense as the track's median spacing, low-passed there, and read at the controller instants (the
- * grid of resampleLinear). Returns the track and, per column, the r.m.s. removed.
+ * grid of resampleLinear). The band ends at 0.4 x the lower of the controller rate and the track's
+ * own rate. Returns the track and, per column, the r.m.s. removed.
  */
 export function resampleAntiAlias(
   track: Track,
   rate_hz: number,
-): { track: Track; removed: RemovedContent[]; fineFactor: number } {
+): { track: Track; removed: RemovedContent[]; fineFactor: number; bandScale: number } {
   const t = track.time_s;
   const n = t.length;
-  if (n < 3) return { track: resampleTrack(track, rate_hz), removed: [], fineFactor: 1 };
+  if (n < 3) return { track: resampleTrack(track, rate_hz), removed: [], fineFactor: 1, bandScale: 1 };
   const t0 = t[0] as number;
   const tEnd = t[n - 1] as number;
   const count = uniformGridLength(t0, tEnd, rate_hz);
@@ -187,7 +188,11 @@ export function resampleAntiAlias(
   for (let j = 0; j < nf; j++) fineT[j] = Math.min(t0 + j / fineRate, tEnd);
   const time_s = new Float64Array(count);
   for (let k = 0; k < count; k++) time_s[k] = Math.min(t0 + k / rate_hz, tEnd);
-  const taps = antiAliasTaps(m);
+  // A track coarser than the controller holds nothing above its own Nyquist frequency; what the
+  // interpolant adds there (the Hermite curve's jumps in curvature at each sample) is not motion, so
+  // the band then ends at 0.4 x the track's own rate.
+  const scale = Math.min(1, 1 / (spacing * rate_hz));
+  const taps = antiAliasTaps(m, scale);
   const linear = track.kind === 'vehicle';
   const slope = new Float64Array(n);
   const fine = new Float64Array(nf);
@@ -207,6 +212,7 @@ export function resampleAntiAlias(
     track: { kind: track.kind, layout: track.layout, length: count, time_s, names: track.names, columns },
     removed,
     fineFactor: m,
+    bandScale: scale,
   };
 }
 
