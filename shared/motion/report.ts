@@ -3,6 +3,7 @@
 import type { Budget } from '../schemas/budget';
 import type { CheckResult, Finding } from '../schemas/findings';
 import { CHECK_UNIT } from '../schemas/findings';
+import { CHECK_LABELS } from '../labels';
 
 /** The cautions every delivered package carries, in plain words. */
 export const REPORT_CAUTION = [
@@ -33,21 +34,7 @@ export interface ReportContext {
   sicknessBandShare?: { x: number; y: number; z: number };
 }
 
-const CHECK_WORDS: Record<Finding['check'], string> = {
-  stroke: 'leg stroke',
-  legSpeed: 'leg speed',
-  legAccel: 'leg acceleration',
-  envelope: 'rider acceleration envelope',
-  jerk: 'rider jerk',
-  angularSpeed: 'platform angular speed',
-  angularAccel: 'platform angular acceleration',
-  msdv: 'motion sickness dose (MSDV z)',
-  wrms: 'frequency-weighted r.m.s. acceleration',
-  vdv: 'vibration dose value (VDV)',
-  conditioning: 'kinematic conditioning (near-singular pose)',
-  startEnd: 'start and end at neutral, at rest',
-  outOfBand: 'content above the controller band (removed)',
-};
+const CHECK_WORDS: Readonly<Record<Finding['check'], string>> = CHECK_LABELS;
 
 const fmt = (v: number, digits = 4) => Number(v.toPrecision(digits)).toString();
 const pct = (r: number) => `${(Math.floor(r * 1000) / 10).toFixed(1)} %`;

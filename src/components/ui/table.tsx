@@ -17,7 +17,7 @@ export function Th({ className = '', ...rest }: ThHTMLAttributes<HTMLTableCellEl
     <th
       scope="col"
       {...rest}
-      className={`border-b border-ink-200 bg-ink-50 px-3 py-1.5 text-xs font-semibold tracking-wide text-ink-600 uppercase ${className}`}
+      className={`border-b border-ink-200 bg-ink-50 px-3 py-1.5 text-xs font-semibold text-ink-600 ${className}`}
     />
   );
 }

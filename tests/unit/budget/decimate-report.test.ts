@@ -89,7 +89,7 @@ describe('findings JSON and report text', () => {
     });
     expect(text).toMatch(/RESULT: OVER A HARD LIMIT/);
     expect(text).toMatch(
-      /leg stroke, leg3, 12\.31-12\.90 s: 2\.312 m against the limit 2\.28 m \(101\.4 % of the limit\)/,
+      /Leg stroke, leg3, 12\.31-12\.90 s: 2\.312 m against the limit 2\.28 m \(101\.4 % of the limit\)/,
     );
     expect(text).toMatch(/x stayed outside \[-0\.5, 0\.5\] g for 1\.5 s; the row allows less than 1 s/);
     expect(text).toMatch(/DEMO budget/);

@@ -157,24 +157,39 @@ describe('run page', () => {
     renderWithApp(<RunView studioId={STUDIO} runId={RUN} />);
     const table = await screen.findByRole('table', { name: 'Budget uses, largest first' });
     const rows = within(table).getAllByRole('row').slice(1);
+    // People words for the check keys (shared/labels.ts), never the JSON keys themselves.
     expect(rows.map((row) => within(row).getAllByRole('cell')[0]!.textContent)).toEqual([
-      'jerk',
-      'stroke',
-      'legSpeed',
-      'wrms',
+      'Rider jerk',
+      'Leg stroke',
+      'Leg speed',
+      'Weighted r.m.s. acceleration',
     ]);
-    // Severity per check is docs/motion-conventions.md section 7's: stroke and legSpeed hard, jerk and wrms comfort.
-    const severities = rows.map((row) => within(row).getAllByRole('cell')[3]!.textContent);
-    expect(severities).toEqual(
-      ['jerk', 'stroke', 'legSpeed', 'wrms'].map((c) =>
-        CHECK_SEVERITY[c as keyof typeof CHECK_SEVERITY] === 'hard' ? 'hard limit' : 'comfort limit',
-      ),
-    );
-    expect(severities).toEqual(['comfort limit', 'hard limit', 'hard limit', 'comfort limit']);
+    expect(rows.map((row) => within(row).getAllByRole('cell')[1]!.textContent)).toEqual([
+      'Seat 2',
+      'Leg 3',
+      'Leg 1',
+      'z axis',
+    ]);
+    // Tier per check (docs/motion-conventions.md section 7): stroke and leg speed hard, jerk and
+    // r.m.s. comfort. Only a use at or over its limit is coloured; 0.86 and 0.41 read in neutral ink.
+    const tiers = rows.map((row) => within(row).getAllByRole('cell')[3]!);
+    expect(tiers.map((cell) => cell.textContent)).toEqual([
+      'Comfort limit',
+      'Hard limit',
+      'Hard limit',
+      'Comfort limit',
+    ]);
+    expect(
+      ['jerk', 'stroke', 'legSpeed', 'wrms'].map((c) => CHECK_SEVERITY[c as keyof typeof CHECK_SEVERITY]),
+    ).toEqual(['comfort', 'hard', 'hard', 'comfort']);
+    expect(tiers[1]!.firstElementChild).toHaveClass('text-stop-700');
+    expect(tiers[2]!.firstElementChild).not.toHaveClass('text-stop-700');
+    expect(tiers[2]!.firstElementChild).toHaveClass('text-ink-600');
+    expect(tiers[3]!.firstElementChild).toHaveClass('text-ink-600');
     expect(within(rows[1]!).getByRole('meter')).toHaveAttribute('aria-valuenow', '1.014');
 
     const findings = screen.getByRole('table', { name: 'Findings' });
-    const strokeRow = within(findings).getByText('leg3').closest('tr')!;
+    const strokeRow = within(findings).getByText('Leg 3').closest('tr')!;
     expect(strokeRow).toHaveTextContent('12.31–12.90');
     expect(strokeRow).toHaveTextContent('2.312 m');
     expect(strokeRow).toHaveTextContent('2.28 m');

@@ -1,23 +1,34 @@
 import { useState } from 'react';
 import { CHECK_SEVERITY } from '../../../../shared/schemas/findings';
+import { CHECK_LABELS, TIER_LABELS, subjectLabel } from '../../../../shared/labels';
 import type { Use } from '../../../../shared/schemas/findings';
 import { UseRatioBar } from '../../../components/charts/run-badges';
 import { Button } from '../../../components/ui/button';
 import { Empty } from '../../../components/ui/status';
 import { Table, Td, Th } from '../../../components/ui/table';
 
-/** "envelope seat2 (z)": the subject with the axis when the check has one. */
+/** "Seat 2 (z axis)": the subject with the axis when the check has one. */
 export function subjectText(use: Pick<Use, 'subject' | 'axis'>): string {
-  return use.axis && use.axis !== use.subject ? `${use.subject} (${use.axis})` : use.subject;
+  return use.axis && use.axis !== use.subject
+    ? `${subjectLabel(use.subject)} (${subjectLabel(use.axis)})`
+    : subjectLabel(use.subject);
 }
 
-/** "hard limit" in red or "comfort limit" in amber (docs/motion-conventions.md section 6). */
+/**
+ * A finding's tier: red for a hard limit, amber for a comfort limit (docs/motion-conventions.md
+ * section 6). Only findings (a limit reached) are coloured.
+ */
 export function SeverityText({ severity }: { severity: 'hard' | 'comfort' }) {
   return severity === 'hard' ? (
-    <span className="text-xs font-medium text-stop-700">hard limit</span>
+    <span className="text-xs font-medium text-stop-700">{TIER_LABELS.hard}</span>
   ) : (
-    <span className="text-xs font-medium text-signal-600">comfort limit</span>
+    <span className="text-xs font-medium text-signal-600">{TIER_LABELS.comfort}</span>
   );
+}
+
+/** The tier of a check in neutral ink, where no limit has been reached (the use bar carries the colour). */
+export function TierText({ severity }: { severity: 'hard' | 'comfort' }) {
+  return <span className="text-xs text-ink-600">{TIER_LABELS[severity]}</span>;
 }
 
 /** Every check's worst use of its limit, largest first: the budget at a glance. */
@@ -35,19 +46,23 @@ export function BudgetTable({ uses, shortList = 12 }: { uses: readonly Use[]; sh
             <Th>Check</Th>
             <Th>Subject</Th>
             <Th>Use of limit</Th>
-            <Th>Severity</Th>
+            <Th>Tier</Th>
           </tr>
         </thead>
         <tbody>
           {shown.map((use, i) => (
             <tr key={`${use.check}-${use.subject}-${use.axis ?? ''}-${i}`}>
-              <Td className="font-mono text-xs">{use.check}</Td>
-              <Td className="font-mono text-xs">{subjectText(use)}</Td>
+              <Td className="text-xs">{CHECK_LABELS[use.check]}</Td>
+              <Td className="text-xs">{subjectText(use)}</Td>
               <Td>
-                <UseRatioBar ratio={use.ratio} label={`${use.check} ${subjectText(use)}`} />
+                <UseRatioBar ratio={use.ratio} label={`${CHECK_LABELS[use.check]}, ${subjectText(use)}`} />
               </Td>
               <Td>
-                <SeverityText severity={CHECK_SEVERITY[use.check]} />
+                {use.ratio >= 1 ? (
+                  <SeverityText severity={CHECK_SEVERITY[use.check]} />
+                ) : (
+                  <TierText severity={CHECK_SEVERITY[use.check]} />
+                )}
               </Td>
             </tr>
           ))}

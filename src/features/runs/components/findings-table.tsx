@@ -1,4 +1,4 @@
-import { CHECK_UNIT } from '../../../../shared/schemas/findings';
+import { CHECK_LABELS, checkUnit, siUnit } from '../../../../shared/labels';
 import type { Finding } from '../../../../shared/schemas/findings';
 import { formatValue } from '../../../components/charts/format-units';
 import { UseRatioBar } from '../../../components/charts/run-badges';
@@ -20,17 +20,17 @@ export function FindingsTable({ findings }: { findings: readonly Finding[] }) {
           <Th className="text-right">Value</Th>
           <Th className="text-right">Limit</Th>
           <Th>Ratio</Th>
-          <Th>Severity</Th>
+          <Th>Tier</Th>
         </tr>
       </thead>
       <tbody>
         {sorted.map((f, i) => (
           <tr key={`${f.check}-${f.subject}-${f.start_s}-${i}`}>
-            <Td className="font-mono text-xs">
-              {f.check}
+            <Td className="text-xs">
+              {CHECK_LABELS[f.check]}
               {f.row !== undefined ? <span className="text-ink-400"> row {f.row}</span> : null}
             </Td>
-            <Td className="font-mono text-xs">
+            <Td className="text-xs">
               {subjectText(f)}
               {f.quantity !== undefined ? ` (${f.quantity})` : null}
             </Td>
@@ -38,13 +38,13 @@ export function FindingsTable({ findings }: { findings: readonly Finding[] }) {
               {f.start_s.toFixed(2)}–{f.end_s.toFixed(2)}
             </Td>
             <Td className="text-right font-mono text-xs whitespace-nowrap">
-              {formatValue(f.value)} {f.unit ?? CHECK_UNIT[f.check]}
+              {formatValue(f.value)} {f.unit ? siUnit(f.unit) : checkUnit(f.check)}
             </Td>
             <Td className="text-right font-mono text-xs whitespace-nowrap">
-              {formatValue(f.limit)} {f.unit ?? CHECK_UNIT[f.check]}
+              {formatValue(f.limit)} {f.unit ? siUnit(f.unit) : checkUnit(f.check)}
             </Td>
             <Td>
-              <UseRatioBar ratio={f.ratio} label={`${f.check} ${subjectText(f)}`} />
+              <UseRatioBar ratio={f.ratio} label={`${CHECK_LABELS[f.check]}, ${subjectText(f)}`} />
             </Td>
             <Td>
               <SeverityText severity={f.severity} />

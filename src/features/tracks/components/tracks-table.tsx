@@ -45,7 +45,7 @@ function SortHeader({
       <button
         type="button"
         onClick={() => onChange({ ...params, sort: column, dir: next, page: 1 })}
-        className="inline-flex items-center gap-1 uppercase hover:text-ink-900"
+        className="inline-flex items-center gap-1 hover:text-ink-900"
         title={`Sort by ${label.toLowerCase()}`}
       >
         {label}
