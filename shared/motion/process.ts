@@ -24,8 +24,8 @@ import {
 } from './hexapod';
 import { planar3ConditionNumbers, planar3Forward, planar3Geometry, planar3Inverse } from './planar3';
 import { bandLimitedDerivative, differentiator, ANTI_ALIAS_CUTOFF } from './band-limit';
-import type { RemovedContent } from './resample';
-import { resampleAntiAlias } from './resample';
+import type { RemovedContent, TrackGap } from './resample';
+import { GAP_FACTOR, GAP_MAX_S, findGaps, medianSpacing, resampleAntiAlias } from './resample';
 import type { PoseOffsetTrack } from './seat-force';
 import { platformMotion, seatForceFromMotion } from './seat-force';
 import type { WelchPsd } from './spectra';
@@ -83,6 +83,8 @@ export interface ProcessResult {
   profile: CueingProfile | null;
   notes: string[];
   exitCode: 0 | 3 | 4;
+  /** Gaps in the input (spacing over 5 x the median), each bridged by interpolation; shaded on the charts. */
+  gaps: TrackGap[];
   /** Min/max series for charts: each leg's length and the low-passed force at the first seat. */
   charts: { legs_m: MinMaxSeries[]; seat1Force_mps2: MinMaxSeries[] };
 }
@@ -122,6 +124,27 @@ export function processTrack(input: ProcessInput): ProcessResult {
   // Every track reaches the controller rate through the anti-alias low-pass (resampleAntiAlias):
   // platform motion (pose, legs) on a cubic Hermite curve, a vehicle track on straight segments (the
   // washout's filters and double integration smooth it anyway).
+  // Holes in the track: a long one is bad input (the interpolant would invent the motion across it),
+  // a shorter one is bridged and named in the notes and on the charts.
+  const spacing = medianSpacing(track.time_s);
+  const gaps = findGaps(track, spacing);
+  for (const g of gaps) {
+    if (g.end_s - g.start_s > GAP_MAX_S) {
+      const where = g.lineAfter !== undefined ? `line ${g.lineAfter}: ` : '';
+      throw new ProcessInputError(
+        `${where}time jumps from ${g.start_s} s to ${g.end_s} s, a gap of ${sig(g.end_s - g.start_s)} s ` +
+          `(over ${GAP_MAX_S} s; the median spacing is ${sig(spacing)} s): motion across it would be invented`,
+      );
+    }
+    const lines =
+      g.lineBefore !== undefined && g.lineAfter !== undefined
+        ? ` (lines ${g.lineBefore}-${g.lineAfter})`
+        : '';
+    notes.push(
+      `Gap in the track from ${sig(g.start_s)} s to ${sig(g.end_s)} s${lines}: ` +
+        `${sig((g.end_s - g.start_s) / spacing)} times the median spacing (over ${GAP_FACTOR}x), bridged by interpolation.`,
+    );
+  }
   const decimated = resampleAntiAlias(track, rate_hz);
   const rs = decimated.track;
   const n = rs.length;
@@ -313,6 +336,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
     profile,
     notes,
     exitCode: exitCodeFor(check),
+    gaps: gaps.map((g) => ({ start_s: g.start_s, end_s: g.end_s })),
     charts: {
       legs_m: legs.map((l) => decimateMinMax(l, 0, 1, n, t0, rate_hz, buckets)),
       seat1Force_mps2: seat1 ? seat1.map((f) => decimateMinMax(f, 0, 1, n, t0, rate_hz, buckets)) : [],

@@ -253,3 +253,41 @@ function hermiteColumnInto(
       (s3 - s2) * h * (slope[j + 1] as number);
   }
 }
+
+/** A stretch of a track with no samples: between two rows further apart than GAP_FACTOR x the median spacing. */
+export interface TrackGap {
+  start_s: number;
+  end_s: number;
+  /** File lines (1-based) of the rows either side, when the track came from a file. */
+  lineBefore?: number;
+  lineAfter?: number;
+}
+
+/** A spacing more than this many times the median spacing is a gap, named in the notes and on the charts. */
+export const GAP_FACTOR = 5;
+/** A gap longer than this (s) is bad input: interpolation across it would invent motion. */
+export const GAP_MAX_S = 1;
+
+/** Gaps of a track (spacing over GAP_FACTOR x its median spacing), in time order. */
+export function findGaps(
+  track: Pick<Track, 'time_s' | 'lines'>,
+  spacing_s = medianSpacing(track.time_s),
+): TrackGap[] {
+  const t = track.time_s;
+  const gaps: TrackGap[] = [];
+  if (!(spacing_s > 0)) return gaps;
+  const limit = GAP_FACTOR * spacing_s;
+  for (let i = 0; i + 1 < t.length; i++) {
+    const a = t[i] as number;
+    const b = t[i + 1] as number;
+    if (b - a > limit) {
+      const g: TrackGap = { start_s: a, end_s: b };
+      const la = track.lines?.[i];
+      const lb = track.lines?.[i + 1];
+      if (la !== undefined) g.lineBefore = la;
+      if (lb !== undefined) g.lineAfter = lb;
+      gaps.push(g);
+    }
+  }
+  return gaps;
+}

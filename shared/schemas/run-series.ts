@@ -22,5 +22,7 @@ export const runSeriesSchema = z.object({
   legs: z.array(band),
   /** The stroke band the legs must stay in: [min + margin, max - margin] and the full range (m). */
   stroke: z.object({ min_m: z.number(), max_m: z.number(), margin_m: z.number() }),
+  /** Stretches of the input with no samples (over 5 x the median spacing), bridged by interpolation (s). */
+  gaps: z.array(z.object({ start_s: z.number(), end_s: z.number() })).optional(),
 });
 export type RunSeries = z.infer<typeof runSeriesSchema>;

@@ -53,7 +53,14 @@ export function RunCharts({
   /** The venue's motion base for the 3-D preview; none, no preview. */
   base?: MotionBase | null;
 }) {
-  const spans = useMemo(() => findingSpans(findings), [findings]);
+  // Gaps in the take (bridged by interpolation) are shaded in grey beside the finding spans.
+  const spans = useMemo(
+    () => [
+      ...(series.gaps ?? []).map((g) => ({ from: g.start_s, to: g.end_s, color: CHART_COLORS.input })),
+      ...findingSpans(findings),
+    ],
+    [findings, series.gaps],
+  );
   const [index, setIndex] = useState(0);
   // The preview's instant is marked on every chart; without a preview there is nothing to mark.
   const marker_s = base ? (series.time_s[index] ?? null) : null;
