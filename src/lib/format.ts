@@ -1,4 +1,7 @@
-// Formatting for people; times are shown in the browser's own time zone with the zone named.
+import { CHECK_LABELS } from '../../shared/labels';
+
+// Formatting for people. Times are shown in the browser's own time zone with the zone named, or,
+// where a venue is the subject, in the venue's time zone with its name (IANA id) beside it.
 
 const dateTime = new Intl.DateTimeFormat('en-GB', {
   year: 'numeric',
@@ -13,6 +16,32 @@ const dateTime = new Intl.DateTimeFormat('en-GB', {
 export function formatDateTime(iso: string): string {
   const date = new Date(iso);
   return Number.isNaN(date.getTime()) ? iso : dateTime.format(date);
+}
+
+/** An ISO 8601 instant as the venue's local date and time, labelled with the venue's zone. */
+export function formatVenueTime(iso: string, timeZone: string | undefined): string {
+  const date = new Date(iso);
+  if (Number.isNaN(date.getTime())) return iso;
+  if (!timeZone) return dateTime.format(date);
+  try {
+    const local = new Intl.DateTimeFormat('en-GB', {
+      year: 'numeric',
+      month: 'short',
+      day: '2-digit',
+      hour: '2-digit',
+      minute: '2-digit',
+      timeZone,
+    }).format(date);
+    return `${local} ${timeZone}`;
+  } catch {
+    // A zone this browser does not know: the browser's own time, with its zone named.
+    return dateTime.format(date);
+  }
+}
+
+/** A check key in people words; an unknown key is shown as it came. */
+export function checkLabel(check: string): string {
+  return (CHECK_LABELS as Record<string, string>)[check] ?? check;
 }
 
 /** A rate in hertz with its unit, e.g. "100 Hz". */

@@ -3,7 +3,8 @@ import { Link } from 'react-router-dom';
 import type { RunDetail } from '../../../../shared/schemas/pipeline';
 import { formatBytes, formatDuration_s, shortSha } from '../../../components/charts/format-units';
 import { ProgressBar, RunStateBadge, UseRatioBar } from '../../../components/charts/run-badges';
-import { formatDateTime } from '../../../lib/format';
+import { checkLabel, formatVenueTime } from '../../../lib/format';
+import { useVenue } from '../../../lib/queries/venues';
 import { isRunActive } from '../api/get-run';
 
 function Fact({ label, children }: { label: string; children: ReactNode }) {
@@ -17,6 +18,8 @@ function Fact({ label, children }: { label: string; children: ReactNode }) {
 
 /** What the run is (track, take, venue, profile versions), where it stands, and why it failed if it did. */
 export function RunHeader({ studioId, run }: { studioId: string; run: RunDetail }) {
+  // The venue is the subject: its times are the venue's local times (same cached query as the preview).
+  const timeZone = useVenue(studioId, run.venueId).data?.timeZone;
   return (
     <div className="flex flex-col gap-3">
       <dl className="grid grid-cols-2 gap-x-6 gap-y-2 rounded border border-ink-200 bg-white p-4 md:grid-cols-4">
@@ -53,13 +56,13 @@ export function RunHeader({ studioId, run }: { studioId: string; run: RunDetail 
         <Fact label="Worst use">
           <UseRatioBar ratio={run.worstRatio} label={run.worstCheck ?? undefined} />
           {run.worstCheck ? (
-            <span className="ml-2 font-mono text-xs text-ink-600">{run.worstCheck}</span>
+            <span className="ml-2 text-xs text-ink-600">{checkLabel(run.worstCheck)}</span>
           ) : null}
         </Fact>
         <Fact label="Queued / finished">
           <span className="text-xs">
-            {formatDateTime(run.createdAt)}
-            {run.finishedAt ? ` / ${formatDateTime(run.finishedAt)}` : ''}
+            {formatVenueTime(run.createdAt, timeZone)}
+            {run.finishedAt ? ` / ${formatVenueTime(run.finishedAt, timeZone)}` : ''}
           </span>
         </Fact>
       </dl>

@@ -3,7 +3,8 @@ import type { RunSummary } from '../../../../shared/schemas/pipeline';
 import { ProgressBar, RunStateBadge, UseRatioBar } from '../../../components/charts/run-badges';
 import { Empty } from '../../../components/ui/status';
 import { Table, Td, Th } from '../../../components/ui/table';
-import { formatDateTime } from '../../../lib/format';
+import { checkLabel, formatVenueTime } from '../../../lib/format';
+import { useVenues } from '../../../lib/queries/venues';
 
 function groupByVenue(
   runs: readonly RunSummary[],
@@ -32,7 +33,7 @@ function RunStatus({ run }: { run: RunSummary }) {
   return (
     <span className="inline-flex flex-wrap items-center gap-2">
       <UseRatioBar ratio={run.worstRatio} label={run.worstCheck ?? undefined} />
-      {run.worstCheck ? <span className="font-mono text-xs text-ink-600">{run.worstCheck}</span> : null}
+      {run.worstCheck ? <span className="text-xs text-ink-600">{checkLabel(run.worstCheck)}</span> : null}
       {run.findingCount !== null ? (
         <span className="text-xs text-ink-600">
           {run.findingCount} finding{run.findingCount === 1 ? '' : 's'}
@@ -44,7 +45,9 @@ function RunStatus({ run }: { run: RunSummary }) {
 
 /** Every cue run of the track, grouped per venue, newest first, with live progress while the worker runs them. */
 export function TrackRuns({ studioId, runs }: { studioId: string; runs: readonly RunSummary[] }) {
+  const venues = useVenues(studioId);
   if (runs.length === 0) return <Empty>No cue runs yet. Choose “Cue for venues” on a take.</Empty>;
+  const zoneOf = (venueId: string) => venues.data?.find((venue) => venue.id === venueId)?.timeZone;
   return (
     <div className="flex flex-col gap-4">
       {groupByVenue(runs).map((group) => (
@@ -76,7 +79,9 @@ export function TrackRuns({ studioId, runs }: { studioId: string; runs: readonly
                   <Td>
                     <RunStatus run={run} />
                   </Td>
-                  <Td className="text-xs whitespace-nowrap text-ink-600">{formatDateTime(run.createdAt)}</Td>
+                  <Td className="text-xs whitespace-nowrap text-ink-600">
+                    {formatVenueTime(run.createdAt, zoneOf(run.venueId))}
+                  </Td>
                   <Td className="text-right">
                     <Link
                       to={`/s/${studioId}/runs/${run.id}`}
