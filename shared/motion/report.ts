@@ -132,7 +132,12 @@ export function buildReport(result: CheckResult, ctx: ReportContext): string {
       const w = c.wrms_mps2[axis];
       out.push(
         `  weighted r.m.s. ${axis} (${axis === 'z' ? 'Wk' : 'Wd'}): ${fmt(w)} m/s^2 at ${c.wrmsSeat[axis]}, ` +
-          `"${comfortWording(w)}" on the standard's comfort scale; VDV ${fmt(c.vdv_mps1_75[axis])} m/s^1.75`,
+          `"${comfortWording(w)}" on the standard's comfort scale` +
+          (c.crestFactor ? `, crest factor ${fmt(c.crestFactor[axis], 3)}` : '') +
+          `; VDV ${fmt(c.vdv_mps1_75[axis])} m/s^1.75 at ${c.vdvSeat?.[axis] ?? c.wrmsSeat[axis]}` +
+          (c.mtvv_mps2
+            ? `; MTVV ${fmt(c.mtvv_mps2[axis])} m/s^2 at ${c.mtvvSeat?.[axis] ?? c.wrmsSeat[axis]}`
+            : ''),
       );
     }
     out.push(
