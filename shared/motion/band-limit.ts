@@ -262,9 +262,13 @@ export function decimateColumn(
   const H = (taps.length - 1) / 2;
   const ext = extendByPrediction(fine, H);
   const values = new Float64Array(count);
+  // The taps are symmetric: fold the two halves, half the multiplications.
+  const centre = taps[H] as number;
   const at = (j: number): number => {
-    let s = 0;
-    for (let i = 0; i < taps.length; i++) s += (taps[i] as number) * (ext[j + i] as number);
+    const c = j + H;
+    let s = centre * (ext[c] as number);
+    for (let i = 1; i <= H; i++)
+      s += (taps[H + i] as number) * ((ext[c - i] as number) + (ext[c + i] as number));
     return s;
   };
   let sx = 0;
