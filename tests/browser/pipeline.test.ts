@@ -154,6 +154,20 @@ describe('pipeline screens', () => {
       expect(rows).toBeGreaterThan(1);
       await page.waitForLoadState('networkidle');
       await page.screenshot({ path: `${screenshotDir}/run-page.png`, fullPage: true });
+      // The run's times read in the venue's own zone, labelled with it.
+      await expect(
+        page
+          .getByText(/Europe\/|America\/|Asia\/|Australia\/|UTC/)
+          .first()
+          .isVisible(),
+      ).resolves.toBe(true);
+
+      // The tracks table with the runs just made, as a producer sees it.
+      await page.goto(page.url().replace(/\/runs\/[^/]+$/, '/tracks'));
+      const tracksTable = page.getByRole('table', { name: /Tracks/ });
+      await tracksTable.waitFor({ timeout: 15_000 });
+      await page.waitForLoadState('networkidle');
+      await page.screenshot({ path: `${screenshotDir}/tracks-table.png`, fullPage: true });
     } finally {
       await context.close();
     }

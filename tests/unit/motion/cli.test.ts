@@ -124,7 +124,7 @@ describe('legwork command line', () => {
       fixture('pose-hexapod.csv'),
     );
     expect(wrongKind.code).toBe(2);
-    expect(wrongKind.err).toMatch(/line 1: expected a planar3 pose track/);
+    expect(wrongKind.err).toMatch(/line 1: expected a planar-stage pose track/);
   });
 
   it('warns on stderr but still writes lengths outside the stroke', async () => {
@@ -172,7 +172,7 @@ describe('legwork command line', () => {
       },
     );
     expect(bad.status).toBe(2);
-    expect(bad.stderr).toMatch(/pose-planar3\.csv line 1: expected a planar3 legs track/);
+    expect(bad.stderr).toMatch(/pose-planar3\.csv line 1: expected a planar-stage legs track/);
     // An unreachable registry and --no-install: npx must resolve the local bin and never ask the registry.
     const npx = spawnSync('npx', ['--no-install', 'legwork', '--help'], {
       cwd: root,
@@ -212,6 +212,6 @@ describe('legwork command line', () => {
       { cwd: root, encoding: 'utf8' },
     );
     expect(bad.status).toBe(2);
-    expect(bad.stderr).toMatch(/pose-planar3\.csv line 1: expected a planar3 legs track/);
+    expect(bad.stderr).toMatch(/pose-planar3\.csv line 1: expected a planar-stage legs track/);
   }, 30_000);
 });
