@@ -18,6 +18,7 @@ export const CHECK_LABELS: Readonly<Record<CheckName, string>> = {
   conditioning: 'Kinematic conditioning',
   startEnd: 'Start and end at neutral',
   outOfBand: 'Motion above the controller band',
+  legForce: 'Actuator force',
 };
 
 /** Severity tiers in people words. */

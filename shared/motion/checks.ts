@@ -12,6 +12,8 @@
 // - wrms: weighted r.m.s. over the whole track at the worst seat / limit, per axis (Wd x, y; Wk z).
 // - msdv: MSDV_z (Wf) at the worst seat / limit, subject z.
 // - conditioning: Jacobian condition number / limit, subject "platform".
+// - legForce: |axial force| / the actuator's rating per leg (leg-force.ts), when the base has a payload
+//   and a rating.
 // - startEnd: pose offset or rate at the first / last sample / its tolerance, subject "start" or "end"
 //   (see start-end.ts).
 // - vdv (when the budget sets vdvMax_mps1_75): VDV at its own worst seat / limit, per axis.
@@ -47,6 +49,8 @@ export interface LegLimits {
   max_m: number;
   speedMax_mps: number;
   accelMax_mps2: number;
+  /** Axial force rating (N), when the base gives one. */
+  forceMax_N?: number;
 }
 
 /** Everything the checks read, on one uniform grid (time_s[i] = t0 + i / rate_hz). */
@@ -57,6 +61,8 @@ export interface CheckInput {
   legLength_m: readonly Float64Array[];
   legSpeed_mps: readonly Float64Array[];
   legAccel_mps2: readonly Float64Array[];
+  /** Per leg: axial force (N, compression positive), when the base has a payload. */
+  legForce_N?: readonly Float64Array[];
   /** Per seat: specific force [x, y, z] in the platform frame, m/s^2 (at rest (0, 0, +g0)). */
   seatForce_mps2: readonly (readonly [Float64Array, Float64Array, Float64Array])[];
   /** Platform angular velocity in the platform frame [x, y, z], rad/s. */
@@ -265,6 +271,13 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
     assertFinite(`leg${k + 1} acceleration`, a, time_s);
     out.scanAbs('legAccel', `leg${k + 1}`, a, lim.accelMax_mps2, ratio);
   });
+  const forceMax = lim.forceMax_N;
+  if (input.legForce_N && forceMax !== undefined) {
+    input.legForce_N.forEach((f, k) => {
+      assertFinite(`leg${k + 1} force`, f, time_s);
+      out.scanAbs('legForce', `leg${k + 1}`, f, forceMax, ratio);
+    });
+  }
 
   // Rider: low-passed specific force per seat, envelope per seat and axis.
   const filterOk = rate_hz > 2 * RIDER_LOWPASS_HZ;

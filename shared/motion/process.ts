@@ -34,6 +34,7 @@ import type { Track } from './track-reader';
 import { trackColumn } from './track-reader';
 import { cueClassical } from './washout';
 import { trackName } from './track-names';
+import { hexapodLegForces } from './leg-force';
 
 /** Inputs of the pipeline; the track is parsed (SI) but not yet resampled. */
 export interface ProcessInput {
@@ -72,6 +73,8 @@ export interface ProcessResult {
   pose: PoseColumns;
   /** Leg lengths (m), one column per leg. */
   legs: Float64Array[];
+  /** Axial leg forces (N, compression positive) when the base carries a payload (hexapods), else null. */
+  legForce_N: Float64Array[] | null;
   check: BudgetCheck;
   /** findings.json content (rounded for reading). */
   findings: CheckResult;
@@ -86,7 +89,7 @@ export interface ProcessResult {
   /** Gaps in the input (spacing over 5 x the median), each bridged by interpolation; shaded on the charts. */
   gaps: TrackGap[];
   /** Min/max series for charts: each leg's length and the low-passed force at the first seat. */
-  charts: { legs_m: MinMaxSeries[]; seat1Force_mps2: MinMaxSeries[] };
+  charts: { legs_m: MinMaxSeries[]; seat1Force_mps2: MinMaxSeries[]; legForce_N: MinMaxSeries[] };
 }
 
 /** Thrown when the track does not fit the base (a planar pose for a hexapod, too few samples). */
@@ -250,6 +253,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
   // What the riders feel.
   const poseTrack: PoseOffsetTrack = { rate_hz, ...pose };
   const motion = platformMotion(poseTrack);
+  const legForce = actuatorForces(base, pose, motion, notes);
   const seatForce = base.seats_m.map((seat) => {
     const f = seatForceFromMotion(motion, seat);
     return [f.x, f.y, f.z] as const;
@@ -301,6 +305,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
       legLength_m: legs,
       legSpeed_mps: legSpeed,
       legAccel_mps2: legAccel,
+      ...(legForce ? { legForce_N: legForce } : {}),
       seatForce_mps2: seatForce,
       omega_radps: omega,
       pose,
@@ -328,6 +333,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
     time_s,
     pose,
     legs,
+    legForce_N: legForce,
     check,
     findings: findingsForJson(check, notes),
     spectra,
@@ -340,6 +346,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
     charts: {
       legs_m: legs.map((l) => decimateMinMax(l, 0, 1, n, t0, rate_hz, buckets)),
       seat1Force_mps2: seat1 ? seat1.map((f) => decimateMinMax(f, 0, 1, n, t0, rate_hz, buckets)) : [],
+      legForce_N: legForce ? legForce.map((f) => decimateMinMax(f, 0, 1, n, t0, rate_hz, buckets)) : [],
     },
   };
 }
@@ -373,6 +380,35 @@ function bandLimitNote(removed: readonly RemovedContent[], rate_hz: number, scal
     `cut-off ${cut} Hz = ${where}, zero phase); share of each axis' r.m.s. removed: ` +
     `${parts.join(', ')}.`
   );
+}
+
+/** Leg forces from the platform's inverse dynamics when the base has a payload; notes say what was left out. */
+function actuatorForces(
+  base: MotionBase,
+  pose: PoseColumns,
+  motion: ReturnType<typeof platformMotion>,
+  notes: string[],
+): Float64Array[] | null {
+  if (base.kind !== 'hexapod' || !base.payload) {
+    if (base.leg.forceMax_N !== undefined) {
+      notes.push(
+        base.kind === 'hexapod'
+          ? 'The base gives an actuator force rating but no payload: actuator forces were not computed.'
+          : 'Actuator forces are computed for hexapods only; the planar stage rating was not checked.',
+      );
+    }
+    return null;
+  }
+  if (base.leg.forceMax_N === undefined) {
+    notes.push(
+      'The base gives a payload but no actuator force rating (leg.forceMax_N): forces are charted, not checked.',
+    );
+  }
+  notes.push(
+    'Actuator forces: rigid-body inverse dynamics of the platform and its payload (Newton-Euler, legs massless), ' +
+      'mapped onto the legs through the Jacobian transpose; compression positive.',
+  );
+  return hexapodLegForces(hexapodGeometry(base), pose, motion, base.payload);
 }
 
 function riderSpectra(

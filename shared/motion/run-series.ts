@@ -49,6 +49,8 @@ export function buildRunSeries(
     },
     pose,
     legs: result.charts.legs_m.map(toBand),
+    ...(result.charts.legForce_N.length > 0 ? { legForce: result.charts.legForce_N.map(toBand) } : {}),
+    ...(base.leg.forceMax_N !== undefined ? { forceMax_N: base.leg.forceMax_N } : {}),
     stroke: { min_m: base.leg.min_m, max_m: base.leg.max_m, margin_m: result.budget.strokeMargin_m },
     gaps: result.gaps.map((g) => ({ start_s: round6(g.start_s), end_s: round6(g.end_s) })),
   };

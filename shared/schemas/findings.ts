@@ -16,6 +16,7 @@ export const CHECK_NAMES = [
   'conditioning',
   'startEnd',
   'outOfBand',
+  'legForce',
 ] as const;
 export const checkNameSchema = z.enum(CHECK_NAMES);
 export type CheckName = z.infer<typeof checkNameSchema>;
@@ -38,6 +39,7 @@ export const CHECK_SEVERITY: Readonly<Record<CheckName, Severity>> = {
   conditioning: 'comfort',
   startEnd: 'hard',
   outOfBand: 'comfort',
+  legForce: 'hard',
 };
 
 /** The unit of each check's value and limit (the unit of the budget key it checks). */
@@ -58,6 +60,7 @@ export const CHECK_UNIT: Readonly<Record<CheckName, string>> = {
   startEnd: 'm, rad, m/s or rad/s',
   // The share of an axis' r.m.s. that the anti-alias low-pass removed, against 0.05.
   outOfBand: '1',
+  legForce: 'N',
 };
 
 const finiteNumber = z.number().refine(Number.isFinite, 'must be finite');

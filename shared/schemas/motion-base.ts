@@ -17,7 +17,50 @@ export const legLimitsSchema = z.strictObject({
   max_m: z.number().positive(),
   speedMax_mps: z.number().positive(),
   accelMax_mps2: z.number().positive(),
+  /** Axial force rating of each actuator (N), compression or tension; checked when the base has a payload. */
+  forceMax_N: z.number().positive().optional(),
 });
+
+/**
+ * What the platform carries, riders included, in the platform frame: mass (kg), centre of mass (m)
+ * and the inertia tensor about the centre of mass in platform axes (kg m^2), as
+ * [Ixx, Iyy, Izz, Ixy, Ixz, Iyz]. Used for the actuator forces (hexapods).
+ */
+export const payloadSchema = z
+  .strictObject({
+    mass_kg: z.number().positive(),
+    centreOfMass_m: vec3,
+    inertia_kgm2: z.tuple([
+      z.number().nonnegative(),
+      z.number().nonnegative(),
+      z.number().nonnegative(),
+      z.number(),
+      z.number(),
+      z.number(),
+    ]),
+  })
+  .superRefine((p, ctx) => {
+    // A physical inertia tensor is positive semi-definite: each principal moment at most the sum of the
+    // other two (triangle inequality) and the products bounded by the moments.
+    const [a, b, c, xy, xz, yz] = p.inertia_kgm2;
+    const tri = a <= b + c + 1e-9 && b <= a + c + 1e-9 && c <= a + b + 1e-9;
+    const det = a * (b * c - yz * yz) - xy * (xy * c - yz * xz) + xz * (xy * yz - b * xz);
+    if (
+      !tri ||
+      a * b < xy * xy ||
+      a * c < xz * xz ||
+      b * c < yz * yz ||
+      det < -1e-9 * Math.max(1, a * b * c)
+    ) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['inertia_kgm2'],
+        message:
+          'not a physical inertia tensor (each moment at most the sum of the other two, positive semi-definite)',
+      });
+    }
+  });
+export type Payload = z.infer<typeof payloadSchema>;
 
 const common = {
   name: z.string().min(1).max(200).optional(),
@@ -33,6 +76,7 @@ export const hexapodBaseSchema = z.strictObject({
   baseJoints_m: z.array(vec3).length(6),
   platformJoints_m: z.array(vec3).length(6),
   neutralHeight_m: z.number().positive(),
+  payload: payloadSchema.optional(),
   ...common,
 });
 
@@ -45,6 +89,7 @@ export const hexapodParametricSchema = z.strictObject({
   platformHalfAngle_deg: z.number().positive().lt(60),
   platformJointZ_m: z.number().optional(),
   neutralHeight_m: z.number().positive(),
+  payload: payloadSchema.optional(),
   ...common,
 });
 
@@ -200,6 +245,7 @@ export function hexapodFromParameters(p: z.infer<typeof hexapodParametricSchema>
     seats_m: p.seats_m,
   };
   if (p.name !== undefined) out.name = p.name;
+  if (p.payload !== undefined) out.payload = p.payload;
   return out;
 }
 

@@ -20,6 +20,10 @@ export const runSeriesSchema = z.object({
   pose: z.record(z.string(), band),
   /** Leg lengths (m), leg1 first. */
   legs: z.array(band),
+  /** Axial leg forces (N, compression positive), leg1 first, when the base carries a payload. */
+  legForce: z.array(band).optional(),
+  /** The actuators' force rating (N), when the base gives one. */
+  forceMax_N: z.number().optional(),
   /** The stroke band the legs must stay in: [min + margin, max - margin] and the full range (m). */
   stroke: z.object({ min_m: z.number(), max_m: z.number(), margin_m: z.number() }),
   /** Stretches of the input with no samples (over 5 x the median spacing), bridged by interpolation (s). */

@@ -88,6 +88,25 @@ export function RunCharts({
       })),
     [series],
   );
+  const legForce = useMemo(
+    () =>
+      (series.legForce ?? []).map((band, i) => ({
+        label: `leg${i + 1}`,
+        color: CHART_COLORS.series[i % CHART_COLORS.series.length] ?? CHART_COLORS.cued,
+        min: band.min,
+        max: band.max,
+      })),
+    [series],
+  );
+  const forceLines = useMemo<ChartLine[]>(() => {
+    const f = series.forceMax_N;
+    if (f === undefined) return [];
+    return [
+      // Lines are in display units (kN).
+      { value: f / 1000, label: `rating ${(f / 1000).toFixed(1)} kN`, color: CHART_COLORS.stroke },
+      { value: -f / 1000, label: `rating −${(f / 1000).toFixed(1)} kN`, color: CHART_COLORS.stroke },
+    ];
+  }, [series]);
   const strokeLines = useMemo<ChartLine[]>(() => {
     const { min_m, max_m, margin_m } = series.stroke;
     return [
@@ -170,6 +189,17 @@ export function RunCharts({
         lines={strokeLines}
         height_px={220}
       />
+      {legForce.length > 0 ? (
+        <BandChart
+          title="Actuator forces (compression positive)"
+          yLabel="kN"
+          bands={legForce}
+          {...shared}
+          lines={forceLines}
+          scale={1e-3}
+          height_px={200}
+        />
+      ) : null}
       {base ? (
         <div className="flex flex-col gap-1">
           <h3 className="text-xs font-semibold text-ink-800">
