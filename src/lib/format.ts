@@ -1,4 +1,4 @@
-import { CHECK_LABELS } from '../../shared/labels';
+import { CHECK_LABELS, subjectLabel } from '../../shared/labels';
 
 // Formatting for people. Times are shown in the browser's own time zone with the zone named, or,
 // where a venue is the subject, in the venue's time zone with its name (IANA id) beside it.
@@ -39,9 +39,11 @@ export function formatVenueTime(iso: string, timeZone: string | undefined): stri
   }
 }
 
-/** A check key in people words; an unknown key is shown as it came. */
+/** A check key, or "check subject" as run summaries carry it ("stroke leg4"), in people words. */
 export function checkLabel(check: string): string {
-  return (CHECK_LABELS as Record<string, string>)[check] ?? check;
+  const [key = '', subject] = check.split(' ');
+  const label = (CHECK_LABELS as Record<string, string>)[key] ?? key;
+  return subject ? `${label}, ${subjectLabel(subject)}` : label;
 }
 
 /** A rate in hertz with its unit, e.g. "100 Hz". */

@@ -142,7 +142,7 @@ describe('track page', () => {
     await waitFor(() => expect(within(runs).getByText('Awaiting review')).toBeInTheDocument(), {
       timeout: 4000,
     });
-    expect(within(runs).getByText('stroke leg4')).toBeInTheDocument();
+    expect(within(runs).getByText('Leg stroke, Leg 4')).toBeInTheDocument();
     const settled = asked;
     // Nothing runs any more, so the page stops asking.
     await new Promise((resolve) => setTimeout(resolve, 1500));

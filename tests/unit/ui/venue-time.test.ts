@@ -2,7 +2,7 @@
 // Offsets from the IANA time zone database: Asia/Tokyo is UTC+9 with no daylight saving;
 // America/Los_Angeles is UTC-8 in December (PST).
 import { describe, expect, it } from 'vitest';
-import { formatVenueTime } from '../../../src/lib/format';
+import { checkLabel, formatVenueTime } from '../../../src/lib/format';
 
 describe('formatVenueTime', () => {
   it("shows the venue's local time with the zone beside it", () => {
@@ -15,5 +15,13 @@ describe('formatVenueTime', () => {
   it('falls back to a labelled browser time for an unknown zone and keeps non-dates as they came', () => {
     expect(formatVenueTime('2026-12-02T09:30:00.000Z', 'Not/AZone')).toMatch(/2026/);
     expect(formatVenueTime('soon', 'Asia/Tokyo')).toBe('soon');
+  });
+});
+
+describe('checkLabel', () => {
+  it("reads a run summary's worst check in people words", () => {
+    expect(checkLabel('stroke leg4')).toBe('Leg stroke, Leg 4');
+    expect(checkLabel('wrms')).toBe('Weighted r.m.s. acceleration');
+    expect(checkLabel('unknownKey')).toBe('unknownKey');
   });
 });
