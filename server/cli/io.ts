@@ -5,9 +5,8 @@
 import { createReadStream, createWriteStream } from 'node:fs';
 import { readFile, stat } from 'node:fs/promises';
 import { once } from 'node:events';
-import { createGunzip } from 'node:zlib';
-import type { Readable } from 'node:stream';
-import { TrackFileError, TrackReader, trackColumnNames } from '../../shared/motion/track-reader';
+import { TrackFileError, trackColumnNames } from '../../shared/motion/track-reader';
+import { TrackStreamError, readTrackStream } from '../pipeline/track-stream';
 import type { Track, TrackReaderOptions } from '../../shared/motion/track-reader';
 import { MotionBaseError, parseMotionBase } from '../../shared/schemas/motion-base';
 import type { MotionBase } from '../../shared/schemas/motion-base';
@@ -63,38 +62,32 @@ function describeFsError(file: string, e: unknown): CliInputError {
 }
 
 /**
- * Streams a track file (.csv, or .csv.gz through gunzip) into the pure TrackReader, chunk by chunk.
+ * Streams a track file (.csv, or .csv.gz in any case through gunzip) into the track stream reader.
  * Throws TrackFileError for bad content and CliInputError for files that cannot be read.
  */
 export async function readTrackFile(
   path: string,
   limits: Omit<TrackReaderOptions, 'file'> = {},
 ): Promise<Track> {
-  const reader = new TrackReader({ ...limits, file: path });
   try {
     const s = await stat(path);
     if (s.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
   } catch (e) {
     throw describeFsError(path, e);
   }
-  const source = createReadStream(path);
-  let stream: Readable = source;
-  if (path.endsWith('.gz')) {
-    const gunzip = createGunzip();
-    // pipe() does not pass read errors on, so forward them to the stream being consumed.
-    source.once('error', (e) => gunzip.destroy(e));
-    stream = source.pipe(gunzip);
-  }
-  stream.setEncoding('utf8');
+  const { maxBytes, ...readerLimits } = limits;
   try {
-    for await (const chunk of stream) reader.push(chunk as string);
+    const got = await readTrackStream(createReadStream(path), {
+      ...readerLimits,
+      fileName: path,
+      ...(maxBytes !== undefined ? { maxTextBytes: maxBytes } : {}),
+    });
+    return got.track;
   } catch (e) {
-    stream.destroy();
-    source.destroy();
     if (e instanceof TrackFileError) throw e;
+    if (e instanceof TrackStreamError) throw new CliInputError(e.message);
     throw describeFsError(path, e);
   }
-  return reader.end();
 }
 
 /** Reads a whole UTF-8 text file; a file that cannot be read is a CliInputError naming it. */

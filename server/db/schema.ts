@@ -18,6 +18,7 @@ import {
   uuid,
   varchar,
 } from 'drizzle-orm/pg-core';
+import type { StoredRunSummary } from '../../shared/schemas/run-outputs';
 
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
 
@@ -280,7 +281,7 @@ export const cueRuns = pgTable(
     failureReason: text('failure_reason'),
     lastError: text('last_error'),
     /** Worst use ratio per check and subject, findings, exit code, notes: what lists and the run page need. */
-    summary: jsonb('summary'),
+    summary: jsonb('summary').$type<StoredRunSummary>(),
     artifactPrefix: text('artifact_prefix'),
     requestedBy: uuid('requested_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: createdAt(),

@@ -13,11 +13,7 @@ import { badRequest } from '../lib/http-error';
 import { QUEUES } from '../queue';
 import { recordAudit } from '../audit';
 import { trackName } from '../../shared/motion/track-names';
-
-export interface CueRunJob {
-  runId: string;
-  studioId: string;
-}
+import { cueRunJobSchema } from '../../shared/schemas/run-outputs';
 
 /** pg-boss send options for a run's job: retries with backoff, id = run id. */
 export const cueRunJobOptions = (
@@ -104,8 +100,8 @@ export async function queueRuns(
           .update(profileVersions)
           .set({ usedAt: opts.now })
           .where(and(inArray(profileVersions.id, used), isNull(profileVersions.usedAt)));
-        const job: CueRunJob = { runId: inserted.id, studioId: opts.studioId };
-        await boss.send(QUEUES.cueRun, job as unknown as object, {
+        const job = cueRunJobSchema.parse({ runId: inserted.id, studioId: opts.studioId });
+        await boss.send(QUEUES.cueRun, job, {
           ...cueRunJobOptions(inserted.id, opts.retry),
           db: { executeSql: (text: string, values: unknown[]) => client.query(text, values) },
         });

@@ -1,19 +1,22 @@
 // Receives an uploaded take as a stream: each chunk goes to object storage, into the SHA-256 and
-// through the track reader at once, so the server never holds the whole file. A file the reader
-// refuses is removed from storage again before the error answer; nothing stored earlier is touched,
-// because every upload gets a new key.
-import { createHash } from 'node:crypto';
+// through the track stream reader at once, so the server never holds the whole file. A file the
+// reader refuses is removed from storage again before the error answer; nothing stored earlier is
+// touched, because every upload gets a new key.
+//
+// A refusal usually comes before the whole body has arrived. The rest of the body is then read and
+// thrown away (up to a bound), so the connection is free for the browser's next request; beyond the
+// bound the answer says `Connection: close` and the connection is closed after it.
 import { once } from 'node:events';
+import type { IncomingMessage, ServerResponse } from 'node:http';
 import { PassThrough } from 'node:stream';
 import type { Readable } from 'node:stream';
-import { StringDecoder } from 'node:string_decoder';
-import { createGunzip } from 'node:zlib';
 import { DeleteObjectCommand } from '@aws-sdk/client-s3';
 import { Upload } from '@aws-sdk/lib-storage';
 import type { Storage } from '../storage';
-import { TrackFileError, TrackReader } from '../../shared/motion/track-reader';
+import { TrackFileError } from '../../shared/motion/track-reader';
 import type { Track } from '../../shared/motion/track-reader';
 import { HttpError } from '../lib/http-error';
+import { TrackStreamError, isGzipName, readTrackStream } from './track-stream';
 
 export interface ReceivedTake {
   track: Track;
@@ -21,15 +24,48 @@ export interface ReceivedTake {
   sha256: string;
 }
 
+/** Most bytes of a refused upload's remaining body read and discarded to keep the connection open. */
+export const DISCARD_MAX_BYTES = 64 * 1024 * 1024;
+
+/**
+ * After a refusal: reads and discards what is left of the request body, so a keep-alive connection
+ * can carry the next request. When more than `bound` bytes are (or may be) left, the answer closes
+ * the connection instead of making the client send them all.
+ */
+export function discardRestOfBody(
+  req: IncomingMessage,
+  res: ServerResponse,
+  bound = DISCARD_MAX_BYTES,
+): void {
+  if (req.complete || req.destroyed) return;
+  const declared = Number(req.headers['content-length']);
+  const received = req.socket?.bytesRead ?? 0;
+  const leftKnown = Number.isFinite(declared) ? declared - received : Number.POSITIVE_INFINITY;
+  let discarded = 0;
+  if (leftKnown > bound && !res.headersSent) res.setHeader('connection', 'close');
+  req.on('data', (c: Buffer) => {
+    discarded += c.byteLength;
+    if (discarded > bound && !req.destroyed) {
+      // The answer has gone out (or goes with Connection: close); stop reading a body nobody wants.
+      if (res.writableEnded) req.socket?.destroy();
+      else if (!res.headersSent) res.setHeader('connection', 'close');
+    }
+  });
+  req.resume();
+}
+
 /** Streams `body` to `key`, validating it as a track file named `fileName`; throws HttpError 400/413. */
 export async function receiveTake(
   body: Readable,
-  opts: { storage: Storage; key: string; fileName: string; maxBytes: number },
+  opts: {
+    storage: Storage;
+    key: string;
+    fileName: string;
+    maxBytes: number;
+    /** The answer to the request `body` is, so a refusal can free or close the connection. */
+    res?: ServerResponse;
+  },
 ): Promise<ReceivedTake> {
-  const gz = opts.fileName.toLowerCase().endsWith('.gz');
-  const hash = createHash('sha256');
-  const reader = new TrackReader({ file: opts.fileName, maxBytes: Number.MAX_SAFE_INTEGER });
-  const decoder = new StringDecoder('utf8');
   const toStorage = new PassThrough();
   const upload = new Upload({
     client: opts.storage.client,
@@ -37,7 +73,7 @@ export async function receiveTake(
       Bucket: opts.storage.bucket,
       Key: opts.key,
       Body: toStorage,
-      ContentType: gz ? 'application/gzip' : 'text/csv',
+      ContentType: isGzipName(opts.fileName) ? 'application/gzip' : 'text/csv',
     },
     queueSize: 2,
     partSize: 8 * 1024 * 1024,
@@ -45,60 +81,27 @@ export async function receiveTake(
   const stored = upload.done();
   // Keep a rejection from going unhandled while the body is still being read.
   stored.catch(() => undefined);
-
-  let failure: unknown = null;
-  const gunzip = gz ? createGunzip() : null;
-  if (gunzip) {
-    gunzip.on('data', (d: Buffer) => {
-      if (failure) return;
-      try {
-        reader.push(decoder.write(d));
-      } catch (e) {
-        failure = e;
-      }
-    });
-    gunzip.on('error', (e) => {
-      failure ??= new HttpError(400, `${opts.fileName}: not a readable gzip file (${e.message}).`);
-    });
-  }
-
-  let size = 0;
   try {
-    for await (const chunk of body) {
-      const b = chunk as Buffer;
-      size += b.byteLength;
-      if (size > opts.maxBytes) {
-        throw new HttpError(
-          413,
-          `${opts.fileName}: the file is larger than the limit of ${opts.maxBytes} bytes.`,
-        );
-      }
-      hash.update(b);
-      if (!toStorage.write(b)) await once(toStorage, 'drain');
-      if (gunzip) {
-        if (!gunzip.write(b)) await once(gunzip, 'drain');
-      } else {
-        reader.push(decoder.write(b));
-      }
-      if (failure) throw failure;
-    }
-    if (gunzip) {
-      gunzip.end();
-      await once(gunzip, 'end').catch(() => undefined);
-    }
-    if (failure) throw failure;
-    reader.push(decoder.end());
-    const track = reader.end();
+    // The request is read without being destroyed when the reader stops early (see the file comment).
+    const source = body.iterator({ destroyOnReturn: false });
+    const got = await readTrackStream(source, {
+      fileName: opts.fileName,
+      maxBytes: opts.maxBytes,
+      onChunk: async (b) => {
+        // A storage failure rejects `stored`; it must end the wait for drain, not leave it hanging.
+        if (!toStorage.write(b)) await Promise.race([once(toStorage, 'drain'), stored]);
+      },
+    });
     toStorage.end();
     await stored;
-    return { track, sizeBytes: size, sha256: hash.digest('hex') };
+    return got;
   } catch (e) {
+    if (opts.res) discardRestOfBody(body as IncomingMessage, opts.res);
     toStorage.destroy();
     await upload.abort().catch(() => undefined);
     await opts.storage.client
       .send(new DeleteObjectCommand({ Bucket: opts.storage.bucket, Key: opts.key }))
       .catch(() => undefined);
-    body.resume();
     if (e instanceof TrackFileError) {
       throw new HttpError(400, e.message, [
         {
@@ -107,6 +110,7 @@ export async function receiveTake(
         },
       ]);
     }
+    if (e instanceof TrackStreamError) throw new HttpError(e.status, e.message);
     throw e;
   }
 }

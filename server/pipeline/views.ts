@@ -5,6 +5,7 @@ import { cueRuns, profileVersions, profiles, takes, venues } from '../db/schema'
 import type { CueRunRow, TakeRow } from '../db/schema';
 import { inStudio } from '../db/scope';
 import type { RunSummary, Take } from '../../shared/schemas/pipeline';
+import type { StoredRunSummary } from '../../shared/schemas/run-outputs';
 
 export const toTake = (t: TakeRow): Take => ({
   id: t.id,
@@ -21,14 +22,9 @@ export const toTake = (t: TakeRow): Take => ({
   createdAt: t.createdAt.toISOString(),
 });
 
-interface StoredSummary {
-  uses?: { check: string; subject: string; ratio: number }[];
-  findings?: unknown[];
-}
-
 /** The worst use of a finished run (the headline number of lists). */
-export function worstUse(summary: unknown): { ratio: number; check: string } | null {
-  const uses = (summary as StoredSummary | null)?.uses;
+export function worstUse(summary: StoredRunSummary | null): { ratio: number; check: string } | null {
+  const uses = summary?.uses;
   if (!uses?.length) return null;
   let worst = uses[0]!;
   for (const u of uses) if (u.ratio > worst.ratio) worst = u;
@@ -37,7 +33,7 @@ export function worstUse(summary: unknown): { ratio: number; check: string } | n
 
 export function toRunSummary(r: CueRunRow, takeNumber: number, venueName: string): RunSummary {
   const w = worstUse(r.summary);
-  const findings = (r.summary as StoredSummary | null)?.findings;
+  const findings = r.summary?.findings;
   return {
     id: r.id,
     trackId: r.trackId,

@@ -12,16 +12,7 @@ import { isUuid } from '../lib/validate';
 import { notFound } from '../lib/http-error';
 import type { RunDetail } from '../../shared/schemas/pipeline';
 import { toRunSummary, toTake, versionRef } from '../pipeline/views';
-
-const ARTIFACTS = new Set([
-  'legs.csv',
-  'pose.csv',
-  'findings.json',
-  'spectra.json',
-  'report.txt',
-  'manifest.json',
-  'series.json',
-]);
+import { SERIES_FILE, runFileContentType } from '../../shared/schemas/run-outputs';
 
 export function runsRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
@@ -42,15 +33,7 @@ export function runsRouter(deps: AppDeps): Router {
   r.get('/:runId', requirePermission('runs.read'), async (req, res) => {
     const studioId = req.member!.studioId;
     const { run, take, venueName, trackTitle } = await load(studioId, String(req.params.runId));
-    const s = run.summary as null | {
-      within: boolean;
-      findings: never[];
-      uses: never[];
-      comfort: unknown;
-      notes: string[];
-      budgetIsDemo: boolean;
-      files: { name: string; sha256: string; size_bytes: number }[];
-    };
+    const s = run.summary;
     const budgetVersion = await versionRef(deps.db, studioId, run.budgetVersionId);
     const out: RunDetail = {
       ...toRunSummary(run, take.number, venueName),
@@ -63,12 +46,12 @@ export function runsRouter(deps: AppDeps): Router {
             within: s.within,
             findings: s.findings,
             uses: s.uses,
-            ...(s.comfort ? { comfort: s.comfort as never } : {}),
+            ...(s.comfort ? { comfort: s.comfort } : {}),
             notes: s.notes,
           }
         : null,
       budgetIsDemo: s ? s.budgetIsDemo : null,
-      files: s?.files.filter((f) => f.name !== 'series.json') ?? [],
+      files: s?.files.filter((f) => f.name !== SERIES_FILE.name) ?? [],
     };
     res.json(out);
   });
@@ -82,13 +65,14 @@ export function runsRouter(deps: AppDeps): Router {
   ) => {
     const { run } = await load(studioId, runId);
     if (!run.artifactPrefix) throw notFound('This run has no results yet.');
-    if (!ARTIFACTS.has(name)) throw notFound('No such file in this run.');
+    const contentType = runFileContentType(name);
+    if (!contentType) throw notFound('No such file in this run.');
     const obj = await deps.storage.client
       .send(new GetObjectCommand({ Bucket: deps.storage.bucket, Key: `${run.artifactPrefix}${name}` }))
       .catch(() => {
         throw notFound(`${name} is missing from storage.`);
       });
-    res.type(name.endsWith('.json') ? 'application/json' : name.endsWith('.csv') ? 'text/csv' : 'text/plain');
+    res.type(contentType);
     if (download) res.attachment(name);
     if (obj.ContentLength !== undefined) res.setHeader('content-length', String(obj.ContentLength));
     (obj.Body as Readable).pipe(res);

@@ -12,7 +12,7 @@ import { notFound } from '../lib/http-error';
 import { actorOf } from '../lib/actor';
 import { recordAudit } from '../audit';
 import { createTrackBody, tracksQuery, uploadQuery } from '../../shared/schemas/pipeline';
-import type { TrackDetail, TrackPage, TrackSummary } from '../../shared/schemas/pipeline';
+import type { TrackDetail, TrackPage, TrackSummary, UploadedTake } from '../../shared/schemas/pipeline';
 import { receiveTake } from '../pipeline/upload';
 import { listRuns, toTake } from '../pipeline/views';
 
@@ -167,6 +167,7 @@ export function tracksRouter(deps: AppDeps): Router {
     const takeId = randomUUID();
     const key = `studios/${studioId}/takes/${takeId}/${fileName}`;
     const got = await receiveTake(req, {
+      res,
       storage: deps.storage,
       key,
       fileName,
@@ -174,6 +175,13 @@ export function tracksRouter(deps: AppDeps): Router {
     });
     const n = got.track.length;
     const duration_s = n > 1 ? (got.track.time_s[n - 1] as number) - (got.track.time_s[0] as number) : 0;
+    // The same bytes uploaded to this track before: stored again as a new take, with a warning.
+    const [same] = await deps.db
+      .select({ id: takes.id, number: takes.number })
+      .from(takes)
+      .where(inStudio(takes, studioId, and(eq(takes.trackId, t.id), eq(takes.sha256, got.sha256))))
+      .orderBy(asc(takes.number))
+      .limit(1);
     const row = await deps.db.transaction(async (tx) => {
       // Numbers per track: lock the track row so two uploads cannot take the same number.
       await tx.execute(sql`select id from tracks where id = ${t.id} for update`);
@@ -217,7 +225,8 @@ export function tracksRouter(deps: AppDeps): Router {
       });
       return inserted!;
     });
-    res.status(201).json(toTake(row));
+    const answer: UploadedTake = { ...toTake(row), duplicateOf: same ?? null };
+    res.status(201).json(answer);
   });
 
   return r;

@@ -2,9 +2,9 @@
 // over limit) per subject, and a finding with its time span for every stretch at or over the limit.
 //
 // Ratios, per check:
-// - stroke: allowed [min + margin, max - margin]; ratio = length / upper bound above the middle,
-//   lower bound / length below it (e.g. 2.312 m against 2.28 m gives 1.014). value and
-//   limit are the length and the bound it approached, in m.
+// - stroke: measured from mid-stroke. The usable band is [min + margin, max - margin], m its middle and
+//   h its half-width; ratio = |L - m| / h, so a leg resting at m reads 0 and a leg at either edge of the
+//   band reads 1. value is the excursion |L - m| and limit is h, both in m.
 // - legSpeed, legAccel: |value| / limit per leg.
 // - envelope: see envelope.ts; subject = seat, with the axis and row named on the finding.
 // - jerk, angularSpeed, angularAccel: |value| / limit per axis (platform frame) at the worst seat at
@@ -230,6 +230,21 @@ function absRatio(signal: Float64Array, limit: number, ratio: Float64Array): Flo
   return ratio;
 }
 
+/** The usable stroke band [min + margin, max - margin] (m), its middle and its half-width. */
+export function strokeBand(
+  leg: Pick<LegLimits, 'min_m' | 'max_m'>,
+  margin_m: number,
+): { low_m: number; high_m: number; mid_m: number; halfWidth_m: number } {
+  const low_m = leg.min_m + margin_m;
+  const high_m = leg.max_m - margin_m;
+  return { low_m, high_m, mid_m: (low_m + high_m) / 2, halfWidth_m: (high_m - low_m) / 2 };
+}
+
+/** Stroke use of a leg at length_m (m): |L - mid| / half-width, 0 at mid-stroke and 1 at either edge. */
+export function strokeUse(length_m: number, band: { mid_m: number; halfWidth_m: number }): number {
+  return Math.abs(length_m - band.mid_m) / band.halfWidth_m;
+}
+
 /** Runs every check of the budget on one uniform-grid track; pure, allocation proportional to the track. */
 export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
   const { time_s, rate_hz } = input;
@@ -240,27 +255,24 @@ export function runChecks(input: CheckInput, budget: Budget): BudgetCheck {
   const lim = input.legLimits;
 
   // Actuators.
-  const lo = lim.min_m + budget.strokeMargin_m;
-  const hi = lim.max_m - budget.strokeMargin_m;
-  if (!(lo < hi)) {
+  const band = strokeBand(lim, budget.strokeMargin_m);
+  if (!(band.halfWidth_m > 0)) {
     throw new CheckInputError(
       `stroke margin ${budget.strokeMargin_m} m leaves no stroke between ${lim.min_m} m and ${lim.max_m} m`,
     );
   }
-  const mid = (lo + hi) / 2;
+  const mid = band.mid_m;
+  const half = band.halfWidth_m;
+  const invHalf = 1 / half;
   input.legLength_m.forEach((len, k) => {
     assertFinite(`leg${k + 1} length`, len, time_s);
-    for (let i = 0; i < n; i++) {
-      const l = len[i] as number;
-      // A length at or below zero cannot come from real kinematics; give it a large finite ratio.
-      ratio[i] = l >= mid ? l / hi : l > 0 ? lo / l : 1e6;
-    }
+    for (let i = 0; i < n; i++) ratio[i] = Math.abs((len[i] as number) - mid) * invHalf;
     out.scan(
       'stroke',
       `leg${k + 1}`,
       ratio,
-      (i) => len[i] as number,
-      (i) => ((len[i] as number) >= mid ? hi : lo),
+      (i) => Math.abs((len[i] as number) - mid),
+      () => half,
     );
   });
   input.legSpeed_mps.forEach((v, k) => {

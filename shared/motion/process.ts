@@ -1,7 +1,7 @@
-// The offline pipeline in one pure function (docs/motion-conventions.md sections 3-7): a parsed track (vehicle, pose or
-// legs) and a motion base, plus an optional cueing profile and budget, become every output of a package
-// in memory: leg lengths and poses at the controller rate, findings, spectra and chart series. No I/O,
-// no clock: the CLI, the worker and the tests call the same function and write the results themselves.
+// The offline pipeline in one pure function: a parsed track (vehicle, pose or legs) and a motion base,
+// plus an optional cueing profile and budget, become the computed run in memory: leg lengths and poses
+// at the controller rate, findings and spectra. No I/O, no clock. The files, manifest, summary and
+// chart series of a run are made from this result by buildRunOutputs (run-outputs.ts).
 import type { Budget } from '../schemas/budget';
 import { DEMO_BUDGET, ENVELOPE_AXES } from '../schemas/budget';
 import type { CueingProfile } from '../schemas/cueing-profile';
@@ -9,11 +9,8 @@ import { defaultCueingProfile } from '../schemas/cueing-profile';
 import type { CheckResult } from '../schemas/findings';
 import { exitCodeFor } from '../schemas/findings';
 import type { MotionBase } from '../schemas/motion-base';
-import { REPORT_CAUTION, buildReport } from './report';
 import type { BudgetCheck, SeatForceModel } from './checks';
-import { DIRECT_WEIGHTING_MAX_SEATS, RIDER_LOWPASS_HZ, runChecks } from './checks';
-import type { MinMaxSeries } from './decimate';
-import { decimateMinMax } from './decimate';
+import { DIRECT_WEIGHTING_MAX_SEATS, runChecks } from './checks';
 import type { PoseColumns } from './hexapod';
 import {
   hexapodConditionNumbers,
@@ -44,8 +41,6 @@ export interface ProcessInput {
   profile?: CueingProfile;
   /** Safety budget; the demo budget (clearly marked as such) when absent. */
   budget?: Budget;
-  /** Buckets of the min/max chart series; default 2000. */
-  chartBuckets?: number;
 }
 
 /** Spectra as written to spectra.json: one-sided Welch PSD per axis of the rider's specific force. */
@@ -88,8 +83,6 @@ export interface ProcessResult {
   exitCode: 0 | 3 | 4;
   /** Gaps in the input (spacing over 5 x the median), each bridged by interpolation; shaded on the charts. */
   gaps: TrackGap[];
-  /** Min/max series for charts: each leg's length and the low-passed force at the first seat. */
-  charts: { legs_m: MinMaxSeries[]; seat1Force_mps2: MinMaxSeries[]; legForce_N: MinMaxSeries[] };
 }
 
 /** Thrown when the track does not fit the base (a planar pose for a hexapod, too few samples). */
@@ -323,9 +316,6 @@ export function processTrack(input: ProcessInput): ProcessResult {
   const spectra = riderSpectra(seatForce, check, rate_hz, n);
   if (!spectra) notes.push('The track is too short for a spectrum (fewer than 32 samples).');
 
-  const buckets = input.chartBuckets ?? 2000;
-  const t0 = time_s[0] as number;
-  const seat1 = check.rider.seatForceLp_mps2[0];
   return {
     inputKind: track.kind,
     baseKind: base.kind,
@@ -343,11 +333,6 @@ export function processTrack(input: ProcessInput): ProcessResult {
     notes,
     exitCode: exitCodeFor(check),
     gaps: gaps.map((g) => ({ start_s: g.start_s, end_s: g.end_s })),
-    charts: {
-      legs_m: legs.map((l) => decimateMinMax(l, 0, 1, n, t0, rate_hz, buckets)),
-      seat1Force_mps2: seat1 ? seat1.map((f) => decimateMinMax(f, 0, 1, n, t0, rate_hz, buckets)) : [],
-      legForce_N: legForce ? legForce.map((f) => decimateMinMax(f, 0, 1, n, t0, rate_hz, buckets)) : [],
-    },
   };
 }
 
@@ -501,144 +486,4 @@ export function findingsForJson(check: CheckResult, notes: readonly string[] = [
   }
   if (notes.length > 0) out.notes = [...notes];
   return out;
-}
-
-/** CSV text of the pose offsets (docs/motion-conventions.md section 3 pose columns, SI units). */
-export function poseCsv(r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind'>): string {
-  const p = r.pose;
-  const cols =
-    r.baseKind === 'hexapod'
-      ? [p.x_m, p.y_m, p.z_m, p.roll_rad, p.pitch_rad, p.yaw_rad]
-      : [p.x_m, p.y_m, p.yaw_rad];
-  const header =
-    r.baseKind === 'hexapod' ? 'time_s,x_m,y_m,z_m,roll_rad,pitch_rad,yaw_rad' : 'time_s,x_m,y_m,yaw_rad';
-  return columnsCsv(header, r.time_s, cols);
-}
-
-/** CSV text of the leg lengths (docs/motion-conventions.md section 3 legs columns, m). */
-export function legsCsv(r: Pick<ProcessResult, 'time_s' | 'legs'>): string {
-  const header = ['time_s', ...r.legs.map((_, i) => `leg${i + 1}_m`)].join(',');
-  return columnsCsv(header, r.time_s, r.legs);
-}
-
-// Nine decimals (nanometres, nanoradians) keep second differences of a re-read file at 1 kHz far
-// below any limit.
-function columnsCsv(header: string, time_s: Float64Array, cols: readonly Float64Array[]): string {
-  const n = time_s.length;
-  const lines: string[] = new Array<string>(n + 1);
-  lines[0] = header;
-  const row: string[] = new Array<string>(cols.length + 1);
-  for (let i = 0; i < n; i++) {
-    row[0] = (time_s[i] as number).toFixed(6);
-    for (let c = 0; c < cols.length; c++) {
-      const text = ((cols[c] as Float64Array)[i] as number).toFixed(9);
-      // A tiny negative value prints as "-0.000000000"; write it as plain zero.
-      row[c + 1] = text === '-0.000000000' ? '0.000000000' : text;
-    }
-    lines[i + 1] = row.join(',');
-  }
-  return lines.join('\n') + '\n';
-}
-
-/** A file named and hashed by the caller (hashing needs I/O or node:crypto, which shared/ has not). */
-export interface SourceFile {
-  /** Base name, as shown in the manifest and the report. */
-  file: string;
-  sha256: string;
-  size_bytes?: number;
-}
-
-/** Where a run's inputs came from, for the manifest and the report. */
-export interface PackageSource {
-  input: SourceFile;
-  /** The parsed input track (before resampling): rows and time span. */
-  track: Pick<Track, 'kind' | 'layout' | 'length' | 'time_s'>;
-  base: SourceFile;
-  /** Absent when the default profile was used or the track was not cued. */
-  profile?: SourceFile;
-  /** Absent when the demo budget was used. */
-  budget?: SourceFile;
-  softwareVersion: string;
-}
-
-/**
- * The files of a package (all but manifest.json) and the manifest's parameters, from a pipeline result.
- * The writer adds each file's SHA-256 and size to the manifest; the CLI and the worker share this.
- */
-export function packageContents(
-  result: ProcessResult,
-  base: MotionBase,
-  source: PackageSource,
-): { files: { name: string; content: string }[]; manifest: Record<string, unknown> } {
-  const n = source.track.length;
-  const start_s = source.track.time_s[0] as number;
-  const end_s = source.track.time_s[n - 1] as number;
-  const spectra = result.spectra;
-  const report = buildReport(result.findings, {
-    inputFile: source.input.file,
-    inputKind: source.track.kind,
-    inputRows: n,
-    start_s,
-    end_s,
-    baseName: base.name ?? source.base.file,
-    baseKind: base.kind,
-    seats: base.seats_m.length,
-    rate_hz: result.rate_hz,
-    profileName: result.profile ? result.profile.name : null,
-    budget: result.budget,
-    budgetIsDemo: result.budgetIsDemo,
-    softwareVersion: source.softwareVersion,
-    ...(spectra
-      ? {
-          sicknessBandShare: {
-            x: spectra.axes.x.bandShare,
-            y: spectra.axes.y.bandShare,
-            z: spectra.axes.z.bandShare,
-          },
-        }
-      : {}),
-  });
-  const manifest = {
-    format: 'legwork-package',
-    formatVersion: 1,
-    software: { name: 'legwork', version: source.softwareVersion },
-    caution: REPORT_CAUTION,
-    result: { within: result.findings.within, exitCode: result.exitCode },
-    input: {
-      ...source.input,
-      kind: source.track.kind,
-      layout: source.track.layout,
-      rows: n,
-      start_s,
-      end_s,
-      meanRate_hz: n > 1 && end_s > start_s ? (n - 1) / (end_s - start_s) : null,
-    },
-    rates: {
-      controller_hz: result.rate_hz,
-      samples: result.time_s.length,
-      resampling:
-        (source.track.kind === 'vehicle'
-          ? 'linear interpolation onto a fine grid'
-          : 'cubic Hermite interpolation (three-point slopes) onto a fine grid') +
-        `, then an anti-alias Kaiser-windowed sinc low-pass (cut-off ${sig(ANTI_ALIAS_CUTOFF * result.rate_hz)} Hz) read at the controller instants`,
-      riderLowPass: `4-pole Butterworth, ${RIDER_LOWPASS_HZ} Hz (common practice)`,
-      weighting: result.findings.comfort?.weightingNote ?? null,
-    },
-    base: { ...source.base, parameters: base },
-    profile: result.profile
-      ? { ...(source.profile ?? {}), default: source.profile === undefined, parameters: result.profile }
-      : null,
-    budget: { ...(source.budget ?? {}), demo: result.budgetIsDemo, parameters: result.budget },
-    notes: result.notes,
-  };
-  return {
-    files: [
-      { name: 'legs.csv', content: legsCsv(result) },
-      { name: 'pose.csv', content: poseCsv(result) },
-      { name: 'findings.json', content: `${JSON.stringify(result.findings, null, 2)}\n` },
-      { name: 'spectra.json', content: `${JSON.stringify(spectra)}\n` },
-      { name: 'report.txt', content: report },
-    ],
-    manifest,
-  };
 }

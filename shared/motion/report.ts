@@ -62,6 +62,8 @@ function describeFinding(f: Finding, budget: Budget): string {
         : `${f.axis} stayed outside ${band} for ${fmt(f.value)} s; the row allows less than ${fmt(f.limit)} s`;
   } else if (f.check === 'startEnd' && f.quantity !== undefined && f.unit !== undefined) {
     detail = `|${f.quantity}| was ${fmt(f.value)} ${f.unit} at the ${f.subject}; the tolerance is ${fmt(f.limit)} ${f.unit}`;
+  } else if (f.check === 'stroke') {
+    detail = `${fmt(f.value)} m from mid-stroke, past the half-width ${fmt(f.limit)} m of the usable band`;
   } else {
     const unit = CHECK_UNIT[f.check];
     detail = `${fmt(f.value)} ${unit} against the limit ${fmt(f.limit)} ${unit}`;
@@ -164,7 +166,8 @@ export function buildReport(result: CheckResult, ctx: ReportContext): string {
     'How the checks work: each check gives a use ratio, its worst value over its limit. Rider forces are',
     'compared after a 4-pole Butterworth low-pass at 5 Hz (common practice for ride accelerations). Envelope',
     'rows with a duration allow the force outside their band for strictly less than that time; a row with',
-    'duration 0 is an absolute bound. Stroke is checked inside [min + margin, max - margin].',
+    'duration 0 is an absolute bound. Stroke is checked inside [min + margin, max - margin]: its use is the',
+    "leg's distance from the middle of that band over half the band's width (0 at mid-stroke, 1 at the margin).",
     '',
     REPORT_CAUTION,
     '',

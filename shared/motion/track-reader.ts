@@ -24,7 +24,8 @@ export type TrackErrorCode =
   | 'mixedColumns'
   | 'fieldCount'
   | 'tooManyRows'
-  | 'tooLarge';
+  | 'tooLarge'
+  | 'lineTooLong';
 
 /** A bad track file: where (file, 1-based line, 1-based column and its name) and why. */
 export class TrackFileError extends Error {
@@ -80,12 +81,18 @@ export interface TrackReaderOptions {
   maxRows?: number;
   /** Most characters of text accepted (bytes for the ASCII files we expect); default 256 MiB. */
   maxBytes?: number;
+  /** Most characters in one line; default 4,096 (a row of seven numbers needs under 200). */
+  maxLineChars?: number;
 }
 
 /** Default most data rows of a track file (33 min at 1 kHz). */
 export const DEFAULT_MAX_ROWS = 2_000_000;
 /** Default most characters of a track file's text, 256 MiB. */
 export const DEFAULT_MAX_BYTES = 256 * 1024 * 1024;
+/** Default most characters of one line of a track file. */
+export const DEFAULT_MAX_LINE_CHARS = 4096;
+/** Blank lines allowed besides the header and the data rows (every line counts against the row limit). */
+const BLANK_LINE_ALLOWANCE = 1024;
 
 type Quantity = 'time' | 'length' | 'angle' | 'accel' | 'rate';
 
@@ -210,7 +217,11 @@ export class TrackReader {
   private readonly file: string;
   private readonly maxRows: number;
   private readonly maxBytes: number;
-  private carry = '';
+  private readonly maxLineChars: number;
+  // The unfinished last line, in pieces (joined once its newline arrives: linear in the input).
+  private carry: string[] = [];
+  private carryChars = 0;
+  private blankLines = 0;
   private bytes = 0;
   private lineNo = 0;
   private failed: TrackFileError | null = null;
@@ -234,6 +245,7 @@ export class TrackReader {
     this.file = options.file;
     this.maxRows = options.maxRows ?? DEFAULT_MAX_ROWS;
     this.maxBytes = options.maxBytes ?? DEFAULT_MAX_BYTES;
+    this.maxLineChars = options.maxLineChars ?? DEFAULT_MAX_LINE_CHARS;
   }
 
   /** Feeds the next piece of the file's text (any split, even mid-line or mid-number). */
@@ -250,19 +262,35 @@ export class TrackReader {
           `file too large: more than ${this.maxBytes} bytes`,
         );
       }
-      let text = this.carry + chunk;
+      let text = chunk;
       if (!this.started && text.length > 0) {
         this.started = true;
         if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
       }
+      // Only the new text is searched for newlines; the carried start of a line is never searched again.
       let start = 0;
-      for (;;) {
-        const nl = text.indexOf('\n', start);
-        if (nl < 0) break;
+      let nl = text.indexOf('\n');
+      if (nl >= 0 && this.carry.length > 0) {
+        this.checkLineLength(this.carryChars + nl);
+        this.carry.push(text.slice(0, nl));
+        const whole = this.carry.join('');
+        this.carry = [];
+        this.carryChars = 0;
+        this.line(whole, 0, whole.length);
+        start = nl + 1;
+        nl = text.indexOf('\n', start);
+      }
+      while (nl >= 0) {
+        this.checkLineLength(nl - start);
         this.line(text, start, nl);
         start = nl + 1;
+        nl = text.indexOf('\n', start);
       }
-      this.carry = start === 0 ? text : text.slice(start);
+      if (start < text.length) {
+        this.checkLineLength(this.carryChars + text.length - start);
+        this.carry.push(start === 0 ? text : text.slice(start));
+        this.carryChars += text.length - start;
+      }
     } catch (e) {
       if (e instanceof TrackFileError) this.failed = e;
       throw e;
@@ -274,8 +302,9 @@ export class TrackReader {
     if (this.failed) throw this.failed;
     try {
       if (this.carry.length > 0) {
-        const last = this.carry;
-        this.carry = '';
+        const last = this.carry.join('');
+        this.carry = [];
+        this.carryChars = 0;
         this.line(last, 0, last.length);
       }
       if (!this.headerDone) this.fail(1, null, null, 'empty', 'empty file: no header row');
@@ -307,6 +336,18 @@ export class TrackReader {
     throw new TrackFileError(this.file, line, column, columnName, code, reason);
   }
 
+  private checkLineLength(chars: number): void {
+    if (chars > this.maxLineChars) {
+      this.fail(
+        this.lineNo + 1,
+        null,
+        null,
+        'lineTooLong',
+        `line too long: more than ${this.maxLineChars} characters`,
+      );
+    }
+  }
+
   private line(text: string, from: number, to: number): void {
     this.lineNo++;
     let end = to;
@@ -320,7 +361,18 @@ export class TrackReader {
         break;
       }
     }
-    if (blank) return;
+    if (blank) {
+      if (++this.blankLines > BLANK_LINE_ALLOWANCE + this.rows) {
+        this.fail(
+          this.lineNo,
+          null,
+          null,
+          'tooManyRows',
+          `too many blank lines: more than ${BLANK_LINE_ALLOWANCE} besides one per data row`,
+        );
+      }
+      return;
+    }
     if (!this.headerDone) this.header(text.slice(from, end));
     else this.row(text, from, end);
   }

@@ -63,6 +63,12 @@ export const takeSchema = z.object({
 });
 export type Take = z.infer<typeof takeSchema>;
 
+/** The answer to an upload: the new take, and the earlier take of the same track with the same SHA-256, if any. */
+export const uploadedTakeSchema = takeSchema.extend({
+  duplicateOf: z.object({ id: z.string().uuid(), number: z.number().int() }).nullable(),
+});
+export type UploadedTake = z.infer<typeof uploadedTakeSchema>;
+
 export const useSummarySchema = z.object({ check: z.string(), subject: z.string(), ratio: z.number() });
 
 export const runSummarySchema = z.object({

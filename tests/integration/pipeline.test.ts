@@ -15,7 +15,9 @@ import { createHandler } from '../../worker/jobs/cue-run';
 import type { JobMeta } from '../../worker/jobs/cue-run';
 import { makeVehicleCsv } from '../factories/takes';
 import { demoHexapodInput } from '../../shared/schemas/motion-base';
+import { runDetailSchema } from '../../shared/schemas/pipeline';
 import type { RunDetail, RunSummary, Take, TrackDetail } from '../../shared/schemas/pipeline';
+import { runSeriesSchema } from '../../shared/schemas/run-series';
 
 let t: TestApp;
 let producer: Client;
@@ -214,14 +216,29 @@ describe('cue runs', () => {
         'report.txt',
         'spectra.json',
       ]);
-      const detail = await producer.get(`${base()}/runs/${run.id}`).expect(200);
-      const d = detail.body as RunDetail;
+      const d = runDetailSchema.parse((await producer.get(`${base()}/runs/${run.id}`).expect(200)).body);
       expect(d.result?.uses.length).toBeGreaterThan(0);
       expect(d.state).toBe(row.state);
       // The state follows the findings: held by budget exactly when a finding is at or over a limit.
       expect(d.state === 'held_by_budget').toBe((d.result?.findings.length ?? 0) > 0);
-      const series = await producer.get(`${base()}/runs/${run.id}/series`).expect(200);
-      expect(series.body.legs.length).toBe(run.venueName === 'Harbour Lights Dome' ? 6 : 3);
+      // Parsed with the client's own schema, which refuses a band off the time axis' length.
+      const series = runSeriesSchema.parse(
+        (await producer.get(`${base()}/runs/${run.id}/series`).expect(200)).body,
+      );
+      expect(series.legs.length).toBe(run.venueName === 'Harbour Lights Dome' ? 6 : 3);
+      const n = series.time_s.length;
+      const bands = [
+        ...series.legs,
+        ...Object.values(series.pose),
+        ...(['x', 'y', 'z'] as const).flatMap((a) => [series.force[a].cued, series.force[a].input!]),
+      ];
+      for (const b of bands) {
+        expect(b.min.length).toBe(n);
+        expect(b.max.length).toBe(n);
+      }
+      // The trace ends at the take's end: 15 s of samples from t = 0 (makeVehicleCsv), at the controller grid.
+      expect(series.time_s[n - 1]).toBeCloseTo(take.duration_s, 6);
+      expect(series.time_s[0]).toBe(0);
       const legs = await producer.get(`${base()}/runs/${run.id}/files/legs.csv`).expect(200);
       expect(legs.text.split('\n')[0]).toMatch(/^time_s,leg1_m/);
     }

@@ -1,34 +1,39 @@
-// The cue-run job: fetch the take from storage, run the motion core (the same `processTrack` as
-// `legwork process`), write the artifacts to storage and the summary to PostgreSQL.
+// The cue-run job, in its steps: claim the run, load its inputs (take, venue, profile versions), read
+// the take from storage, build the outputs (the same processTrack and buildRunOutputs as `legwork
+// process`), write them to storage, finish the run with one guarded update.
 //
 // Delivered twice, or again after a worker died mid-run, it is safe: a run already finished is left
-// alone; a run left in `cueing` is done again from the start, and since the artifacts are
-// deterministic and their keys fixed, the retry overwrites them with the same bytes before the one
-// guarded update that finishes the run.
-import { createHash } from 'node:crypto';
-import { StringDecoder } from 'node:string_decoder';
-import { createGunzip } from 'node:zlib';
-import type { Readable } from 'node:stream';
-import { GetObjectCommand, PutObjectCommand } from '@aws-sdk/client-s3';
+// alone; a run left in `cueing` is done again from the start, and since the outputs are deterministic
+// and their keys fixed, the retry overwrites them with the same bytes before the one guarded update
+// that finishes the run.
 import { and, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../../server/db/client';
 import { cueRuns, profileVersions, profiles, takes, venues } from '../../server/db/schema';
-import type { CueRunRow } from '../../server/db/schema';
+import type { CueRunRow, TakeRow, VenueRow } from '../../server/db/schema';
 import { inStudio } from '../../server/db/scope';
 import type { Storage } from '../../server/storage';
 import { recordAudit } from '../../server/audit';
-import { TrackFileError, TrackReader } from '../../shared/motion/track-reader';
+import { sha256Hex, storageSink, writeRunOutputs } from '../../server/pipeline/run-outputs';
+import { TrackStreamError, readStoredTake } from '../../server/pipeline/track-stream';
+import { TrackFileError } from '../../shared/motion/track-reader';
 import type { Track } from '../../shared/motion/track-reader';
-import { ProcessInputError, packageContents, processTrack } from '../../shared/motion/process';
+import { ProcessInputError, processTrack } from '../../shared/motion/process';
+import { buildRunOutputs } from '../../shared/motion/run-outputs';
+import type { RunOutputs } from '../../shared/motion/run-outputs';
 import { KinematicsError } from '../../shared/motion/base-geometry';
-import { RUN_SERIES_BUCKETS, buildRunSeries } from '../../shared/motion/run-series';
+import { CheckInputError } from '../../shared/motion/checks';
 import { parseMotionBase } from '../../shared/schemas/motion-base';
+import type { MotionBase } from '../../shared/schemas/motion-base';
 import { budgetSchema } from '../../shared/schemas/budget';
+import type { Budget } from '../../shared/schemas/budget';
 import { cueingProfileSchema } from '../../shared/schemas/cueing-profile';
+import type { CueingProfile } from '../../shared/schemas/cueing-profile';
+import { cueRunJobSchema, storedRunSummarySchema } from '../../shared/schemas/run-outputs';
+import type { ManifestFile, StoredRunSummary } from '../../shared/schemas/run-outputs';
 import { softwareVersion } from '../../server/lib/version';
 
-export const cueRunJobSchema = z.object({ runId: z.string().uuid(), studioId: z.string().uuid() });
+export { cueRunJobSchema };
 
 export interface CueRunDeps {
   db: Db;
@@ -45,228 +50,236 @@ export interface JobMeta {
 }
 
 /** Errors in the take or its settings: retrying cannot help, so the run fails at once with the reason. */
-const isInputError = (e: unknown) =>
+export const isInputError = (e: unknown): boolean =>
   e instanceof TrackFileError ||
+  e instanceof TrackStreamError ||
   e instanceof ProcessInputError ||
   e instanceof KinematicsError ||
+  e instanceof CheckInputError ||
   e instanceof z.ZodError;
 
-const artifactKey = (run: Pick<CueRunRow, 'studioId' | 'id'>, name: string) =>
-  `studios/${run.studioId}/runs/${run.id}/${name}`;
+const artifactPrefix = (run: Pick<CueRunRow, 'studioId' | 'id'>) => `studios/${run.studioId}/runs/${run.id}/`;
 
-async function readTake(storage: Storage, key: string, fileName: string): Promise<Track> {
-  const obj = await storage.client.send(new GetObjectCommand({ Bucket: storage.bucket, Key: key }));
-  const body = obj.Body as Readable;
-  const stream = fileName.toLowerCase().endsWith('.gz') ? body.pipe(createGunzip()) : body;
-  const reader = new TrackReader({ file: fileName, maxBytes: Number.MAX_SAFE_INTEGER });
-  const decoder = new StringDecoder('utf8');
-  for await (const chunk of stream) reader.push(decoder.write(chunk as Buffer));
-  reader.push(decoder.end());
-  return reader.end();
+interface VersionRef {
+  params: unknown;
+  version: number;
+  name: string;
+}
+
+/** What a run is computed from, loaded and validated. */
+interface RunInputs {
+  take: TakeRow;
+  venue: VenueRow;
+  base: MotionBase;
+  budget: Budget;
+  budgetVersion: VersionRef;
+  profile: CueingProfile | undefined;
+  cueingVersion: VersionRef | null;
+}
+
+/** Marks a queued (or half-done) run as cueing; null when the run is gone or already finished. */
+async function claimRun(deps: CueRunDeps, runId: string, studioId: string): Promise<CueRunRow | null> {
+  const [run] = await deps.db
+    .select()
+    .from(cueRuns)
+    .where(inStudio(cueRuns, studioId, eq(cueRuns.id, runId)));
+  if (!run) {
+    deps.log(`cue run ${runId}: not found; nothing to do`);
+    return null;
+  }
+  if (run.state !== 'queued' && run.state !== 'cueing') {
+    deps.log(`cue run ${run.id}: already ${run.state}; a repeated delivery changes nothing`);
+    return null;
+  }
+  await deps.db
+    .update(cueRuns)
+    .set({ state: 'cueing', progress: 2, attempts: run.attempts + 1, startedAt: deps.now(), lastError: null })
+    .where(eq(cueRuns.id, run.id));
+  return { ...run, state: 'cueing' };
+}
+
+/** Loads the take, the venue and the profile versions of the run, and parses the settings. */
+async function loadInputs(deps: CueRunDeps, run: CueRunRow): Promise<RunInputs> {
+  const { db } = deps;
+  const [take] = await db
+    .select()
+    .from(takes)
+    .where(inStudio(takes, run.studioId, eq(takes.id, run.takeId)));
+  const [venue] = await db
+    .select()
+    .from(venues)
+    .where(inStudio(venues, run.studioId, eq(venues.id, run.venueId)));
+  if (!take || !venue) throw new ProcessInputError('the take or the venue of this run no longer exists');
+  const versionOf = async (id: string | null): Promise<VersionRef | null> => {
+    if (!id) return null;
+    const [v] = await db
+      .select({ params: profileVersions.params, version: profileVersions.version, name: profiles.name })
+      .from(profileVersions)
+      .innerJoin(profiles, eq(profiles.id, profileVersions.profileId))
+      .where(inStudio(profileVersions, run.studioId, eq(profileVersions.id, id)));
+    return v ?? null;
+  };
+  const cueingVersion = await versionOf(run.cueingVersionId);
+  const budgetVersion = await versionOf(run.budgetVersionId);
+  if (!budgetVersion) throw new ProcessInputError('the budget profile version of this run no longer exists');
+  return {
+    take,
+    venue,
+    base: parseMotionBase(venue.base),
+    budget: budgetSchema.parse(budgetVersion.params),
+    budgetVersion,
+    profile: cueingVersion ? cueingProfileSchema.parse(cueingVersion.params) : undefined,
+    cueingVersion,
+  };
+}
+
+/** Reads the take's file from storage through the track stream reader. */
+function readTake(deps: CueRunDeps, inputs: RunInputs): Promise<Track> {
+  return readStoredTake(deps.storage, inputs.take.storageKey, inputs.take.fileName);
+}
+
+/**
+ * Runs the motion core and builds every output of the run. A RangeError here comes from sizes and
+ * values the take gave (an array length, a time grid), not from the machine: it is an input error.
+ */
+function buildOutputs(run: CueRunRow, inputs: RunInputs, track: Track): RunOutputs {
+  try {
+    return buildOutputsOf(run, inputs, track);
+  } catch (e) {
+    if (e instanceof RangeError) throw new ProcessInputError(e.message);
+    throw e;
+  }
+}
+
+function buildOutputsOf(run: CueRunRow, inputs: RunInputs, track: Track): RunOutputs {
+  const { take, venue, base, budget, profile, cueingVersion, budgetVersion } = inputs;
+  const result = processTrack({ track, base, budget, ...(profile ? { profile } : {}) });
+  const hashJson = (v: unknown) => sha256Hex(JSON.stringify(v));
+  return buildRunOutputs(result, track, base, {
+    input: { file: take.fileName, sha256: take.sha256, size_bytes: take.sizeBytes },
+    track,
+    base: { file: `${venue.name} motion base`, sha256: hashJson(venue.base) },
+    ...(cueingVersion
+      ? {
+          profile: {
+            file: `${cueingVersion.name} v${cueingVersion.version}`,
+            sha256: hashJson(cueingVersion.params),
+          },
+        }
+      : {}),
+    budget: {
+      file: `${budgetVersion.name} v${budgetVersion.version}`,
+      sha256: hashJson(budgetVersion.params),
+    },
+    softwareVersion: softwareVersion(),
+    run: {
+      id: run.id,
+      take: { id: take.id, number: take.number },
+      venue: { id: venue.id, name: venue.name },
+    },
+  });
+}
+
+/** Writes the package and the chart series under the run's prefix in storage. */
+function writeOutputs(deps: CueRunDeps, run: CueRunRow, outputs: RunOutputs): Promise<ManifestFile[]> {
+  return writeRunOutputs(outputs, storageSink(deps.storage, artifactPrefix(run)), { series: true });
+}
+
+/** Stores the summary and the end state in one guarded update (only a run still cueing), with its audit event. */
+async function finish(deps: CueRunDeps, run: CueRunRow, outputs: RunOutputs, files: ManifestFile[]) {
+  const summary: StoredRunSummary = storedRunSummarySchema.parse({ ...outputs.summary, files });
+  const state = summary.exitCode === 0 ? 'awaiting_review' : 'held_by_budget';
+  await deps.db.transaction(async (tx) => {
+    const [done] = await tx
+      .update(cueRuns)
+      .set({
+        state,
+        progress: 100,
+        summary,
+        artifactPrefix: artifactPrefix(run),
+        finishedAt: deps.now(),
+        failureReason: null,
+      })
+      .where(and(eq(cueRuns.id, run.id), eq(cueRuns.state, 'cueing')))
+      .returning({ id: cueRuns.id });
+    if (done) {
+      await recordAudit(tx, {
+        studioId: run.studioId,
+        actor: null,
+        action: state === 'held_by_budget' ? 'run.held_by_budget' : 'run.awaiting_review',
+        subjectType: 'cue_run',
+        subjectId: run.id,
+        detail: { findings: summary.findings.length, exitCode: summary.exitCode },
+      });
+    }
+  });
+  deps.log(`cue run ${run.id}: ${state} (${summary.findings.length} finding(s))`);
+}
+
+/** Ends a run as failed with its reason (only a run still cueing), with its audit event. */
+async function fail(deps: CueRunDeps, run: CueRunRow, reason: string): Promise<void> {
+  await deps.db.transaction(async (tx) => {
+    const [done] = await tx
+      .update(cueRuns)
+      .set({ state: 'failed', failureReason: reason, finishedAt: deps.now() })
+      .where(and(eq(cueRuns.id, run.id), eq(cueRuns.state, 'cueing')))
+      .returning({ id: cueRuns.id });
+    if (done) {
+      await recordAudit(tx, {
+        studioId: run.studioId,
+        actor: null,
+        action: 'run.failed',
+        subjectType: 'cue_run',
+        subjectId: run.id,
+        detail: { reason },
+      });
+    }
+  });
+}
+
+/** Input errors fail the run at once; others put it back in the queue, or fail it on the last attempt. */
+async function handleError(deps: CueRunDeps, run: CueRunRow, job: JobMeta, e: unknown): Promise<void> {
+  const message = (e as Error).message || String(e);
+  if (isInputError(e)) {
+    await fail(deps, run, `The take could not be processed for this venue: ${message}`);
+    return;
+  }
+  const last = (job.retryCount ?? 0) >= (job.retryLimit ?? 0);
+  if (last) {
+    await fail(deps, run, `Gave up after ${(job.retryCount ?? 0) + 1} attempt(s): ${message}`);
+  } else {
+    await deps.db
+      .update(cueRuns)
+      .set({ state: 'queued', progress: 0, lastError: message })
+      .where(eq(cueRuns.id, run.id));
+  }
+  // pg-boss retries the job (with backoff) when the handler throws.
+  throw e;
 }
 
 /** Builds the pg-boss handler for the cue-run queue. */
 export function createHandler(deps: CueRunDeps) {
-  const { db, storage, log } = deps;
-
   const setProgress = (run: CueRunRow, progress: number) =>
-    db
+    deps.db
       .update(cueRuns)
       .set({ progress })
       .where(and(eq(cueRuns.id, run.id), eq(cueRuns.state, 'cueing')));
 
-  async function fail(run: CueRunRow, reason: string): Promise<void> {
-    await db.transaction(async (tx) => {
-      const [done] = await tx
-        .update(cueRuns)
-        .set({ state: 'failed', failureReason: reason, finishedAt: deps.now() })
-        .where(and(eq(cueRuns.id, run.id), eq(cueRuns.state, 'cueing')))
-        .returning({ id: cueRuns.id });
-      if (done) {
-        await recordAudit(tx, {
-          studioId: run.studioId,
-          actor: null,
-          action: 'run.failed',
-          subjectType: 'cue_run',
-          subjectId: run.id,
-          detail: { reason },
-        });
-      }
-    });
-  }
-
-  async function handle(job: JobMeta): Promise<void> {
+  return async function handle(job: JobMeta): Promise<void> {
     const data = cueRunJobSchema.parse(job.data);
-    const [run] = await db
-      .select()
-      .from(cueRuns)
-      .where(inStudio(cueRuns, data.studioId, eq(cueRuns.id, data.runId)));
-    if (!run) {
-      log(`cue run ${data.runId}: not found; nothing to do`);
-      return;
-    }
-    if (run.state !== 'queued' && run.state !== 'cueing') {
-      log(`cue run ${run.id}: already ${run.state}; a repeated delivery changes nothing`);
-      return;
-    }
-    await db
-      .update(cueRuns)
-      .set({
-        state: 'cueing',
-        progress: 2,
-        attempts: run.attempts + 1,
-        startedAt: deps.now(),
-        lastError: null,
-      })
-      .where(eq(cueRuns.id, run.id));
-    const running: CueRunRow = { ...run, state: 'cueing' };
+    const run = await claimRun(deps, data.runId, data.studioId);
+    if (!run) return;
     try {
-      const [take] = await db
-        .select()
-        .from(takes)
-        .where(inStudio(takes, run.studioId, eq(takes.id, run.takeId)));
-      const [venue] = await db
-        .select()
-        .from(venues)
-        .where(inStudio(venues, run.studioId, eq(venues.id, run.venueId)));
-      if (!take || !venue) throw new ProcessInputError('the take or the venue of this run no longer exists');
-      const versionOf = async (id: string | null) => {
-        if (!id) return null;
-        const [v] = await db
-          .select({ params: profileVersions.params, version: profileVersions.version, name: profiles.name })
-          .from(profileVersions)
-          .innerJoin(profiles, eq(profiles.id, profileVersions.profileId))
-          .where(inStudio(profileVersions, run.studioId, eq(profileVersions.id, id)));
-        return v ?? null;
-      };
-      const cueing = await versionOf(run.cueingVersionId);
-      const budgetV = await versionOf(run.budgetVersionId);
-      if (!budgetV) throw new ProcessInputError('the budget profile version of this run no longer exists');
-      const base = parseMotionBase(venue.base);
-      const budget = budgetSchema.parse(budgetV.params);
-      const profile = cueing ? cueingProfileSchema.parse(cueing.params) : undefined;
-
-      const track = await readTake(storage, take.storageKey, take.fileName);
-      await setProgress(running, 30);
-      const result = processTrack({
-        track,
-        base,
-        budget,
-        chartBuckets: RUN_SERIES_BUCKETS,
-        ...(profile ? { profile } : {}),
-      });
-      await setProgress(running, 65);
-
-      const json = (v: unknown) => JSON.stringify(v);
-      const sha = (s: string) => createHash('sha256').update(s).digest('hex');
-      const contents = packageContents(result, base, {
-        input: { file: take.fileName, sha256: take.sha256, size_bytes: take.sizeBytes },
-        track,
-        base: { file: `${venue.name} motion base`, sha256: sha(json(venue.base)) },
-        ...(cueing
-          ? { profile: { file: `${cueing.name} v${cueing.version}`, sha256: sha(json(cueing.params)) } }
-          : {}),
-        budget: { file: `${budgetV.name} v${budgetV.version}`, sha256: sha(json(budgetV.params)) },
-        softwareVersion: softwareVersion(),
-      });
-      const series = buildRunSeries(result, track, base);
-      const files = [...contents.files, { name: 'series.json', content: json(series) }];
-      const entries: { name: string; sha256: string; size_bytes: number }[] = [];
-      for (const f of files) {
-        const bytes = Buffer.from(f.content, 'utf8');
-        await storage.client.send(
-          new PutObjectCommand({
-            Bucket: storage.bucket,
-            Key: artifactKey(run, f.name),
-            Body: bytes,
-            ContentType: f.name.endsWith('.json')
-              ? 'application/json'
-              : f.name.endsWith('.csv')
-                ? 'text/csv'
-                : 'text/plain',
-          }),
-        );
-        entries.push({ name: f.name, sha256: sha(f.content), size_bytes: bytes.byteLength });
-      }
-      const manifest = {
-        ...contents.manifest,
-        run: {
-          id: run.id,
-          take: { id: take.id, number: take.number },
-          venue: { id: venue.id, name: venue.name },
-        },
-        files: entries.filter((e) => e.name !== 'series.json'),
-      };
-      const manifestText = `${JSON.stringify(manifest, null, 2)}\n`;
-      await storage.client.send(
-        new PutObjectCommand({
-          Bucket: storage.bucket,
-          Key: artifactKey(run, 'manifest.json'),
-          Body: manifestText,
-          ContentType: 'application/json',
-        }),
-      );
-      await setProgress(running, 95);
-
-      const state = result.exitCode === 0 ? 'awaiting_review' : 'held_by_budget';
-      const summary = {
-        within: result.findings.within,
-        exitCode: result.exitCode,
-        uses: result.findings.uses,
-        findings: result.findings.findings,
-        comfort: result.findings.comfort ?? null,
-        notes: result.notes,
-        rate_hz: result.rate_hz,
-        samples: result.time_s.length,
-        duration_s: (result.time_s[result.time_s.length - 1] as number) - (result.time_s[0] as number),
-        budgetIsDemo: result.budgetIsDemo,
-        files: [
-          ...entries,
-          { name: 'manifest.json', sha256: sha(manifestText), size_bytes: Buffer.byteLength(manifestText) },
-        ],
-      };
-      await db.transaction(async (tx) => {
-        const [done] = await tx
-          .update(cueRuns)
-          .set({
-            state,
-            progress: 100,
-            summary,
-            artifactPrefix: artifactKey(run, ''),
-            finishedAt: deps.now(),
-            failureReason: null,
-          })
-          .where(and(eq(cueRuns.id, run.id), eq(cueRuns.state, 'cueing')))
-          .returning({ id: cueRuns.id });
-        if (done) {
-          await recordAudit(tx, {
-            studioId: run.studioId,
-            actor: null,
-            action: state === 'held_by_budget' ? 'run.held_by_budget' : 'run.awaiting_review',
-            subjectType: 'cue_run',
-            subjectId: run.id,
-            detail: { findings: result.findings.findings.length, exitCode: result.exitCode },
-          });
-        }
-      });
-      log(`cue run ${run.id}: ${state} (${result.findings.findings.length} finding(s))`);
+      const inputs = await loadInputs(deps, run);
+      const track = await readTake(deps, inputs);
+      await setProgress(run, 30);
+      const outputs = buildOutputs(run, inputs, track);
+      await setProgress(run, 65);
+      const files = await writeOutputs(deps, run, outputs);
+      await setProgress(run, 95);
+      await finish(deps, run, outputs, files);
     } catch (e) {
-      const message = (e as Error).message || String(e);
-      if (isInputError(e)) {
-        await fail(running, `The take could not be processed for this venue: ${message}`);
-        return;
-      }
-      const last = (job.retryCount ?? 0) >= (job.retryLimit ?? 0);
-      if (last) {
-        await fail(running, `Gave up after ${(job.retryCount ?? 0) + 1} attempt(s): ${message}`);
-      } else {
-        await db
-          .update(cueRuns)
-          .set({ state: 'queued', progress: 0, lastError: message })
-          .where(eq(cueRuns.id, run.id));
-      }
-      throw e;
+      await handleError(deps, run, job, e);
     }
-  }
-  return handle;
+  };
 }

@@ -95,7 +95,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   }
   let result;
   try {
-    result = processTrack({ track, base, budget, chartBuckets: 0 });
+    result = processTrack({ track, base, budget });
   } catch (e) {
     describePipelineError(e, { input: values.in, track });
   }

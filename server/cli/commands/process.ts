@@ -4,14 +4,16 @@
 import { createReadStream } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { basename } from 'node:path';
-import { packageContents, processTrack } from '../../../shared/motion/process';
+import { processTrack } from '../../../shared/motion/process';
 import type { ProcessResult } from '../../../shared/motion/process';
+import { buildRunOutputs } from '../../../shared/motion/run-outputs';
+import { PACKAGE_FILES } from '../../../shared/schemas/run-outputs';
 import type { Budget } from '../../../shared/schemas/budget';
 import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
 import type { CliIo } from '../io';
 import { parseCommandOptions } from '../args';
 import { CAUTION, CliInputError, readBaseFile, readBudgetFile, readProfileFile, readTrackFile } from '../io';
-import { sha256Hex, writePackage } from '../package-writer';
+import { folderSink, sha256Hex, writeRunOutputs } from '../../pipeline/run-outputs';
 import { softwareVersion } from '../../lib/version';
 import { describePipelineError } from './check';
 
@@ -23,13 +25,9 @@ export const help = `Usage: legwork process --base BASE.json [--profile PROFILE.
 
 Reads a vehicle, pose or legs track, resamples it to the base's controller rate, cues vehicle
 tracks by classical washout (the default profile when none is given), runs the kinematics (inverse;
-forward for a legs track), checks the safety budget and computes the rider's spectra. Writes into DIR:
-  legs.csv       leg lengths at the controller rate (time_s, leg1_m ..)
-  pose.csv       pose offsets from neutral at the controller rate
-  findings.json  the findings JSON of \`legwork check\`
-  spectra.json   Welch PSD per axis of the rider's specific force, 0.1-0.5 Hz band marked
-  report.txt     a plain-language summary with the cautions
-  manifest.json  every file's SHA-256 and size, and every parameter of the run
+forward for a legs track), checks the safety budget and computes the rider's spectra. Writes into DIR
+the same package a cue run stores:
+${PACKAGE_FILES.map((f) => `  ${f.name.padEnd(15)}${f.describes}`).join('\n')}
 Without --budget the DEMO budget is used (invented numbers, not a standard's), and the report says so.
 
 Options:
@@ -99,7 +97,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
     });
   }
 
-  const contents = packageContents(result, base, {
+  const outputs = buildRunOutputs(result, track, base, {
     input: { file: basename(inPath), ...inputHash },
     track,
     base: { file: basename(basePath), sha256: sha256Hex(baseText) },
@@ -113,7 +111,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   });
 
   try {
-    await writePackage(values.out, contents.files, contents.manifest);
+    await writeRunOutputs(outputs, folderSink(values.out));
   } catch (e) {
     throw new CliInputError(`${values.out}: cannot write the package: ${(e as Error).message}`);
   }

@@ -30,7 +30,7 @@ function heaveLegLength(z_m: number): number {
 
 describe('a quiet track', () => {
   const track = makePoseTrackFrom(RATE, 10, () => [0, 0, 0, 0, 0, 0]);
-  const r = processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 });
+  const r = processTrack({ track, base, budget: makeBudget({}) });
 
   it('has no findings, is within budget and exits 0', () => {
     expect(r.check.findings).toEqual([]);
@@ -39,7 +39,7 @@ describe('a quiet track', () => {
     expect(checkResultSchema.safeParse(r.findings).success).toBe(true);
   });
 
-  it('lists a use for every check and subject, stroke at neutral measured on its nearer (lower) side', () => {
+  it('lists a use for every check and subject, stroke at neutral measured from mid-stroke', () => {
     const uses = new Map(r.check.uses.map((u) => [`${u.check}/${u.subject}`, u.ratio]));
     const expected = [
       ...['stroke', 'legSpeed', 'legAccel'].flatMap((c) => [1, 2, 3, 4, 5, 6].map((i) => `${c}/leg${i}`)),
@@ -55,9 +55,9 @@ describe('a quiet track', () => {
       ...['x', 'y', 'z', 'roll', 'pitch', 'yaw'].map((a) => `outOfBand/${a}`),
     ];
     expect([...uses.keys()].sort()).toEqual(expected.sort());
-    // 1.874 m at neutral lies below the middle of [1.5 + 0.02, 2.3 - 0.02] m: ratio = lower bound / length.
-    expect(heaveLegLength(0)).toBeLessThan((1.52 + 2.28) / 2);
-    expect(uses.get('stroke/leg1')).toBeCloseTo(1.52 / heaveLegLength(0), 9);
+    // Usable band [1.5 + 0.02, 2.3 - 0.02] m: middle 1.90 m, half-width 0.38 m; 1.874 m at neutral
+    // lies 0.026 m below the middle, so the use is 0.026 / 0.38 (the definition of stroke use).
+    expect(uses.get('stroke/leg1')).toBeCloseTo(Math.abs(heaveLegLength(0) - 1.9) / 0.38, 9);
     // At rest the rider feels exactly 1 g up; round-off in the filters leaves at most ~1e-14.
     for (const key of ['envelope/seat1', 'wrms/z', 'msdv/z', 'jerk/z', 'legSpeed/leg1']) {
       expect(uses.get(key)).toBeLessThan(1e-9);
@@ -69,7 +69,7 @@ describe('a heave past the stroke', () => {
   // Up 0.5 m over 5 s (cosine ramp), hold 2 s, down over 5 s: slow enough to stay inside every other limit.
   const lift = (t: number) => 0.5 * (smoothStep(t, 1, 6) - smoothStep(t, 8, 13));
   const track = makePoseTrackFrom(RATE, 15, (t) => [0, 0, lift(t), 0, 0, 0]);
-  const r = processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 });
+  const r = processTrack({ track, base, budget: makeBudget({}) });
 
   it('finds a stroke overrun on every leg, and only that, spanning the time above the bound', () => {
     const hard = r.check.findings.filter((f) => f.severity === 'hard');
@@ -84,9 +84,10 @@ describe('a heave past the stroke', () => {
     for (const f of hard) {
       expect(Math.abs(f.start_s - tUp)).toBeLessThan(1.5 / RATE);
       expect(Math.abs(f.end_s - tDown)).toBeLessThan(1.5 / RATE);
-      expect(f.limit).toBe(2.28);
-      expect(f.value).toBeCloseTo(heaveLegLength(0.5), 6);
-      expect(f.ratio).toBeCloseTo(heaveLegLength(0.5) / 2.28, 6);
+      // Excursion from mid-stroke 1.90 m against the half-width 0.38 m.
+      expect(f.limit).toBeCloseTo(0.38, 12);
+      expect(f.value).toBeCloseTo(heaveLegLength(0.5) - 1.9, 6);
+      expect(f.ratio).toBeCloseTo((heaveLegLength(0.5) - 1.9) / 0.38, 6);
     }
     expect(r.exitCode).toBe(4);
   });
@@ -108,7 +109,7 @@ describe('a fast sway', () => {
   const track = makePoseTrackFrom(RATE, 3, (t) => [0, A * Math.sin(w * t), 0, 0, 0, 0]);
   // A generous rider envelope keeps this about the legs (0.9 g of sway is outside the demo's y band).
   const budget = makeBudget({ envelope: { y: [[0, -2, 2]] }, startEnd: RELAXED_START_END });
-  const r = processTrack({ track, base, budget, chartBuckets: 0 });
+  const r = processTrack({ track, base, budget });
 
   it('finds leg-speed overruns on legs 4 and 5 only, each span around a pass through neutral', () => {
     const speed = r.check.findings.filter((f) => f.check === 'legSpeed');
@@ -147,7 +148,7 @@ describe('a sustained pitch', () => {
       ],
     },
   });
-  const r = processTrack({ track, base, budget, chartBuckets: 0 });
+  const r = processTrack({ track, base, budget });
 
   it('finds an envelope breach on x at every seat, spanning the time past 0.1 g', () => {
     const env = r.check.findings.filter((f) => f.check === 'envelope');
@@ -185,7 +186,6 @@ describe('comfort limits only', () => {
       track,
       base,
       budget: makeBudget({ comfort: { jerkMax_mps3: 1 }, startEnd: RELAXED_START_END }),
-      chartBuckets: 0,
     });
     expect(r.check.findings.length).toBeGreaterThan(0);
     for (const f of r.check.findings) {
@@ -204,7 +204,6 @@ describe('comfort limits only', () => {
       track,
       base,
       budget: makeBudget({ comfort: { wrmsMax_mps2: 0.01 }, startEnd: RELAXED_START_END }),
-      chartBuckets: 0,
     });
     const wrms = r.check.findings.filter((f) => f.check === 'wrms');
     expect(wrms.map((f) => f.subject)).toEqual(['y']);
@@ -220,14 +219,12 @@ describe('comfort limits only', () => {
         track,
         base,
         budget: { ...makeBudget({}), comfort: noLimit },
-        chartBuckets: 0,
       }).check.uses.some((u) => u.check === 'conditioning'),
     ).toBe(false);
     const r = processTrack({
       track,
       base,
       budget: makeBudget({ comfort: { conditioningMax: 1.0001 } }),
-      chartBuckets: 0,
     });
     const cond = r.check.findings.filter((f) => f.check === 'conditioning');
     expect(cond.length).toBeGreaterThan(0);
@@ -267,5 +264,52 @@ describe('a singular pose', () => {
     });
     expect(r.findings[0]?.start_s).toBeCloseTo(0.195, 12);
     expect(r.findings[0]?.end_s).toBeCloseTo(0.205, 12);
+  });
+});
+
+describe('stroke use, from its definition', () => {
+  // Stroke use: usable band [min + margin, max - margin], middle m, half-width h; use = |L - m| / h.
+  // With the demo base's stroke 1.5-2.3 m and a 0.02 m margin: m = 1.90 m, h = 0.38 m.
+  const legRun = async (lengths: number[]) => {
+    const { runChecks } = await import('../../../shared/motion/checks');
+    const n = lengths.length;
+    const time_s = Float64Array.from({ length: n }, (_, i) => i / 100);
+    const zeros = () => new Float64Array(n);
+    return runChecks(
+      {
+        time_s,
+        rate_hz: 100,
+        legLength_m: [Float64Array.from(lengths)],
+        legSpeed_mps: [zeros()],
+        legAccel_mps2: [zeros()],
+        seatForce_mps2: [[zeros(), zeros(), new Float64Array(n).fill(G0_MPS2)]],
+        omega_radps: [zeros(), zeros(), zeros()],
+        legLimits: base.leg,
+      },
+      makeBudget({ strokeMargin_m: 0.02 }),
+    );
+  };
+
+  it('reads 0 for a leg resting mid-stroke', async () => {
+    const r = await legRun(Array(40).fill(1.9));
+    expect(r.uses.find((u) => u.check === 'stroke')?.ratio).toBeCloseTo(0, 12);
+    expect(r.findings.filter((f) => f.check === 'stroke')).toEqual([]);
+  });
+
+  it('reads 1 for a leg at max - margin, and the same at min + margin', async () => {
+    for (const edge of [2.28, 1.52]) {
+      const r = await legRun([...Array(20).fill(1.9), ...Array(20).fill(edge)]);
+      expect(r.uses.find((u) => u.check === 'stroke')?.ratio).toBeCloseTo(1, 12);
+    }
+  });
+
+  it('reads 0.5 half way to the edge, and a finding carries the excursion and the half-width in m', async () => {
+    const half = await legRun(Array(40).fill(1.9 + 0.19));
+    expect(half.uses.find((u) => u.check === 'stroke')?.ratio).toBeCloseTo(0.5, 12);
+    const over = await legRun([...Array(20).fill(1.9), ...Array(20).fill(2.3)]);
+    const f = over.findings.find((x) => x.check === 'stroke');
+    expect(f?.value).toBeCloseTo(0.4, 12);
+    expect(f?.limit).toBeCloseTo(0.38, 12);
+    expect(f?.ratio).toBeCloseTo(0.4 / 0.38, 12);
   });
 });

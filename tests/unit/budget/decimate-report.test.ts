@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { decimateMinMax } from '../../../shared/motion/decimate';
-import { findingsForJson, legsCsv } from '../../../shared/motion/process';
+import { findingsForJson } from '../../../shared/motion/process';
+import { legsCsv } from '../../../shared/motion/run-outputs';
 import { buildReport, comfortWording } from '../../../shared/motion/report';
 import { DEMO_BUDGET } from '../../../shared/schemas/budget';
 import type { CheckResult } from '../../../shared/schemas/findings';
@@ -40,9 +41,11 @@ const result: CheckResult = {
       subject: 'leg3',
       start_s: 12.31,
       end_s: 12.9,
-      value: 2.312,
-      limit: 2.28,
-      ratio: 2.312 / 2.28,
+      // A leg at 2.312 m with the demo stroke band [1.52, 2.28] m: 0.412 m from mid-stroke 1.90 m,
+      // against the half-width 0.38 m.
+      value: 0.412,
+      limit: 0.38,
+      ratio: 0.412 / 0.38,
     },
     {
       check: 'envelope',
@@ -58,7 +61,7 @@ const result: CheckResult = {
     },
   ],
   uses: [
-    { check: 'stroke', subject: 'leg3', ratio: 2.312 / 2.28 },
+    { check: 'stroke', subject: 'leg3', ratio: 0.412 / 0.38 },
     { check: 'jerk', subject: 'x', ratio: 0.99996 },
   ],
 };
@@ -66,8 +69,8 @@ const result: CheckResult = {
 describe('findings JSON and report text', () => {
   it('rounds for reading but never shows a ratio under 1 as 1', () => {
     const j = findingsForJson(result);
-    // Worked by hand: 2.312 m against 2.28 m is a ratio of 1.014 (2.312 / 2.28, rounded to three decimals).
-    expect(j.findings[0]?.ratio).toBe(1.014);
+    // 0.412 / 0.38 = 1.084210..., rounded to four decimals.
+    expect(j.findings[0]?.ratio).toBe(1.0842);
     expect(j.uses[1]?.ratio).toBe(0.9999);
   });
 
@@ -89,7 +92,7 @@ describe('findings JSON and report text', () => {
     });
     expect(text).toMatch(/RESULT: OVER A HARD LIMIT/);
     expect(text).toMatch(
-      /Leg stroke, leg3, 12\.31-12\.90 s: 2\.312 m against the limit 2\.28 m \(101\.4 % of the limit\)/,
+      /Leg stroke, leg3, 12\.31-12\.90 s: 0\.412 m from mid-stroke, past the half-width 0\.38 m of the usable band \(108\.4 % of the limit\)/,
     );
     expect(text).toMatch(/x stayed outside \[-0\.5, 0\.5\] g for 1\.5 s; the row allows less than 1 s/);
     expect(text).toMatch(/DEMO budget/);

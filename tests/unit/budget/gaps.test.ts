@@ -25,25 +25,23 @@ const base = makeHexapodBase({ controllerRate_hz: 100 });
 describe('gaps in a track', () => {
   it('a 0.5 s hole in a 100 Hz track is named in the notes with its times and lines, and is in the chart series', () => {
     const track = parseTrackText(csvWithHole(4, 4.5), { file: 'hole.csv' });
-    const r = processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 });
+    const r = processTrack({ track, base, budget: makeBudget({}) });
     // Row at 4.00 s is data row 401, file line 402 (the header is line 1); the next row is 4.50 s.
     expect(r.gaps).toEqual([{ start_s: 4, end_s: 4.5 }]);
     expect(r.notes.some((n) => /Gap in the track from 4 s to 4\.5 s \(lines 402-403\)/.test(n))).toBe(true);
-    const series = buildRunSeries(r, track, base, 100);
+    const series = buildRunSeries(r, track, base);
     expect(runSeriesSchema.parse(series).gaps).toEqual([{ start_s: 4, end_s: 4.5 }]);
   });
 
   it('a spacing of 4 x the median is not a gap', () => {
     const track = parseTrackText(csvWithHole(4, 4.04), { file: 'small.csv' });
-    expect(processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 }).gaps).toEqual([]);
+    expect(processTrack({ track, base, budget: makeBudget({}) }).gaps).toEqual([]);
   });
 
   it('a 2 s hole is bad input naming the line after it', () => {
     const track = parseTrackText(csvWithHole(3, 5), { file: 'long.csv' });
-    expect(() => processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 })).toThrow(
-      ProcessInputError,
-    );
-    expect(() => processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 })).toThrow(
+    expect(() => processTrack({ track, base, budget: makeBudget({}) })).toThrow(ProcessInputError);
+    expect(() => processTrack({ track, base, budget: makeBudget({}) })).toThrow(
       /line 303: time jumps from 3 s to 5 s, a gap of 2 s/,
     );
   });

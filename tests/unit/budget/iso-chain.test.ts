@@ -21,7 +21,7 @@ function comfortOfSine(axis: 'x' | 'z', f_hz: number, a_mps2: number, rate_hz: n
     return axis === 'x' ? [s, 0, 0, 0, 0, 0] : [0, 0, s, 0, 0, 0];
   });
   const base = makeHexapodBase({ controllerRate_hz: rate_hz, seats_m: ONE_SEAT });
-  const r = processTrack({ track, base, chartBuckets: 0 });
+  const r = processTrack({ track, base });
   const c = r.check.comfort;
   if (!c) throw new Error('no comfort figures');
   return c;
@@ -109,7 +109,7 @@ describe('worst seat', () => {
         [0, 0.6, 0.9],
       ],
     });
-    const c = processTrack({ track, base, chartBuckets: 0 }).check.comfort;
+    const c = processTrack({ track, base }).check.comfort;
     expect(c?.wrmsSeat.z).toBe('seat2');
     // Wk(2 Hz) = 0.531, ISO 2631-1 table, from memory; 3 % covers the small centripetal and gravity terms.
     const expected = (0.531 * P * w * w * 0.6) / Math.SQRT2;
@@ -138,7 +138,7 @@ describe('many seats', () => {
       [0.6, 0, 0.7],
     ];
     const base = makeHexapodBase({ controllerRate_hz: rate, seats_m: seats });
-    const result = processTrack({ track, base, chartBuckets: 0 });
+    const result = processTrack({ track, base });
     const c = result.check.comfort;
     // The pose the pipeline checked (after its anti-alias resampling), weighted seat by seat.
     const pose = { rate_hz: rate, ...result.pose };

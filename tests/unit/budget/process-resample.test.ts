@@ -45,7 +45,7 @@ describe('Hermite resampling', () => {
     }
     const track = makePoseTrackFrom(60, 10, (t) => [0, 0, A * Math.sin(w * t), 0, 0, 0]);
     const base = makeHexapodBase({ controllerRate_hz: 1000 });
-    const r = processTrack({ track, base, chartBuckets: 0 });
+    const r = processTrack({ track, base });
     const use = Math.max(...r.check.uses.filter((u) => u.check === 'legAccel').map((u) => u.ratio));
     expect(Math.abs((use * base.leg.accelMax_mps2) / peak - 1)).toBeLessThan(0.02);
   });

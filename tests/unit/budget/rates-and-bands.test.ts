@@ -55,7 +55,7 @@ describe('sinusoids up to 0.35 x the controller rate', () => {
         const A = 0.02 / (w * w); // 0.02 m/s^2 of heave acceleration
         const track = makePoseTrackFrom(2000, T, (t) => [0, 0, motion(A, w, t).z, 0, 0, 0]);
         const base = makeHexapodBase({ controllerRate_hz: rate });
-        const r = processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 });
+        const r = processTrack({ track, base, budget: makeBudget({}) });
         const aPeak = A * w * w;
         // Seat acceleration at every controller sample, ends included.
         const fz = seatSpecificForce(
@@ -92,7 +92,7 @@ describe('the same take at 100, 250 and 1000 Hz', () => {
     // The demo ride (a vehicle track) cued by the default profile for the demo hexapod at three rates.
     const track = parseTrackText(demoRideCsv(), { file: 'demo-ride.csv' });
     const runs = [100, 250, 1000].map((rate) =>
-      processTrack({ track, base: makeHexapodBase({ controllerRate_hz: rate }), chartBuckets: 0 }),
+      processTrack({ track, base: makeHexapodBase({ controllerRate_hz: rate }) }),
     );
     const key = (u: { check: string; subject: string }) => `${u.check}/${u.subject}`;
     const [ref, ...others] = runs as [ReturnType<typeof processTrack>, ...ReturnType<typeof processTrack>[]];
@@ -122,7 +122,7 @@ describe('the same take at 100, 250 and 1000 Hz', () => {
       ];
     });
     const runs = [100, 250, 1000].map((rate) =>
-      processTrack({ track, base: makeHexapodBase({ controllerRate_hz: rate }), chartBuckets: 0 }),
+      processTrack({ track, base: makeHexapodBase({ controllerRate_hz: rate }) }),
     );
     const ref = runs[0] as ReturnType<typeof processTrack>;
     for (const r of runs.slice(1)) {

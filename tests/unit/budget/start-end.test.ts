@@ -28,7 +28,7 @@ describe('startEnd', () => {
       0,
       0,
     ]);
-    const r = processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 });
+    const r = processTrack({ track, base, budget: makeBudget({}) });
     expect(startEnd(r)).toEqual([]);
     const uses = r.check.uses.filter((u) => u.check === 'startEnd');
     expect(uses.map((u) => u.subject)).toEqual(['start', 'end']);
@@ -39,7 +39,7 @@ describe('startEnd', () => {
 
   it('a track starting at 0.2 m surge is a hard finding at the start naming x', () => {
     const track = makePoseTrackFrom(RATE, 10, (t) => [0.2 * (1 - smoothStep(t, 2, 6)), 0, 0, 0, 0, 0]);
-    const r = processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 });
+    const r = processTrack({ track, base, budget: makeBudget({}) });
     const f = startEnd(r);
     expect(f).toHaveLength(1);
     expect(f[0]).toMatchObject({
@@ -61,7 +61,7 @@ describe('startEnd', () => {
 
   it('a track starting at 10 deg pitch is a hard finding at the start naming pitch, in rad', () => {
     const track = makePoseTrackFrom(RATE, 10, (t) => [0, 0, 0, 0, 10 * DEG * (1 - smoothStep(t, 2, 6)), 0]);
-    const r = processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 });
+    const r = processTrack({ track, base, budget: makeBudget({}) });
     const f = startEnd(r);
     expect(f).toHaveLength(1);
     expect(f[0]).toMatchObject({ subject: 'start', quantity: 'pitch', unit: 'rad', severity: 'hard' });
@@ -83,7 +83,7 @@ describe('startEnd', () => {
       0,
       0,
     ]);
-    const r = processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 });
+    const r = processTrack({ track, base, budget: makeBudget({}) });
     const f = startEnd(r);
     expect(f).toHaveLength(1);
     expect(f[0]).toMatchObject({ subject: 'end', quantity: 'x rate', unit: 'm/s', limit: tol.speed_mps });
@@ -108,7 +108,6 @@ describe('startEnd', () => {
       },
       base,
       budget: makeBudget({}),
-      chartBuckets: 0,
     });
     expect(startEnd(r)).toEqual([]);
   });

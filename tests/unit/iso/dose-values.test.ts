@@ -25,7 +25,6 @@ describe('VDV, crest factor and MTVV', () => {
       track,
       base,
       budget: makeBudget({ comfort: { vdvMax_mps1_75: 0.5 } }),
-      chartBuckets: 0,
     });
     const c = r.check.comfort;
     expect((c?.wrms_mps2.z ?? 0) / ((wk * a) / Math.SQRT2)).toBeCloseTo(1, 2);
@@ -44,7 +43,7 @@ describe('VDV, crest factor and MTVV', () => {
       const bump = t > 30 && t < 30.2 ? 0.5 - 0.5 * Math.cos((2 * Math.PI * (t - 30)) / 0.2) : 0;
       return [0, 0, 0.01 * bump, 0, 0, 0];
     });
-    const r = processTrack({ track, base, budget: makeBudget({}), chartBuckets: 0 });
+    const r = processTrack({ track, base, budget: makeBudget({}) });
     const c = r.check.comfort;
     expect(c?.crestFactor?.z ?? 0).toBeGreaterThan(9);
     expect(c?.mtvv_mps2?.z ?? 0).toBeGreaterThan(3 * (c?.wrms_mps2.z ?? 0));

@@ -164,20 +164,20 @@ describe('the legForce check in the pipeline', () => {
 
   it('is within a generous rating, with a use per leg, and the forces are charted with the legs', () => {
     const base = withPayload(20_000);
-    const r = processTrack({ track, base, budget: DEMO_BUDGET, chartBuckets: 100 });
+    const r = processTrack({ track, base, budget: DEMO_BUDGET });
     const uses = r.check.uses.filter((u) => u.check === 'legForce');
     expect(uses.map((u) => u.subject)).toEqual(['leg1', 'leg2', 'leg3', 'leg4', 'leg5', 'leg6']);
     // At rest at the start each leg carries its equal share (to 0.1 %: the pipeline's band-limited
     // derivatives see a little of the bump's onset at the first sample).
     expect((r.legForce_N?.[0]?.[0] as number) / share).toBeCloseTo(1, 3);
     expect(r.check.findings.filter((f) => f.check === 'legForce')).toEqual([]);
-    const series = buildRunSeries(r, track, base, 100);
+    const series = buildRunSeries(r, track, base);
     expect(series.legForce).toHaveLength(6);
     expect(series.forceMax_N).toBe(20_000);
   });
 
   it('is a hard finding per leg when the rating is below the static share', () => {
-    const r = processTrack({ track, base: withPayload(share * 0.9), budget: DEMO_BUDGET, chartBuckets: 0 });
+    const r = processTrack({ track, base: withPayload(share * 0.9), budget: DEMO_BUDGET });
     const f = r.check.findings.filter((x) => x.check === 'legForce');
     expect(new Set(f.map((x) => x.subject)).size).toBe(6);
     expect(f.every((x) => x.severity === 'hard')).toBe(true);
@@ -185,13 +185,11 @@ describe('the legForce check in the pipeline', () => {
   });
 
   it('a payload without a rating is charted and noted, not checked; a base without payload has no forces', () => {
-    const r = processTrack({ track, base: withPayload(), budget: DEMO_BUDGET, chartBuckets: 0 });
+    const r = processTrack({ track, base: withPayload(), budget: DEMO_BUDGET });
     expect(r.legForce_N).toHaveLength(6);
     expect(r.check.uses.some((u) => u.check === 'legForce')).toBe(false);
     expect(r.notes.join(' ')).toMatch(/payload but no actuator force rating/);
-    expect(
-      processTrack({ track, base: demoHexapodBase, budget: DEMO_BUDGET, chartBuckets: 0 }).legForce_N,
-    ).toBeNull();
+    expect(processTrack({ track, base: demoHexapodBase, budget: DEMO_BUDGET }).legForce_N).toBeNull();
   });
 
   it('refuses an inertia tensor no body can have', () => {

@@ -129,7 +129,7 @@ const SERIES: RunSeries = {
     yaw_rad: band([0, 0, 0]),
   },
   legs: [1, 2, 3, 4, 5, 6].map(() => band([1.9, 2.0, 1.9])),
-  stroke: { min_m: 1.5, max_m: 2.3, margin_m: 0.02 },
+  stroke: { min_m: 1.5, max_m: 2.3, margin_m: 0.02, mid_m: 1.9 },
 };
 
 beforeEach(() => {

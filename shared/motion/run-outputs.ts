@@ -1,0 +1,199 @@
+// A run's outputs, built once: from a pipeline result and where its inputs came from, the package
+// files (legs, pose, findings, spectra, report), the manifest's parameters, the summary stored with the
+// run and the chart series. The worker and `legwork process` both call buildRunOutputs and write the
+// result through an output sink (server/pipeline/run-outputs.ts), which adds the SHA-256 and size of
+// each file to the manifest. Pure: no I/O, no hashing (that needs node:crypto), no clock.
+import type { MotionBase } from '../schemas/motion-base';
+import type { RunSeries } from '../schemas/run-series';
+import type { PackageFileName, StoredRunSummary } from '../schemas/run-outputs';
+import { PACKAGE_FILES } from '../schemas/run-outputs';
+import { RIDER_LOWPASS_HZ } from './checks';
+import type { ProcessResult } from './process';
+import { sig } from './process';
+import { ANTI_ALIAS_CUTOFF } from './band-limit';
+import { REPORT_CAUTION, buildReport } from './report';
+import { buildRunSeries } from './run-series';
+import type { Track } from './track-reader';
+
+/** CSV text of the pose offsets (docs/motion-conventions.md section 3 pose columns, SI units). */
+export function poseCsv(r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind'>): string {
+  const p = r.pose;
+  const cols =
+    r.baseKind === 'hexapod'
+      ? [p.x_m, p.y_m, p.z_m, p.roll_rad, p.pitch_rad, p.yaw_rad]
+      : [p.x_m, p.y_m, p.yaw_rad];
+  const header =
+    r.baseKind === 'hexapod' ? 'time_s,x_m,y_m,z_m,roll_rad,pitch_rad,yaw_rad' : 'time_s,x_m,y_m,yaw_rad';
+  return columnsCsv(header, r.time_s, cols);
+}
+
+/** CSV text of the leg lengths (docs/motion-conventions.md section 3 legs columns, m). */
+export function legsCsv(r: Pick<ProcessResult, 'time_s' | 'legs'>): string {
+  const header = ['time_s', ...r.legs.map((_, i) => `leg${i + 1}_m`)].join(',');
+  return columnsCsv(header, r.time_s, r.legs);
+}
+
+// Nine decimals (nanometres, nanoradians) keep second differences of a re-read file at 1 kHz far
+// below any limit.
+function columnsCsv(header: string, time_s: Float64Array, cols: readonly Float64Array[]): string {
+  const n = time_s.length;
+  const lines: string[] = new Array<string>(n + 1);
+  lines[0] = header;
+  const row: string[] = new Array<string>(cols.length + 1);
+  for (let i = 0; i < n; i++) {
+    row[0] = (time_s[i] as number).toFixed(6);
+    for (let c = 0; c < cols.length; c++) {
+      const text = ((cols[c] as Float64Array)[i] as number).toFixed(9);
+      // A tiny negative value prints as "-0.000000000"; write it as plain zero.
+      row[c + 1] = text === '-0.000000000' ? '0.000000000' : text;
+    }
+    lines[i + 1] = row.join(',');
+  }
+  return lines.join('\n') + '\n';
+}
+
+/** A file named and hashed by the caller (hashing needs I/O or node:crypto, which shared/ has not). */
+export interface SourceFile {
+  /** Base name, as shown in the manifest and the report. */
+  file: string;
+  sha256: string;
+  size_bytes?: number;
+}
+
+/** Where a run's inputs came from, for the manifest and the report. */
+export interface PackageSource {
+  input: SourceFile;
+  /** The parsed input track (before resampling): rows and time span. */
+  track: Pick<Track, 'kind' | 'layout' | 'length' | 'time_s'>;
+  base: SourceFile;
+  /** Absent when the default profile was used or the track was not cued. */
+  profile?: SourceFile;
+  /** Absent when the demo budget was used. */
+  budget?: SourceFile;
+  softwareVersion: string;
+  /** Set by the worker: which run, take and venue the package belongs to. */
+  run?: { id: string; take: { id: string; number: number }; venue: { id: string; name: string } };
+}
+
+/** One file of a run's outputs: its name, content type and text. */
+export interface OutputFile {
+  name: string;
+  contentType: string;
+  content: string;
+}
+
+/** Everything a run leaves behind, in memory; the sink writer hashes and stores it. */
+export interface RunOutputs {
+  /** The package files but the manifest, in PACKAGE_FILES order. */
+  files: OutputFile[];
+  /** manifest.json without its `files` list (the writer adds each file's SHA-256 and size). */
+  manifest: Record<string, unknown>;
+  /** The run's summary without its `files` list (the writer returns the entries to add). */
+  summary: Omit<StoredRunSummary, 'files'>;
+  /** The chart series, every band on the time axis' length. */
+  series: RunSeries;
+}
+
+const contentTypeOf = (name: PackageFileName): string =>
+  (PACKAGE_FILES.find((f) => f.name === name) as { contentType: string }).contentType;
+
+/** Builds every output of a run from the pipeline result (see the file comment). */
+export function buildRunOutputs(
+  result: ProcessResult,
+  input: Track,
+  base: MotionBase,
+  source: PackageSource,
+): RunOutputs {
+  const n = source.track.length;
+  const start_s = source.track.time_s[0] as number;
+  const end_s = source.track.time_s[n - 1] as number;
+  const spectra = result.spectra;
+  const report = buildReport(result.findings, {
+    inputFile: source.input.file,
+    inputKind: source.track.kind,
+    inputRows: n,
+    start_s,
+    end_s,
+    baseName: base.name ?? source.base.file,
+    baseKind: base.kind,
+    seats: base.seats_m.length,
+    rate_hz: result.rate_hz,
+    profileName: result.profile ? result.profile.name : null,
+    budget: result.budget,
+    budgetIsDemo: result.budgetIsDemo,
+    softwareVersion: source.softwareVersion,
+    ...(spectra
+      ? {
+          sicknessBandShare: {
+            x: spectra.axes.x.bandShare,
+            y: spectra.axes.y.bandShare,
+            z: spectra.axes.z.bandShare,
+          },
+        }
+      : {}),
+  });
+  const manifest = {
+    format: 'legwork-package',
+    formatVersion: 1,
+    software: { name: 'legwork', version: source.softwareVersion },
+    caution: REPORT_CAUTION,
+    result: { within: result.findings.within, exitCode: result.exitCode },
+    input: {
+      ...source.input,
+      kind: source.track.kind,
+      layout: source.track.layout,
+      rows: n,
+      start_s,
+      end_s,
+      meanRate_hz: n > 1 && end_s > start_s ? (n - 1) / (end_s - start_s) : null,
+    },
+    rates: {
+      controller_hz: result.rate_hz,
+      samples: result.time_s.length,
+      resampling:
+        (source.track.kind === 'vehicle'
+          ? 'linear interpolation onto a fine grid'
+          : 'cubic Hermite interpolation (three-point slopes) onto a fine grid') +
+        `, then an anti-alias Kaiser-windowed sinc low-pass (cut-off ${sig(ANTI_ALIAS_CUTOFF * result.rate_hz)} Hz) read at the controller instants`,
+      riderLowPass: `4-pole Butterworth, ${RIDER_LOWPASS_HZ} Hz (common practice)`,
+      weighting: result.findings.comfort?.weightingNote ?? null,
+    },
+    base: { ...source.base, parameters: base },
+    profile: result.profile
+      ? { ...(source.profile ?? {}), default: source.profile === undefined, parameters: result.profile }
+      : null,
+    budget: { ...(source.budget ?? {}), demo: result.budgetIsDemo, parameters: result.budget },
+    notes: result.notes,
+    ...(source.run ? { run: source.run } : {}),
+  };
+  const file = (name: PackageFileName, content: string): OutputFile => ({
+    name,
+    contentType: contentTypeOf(name),
+    content,
+  });
+  const n_out = result.time_s.length;
+  const summary: Omit<StoredRunSummary, 'files'> = {
+    within: result.findings.within,
+    exitCode: result.exitCode,
+    uses: result.findings.uses,
+    findings: result.findings.findings,
+    comfort: result.findings.comfort ?? null,
+    notes: result.notes,
+    rate_hz: result.rate_hz,
+    samples: n_out,
+    duration_s: n_out > 0 ? (result.time_s[n_out - 1] as number) - (result.time_s[0] as number) : 0,
+    budgetIsDemo: result.budgetIsDemo,
+  };
+  return {
+    files: [
+      file('legs.csv', legsCsv(result)),
+      file('pose.csv', poseCsv(result)),
+      file('findings.json', `${JSON.stringify(result.findings, null, 2)}\n`),
+      file('spectra.json', `${JSON.stringify(spectra)}\n`),
+      file('report.txt', report),
+    ],
+    manifest,
+    summary,
+    series: buildRunSeries(result, input, base),
+  };
+}
