@@ -15,7 +15,7 @@ export const PERMISSIONS = {
   'studio.read': ALL,
   'venues.read': ALL,
   'members.manage': ['studio_admin'],
-  'audit.read': ['studio_admin'],
+  'audit.read': ['studio_admin', 'safety_reviewer'],
   'tokens.manage': ['studio_admin'],
   'tracks.read': STUDIO_DESK,
   'tracks.write': ['producer', TOKEN_ROLE],
@@ -27,6 +27,18 @@ export const PERMISSIONS = {
   'profiles.budget.write': ['safety_reviewer'],
   'venues.configure': ['motion_engineer', 'studio_admin'],
   'venues.create': ['studio_admin'],
+  'runs.review': ['safety_reviewer'],
+  'releases.create': ['producer'],
+  'releases.withdraw': ['producer'],
+  // Operators see, download and answer for their own venues' releases only (venueScope).
+  'releases.read': ALL,
+  'releases.download': ALL,
+  'releases.acknowledge': ['venue_operator'],
+  'releases.report': ['venue_operator'],
+  'home.review': ['safety_reviewer'],
+  'home.producer': ['producer'],
+  'home.engineer': ['motion_engineer'],
+  'home.operator': ['venue_operator'],
 } as const satisfies Record<string, readonly Actor[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

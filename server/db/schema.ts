@@ -323,3 +323,159 @@ export const apiTokens = pgTable(
   },
   (t) => [uniqueIndex('api_tokens_hash_key').on(t.tokenHash), index('api_tokens_studio_idx').on(t.studioId)],
 );
+
+// ── Review, release and delivery ──────────────────────────────────────────────────────────────────
+
+/** Every clear or hold of a run, kept for ever: who, when, why, and the budget version judged against. */
+export const reviews = pgTable(
+  'reviews',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: studioRef(),
+    runId: uuid('run_id')
+      .notNull()
+      .references(() => cueRuns.id, { onDelete: 'cascade' }),
+    decision: text('decision').$type<'clear' | 'hold'>().notNull(),
+    reason: text('reason').notNull(),
+    reviewerId: uuid('reviewer_id')
+      .notNull()
+      .references(() => users.id),
+    budgetVersionId: uuid('budget_version_id')
+      .notNull()
+      .references(() => profileVersions.id),
+    fromState: text('from_state').notNull(),
+    toState: text('to_state').notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index('reviews_run_idx').on(t.runId, t.createdAt), index('reviews_studio_idx').on(t.studioId)],
+);
+export type ReviewRow = typeof reviews.$inferSelect;
+
+export type ReleaseState = 'building' | 'ready' | 'failed' | 'superseded' | 'withdrawn';
+
+/** A cleared run released to its venue, and its package (immutable once built: its SHA-256 is kept). */
+export const releases = pgTable(
+  'releases',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: studioRef(),
+    runId: uuid('run_id')
+      .notNull()
+      .references(() => cueRuns.id, { onDelete: 'cascade' }),
+    trackId: uuid('track_id')
+      .notNull()
+      .references(() => tracks.id, { onDelete: 'cascade' }),
+    venueId: uuid('venue_id')
+      .notNull()
+      .references(() => venues.id, { onDelete: 'cascade' }),
+    state: text('state').$type<ReleaseState>().notNull().default('building'),
+    releasedBy: uuid('released_by').references(() => users.id, { onDelete: 'set null' }),
+    packageKey: text('package_key'),
+    packageSha256: text('package_sha256'),
+    packageSizeBytes: bigint('package_size_bytes', { mode: 'number' }),
+    /** The manifest's file list, for the release page. */
+    files: jsonb('files'),
+    failureReason: text('failure_reason'),
+    builtAt: timestamp('built_at', { withTimezone: true }),
+    withdrawnAt: timestamp('withdrawn_at', { withTimezone: true }),
+    withdrawnBy: uuid('withdrawn_by').references(() => users.id, { onDelete: 'set null' }),
+    withdrawReason: text('withdraw_reason'),
+    supersededAt: timestamp('superseded_at', { withTimezone: true }),
+    supersededBy: uuid('superseded_by'),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index('releases_studio_idx').on(t.studioId, t.venueId, t.createdAt),
+    index('releases_run_idx').on(t.runId),
+  ],
+);
+export type ReleaseRow = typeof releases.$inferSelect;
+
+/** Every download of a package. */
+export const releaseDownloads = pgTable(
+  'release_downloads',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    studioId: studioRef(),
+    releaseId: uuid('release_id')
+      .notNull()
+      .references(() => releases.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id').references(() => users.id, { onDelete: 'set null' }),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('release_downloads_release_idx').on(t.releaseId)],
+);
+
+/** An operator's word that a package is installed on the venue's controller. */
+export const releaseAcknowledgements = pgTable(
+  'release_acknowledgements',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: studioRef(),
+    releaseId: uuid('release_id')
+      .notNull()
+      .references(() => releases.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    note: text('note').notNull().default(''),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex('release_acknowledgements_key').on(t.releaseId, t.userId)],
+);
+
+/** A problem a venue reported with a package; it reaches the producers and reviewers by mail. */
+export const releaseProblems = pgTable(
+  'release_problems',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: studioRef(),
+    releaseId: uuid('release_id')
+      .notNull()
+      .references(() => releases.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id').references(() => users.id, { onDelete: 'set null' }),
+    text: text('text').notNull(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('release_problems_release_idx').on(t.releaseId)],
+);
+
+/**
+ * Mail waiting to be sent. Rows are written in the same transaction as the change they tell about;
+ * the server sends them at once when it can and the worker retries the rest, so no action fails
+ * because mail is down.
+ */
+export const mailOutbox = pgTable(
+  'mail_outbox',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    studioId: uuid('studio_id').references(() => studios.id, { onDelete: 'cascade' }),
+    kind: text('kind').notNull(),
+    toEmail: text('to_email').notNull(),
+    subject: text('subject').notNull(),
+    text: text('text').notNull(),
+    attempts: integer('attempts').notNull().default(0),
+    lastError: text('last_error'),
+    nextAttemptAt: timestamp('next_attempt_at', { withTimezone: true }).notNull().defaultNow(),
+    sentAt: timestamp('sent_at', { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index('mail_outbox_due_idx')
+      .on(t.nextAttemptAt)
+      .where(sql`sent_at IS NULL`),
+  ],
+);
+
+/** The kinds of mail a user turned off (a row per kind; no row means the mail is sent). */
+export const mailOptOuts = pgTable(
+  'mail_opt_outs',
+  {
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    kind: text('kind').notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.userId, t.kind] })],
+);

@@ -8,7 +8,7 @@ import { apiTokens, memberships, studios } from '../db/schema';
 import { HttpError, notFound } from '../lib/http-error';
 import { TOKEN_ROLE } from '../auth/permissions';
 import { hashToken } from '../lib/tokens';
-import { auditRouter } from './audit';
+import { auditCsvRouter, auditRouter } from './audit';
 import { membersRouter } from './members';
 import { overviewRouter } from './overview';
 import { profilesRouter } from './profiles';
@@ -61,6 +61,7 @@ export function studioRouter(deps: AppDeps): Router {
   r.use('/tokens', tokensRouter(deps));
   r.use('/members', membersRouter(deps));
   r.use('/invitations', studioInvitationsRouter(deps));
+  r.use('/audit.csv', auditCsvRouter(deps));
   r.use('/audit', auditRouter(deps));
   return r;
 }

@@ -67,16 +67,9 @@ export const venueSchema = z.object({
 });
 export type Venue = z.infer<typeof venueSchema>;
 
-export const auditEventSchema = z.object({
-  id: z.number().int(),
-  at: z.string(),
-  actorEmail: z.string().nullable(),
-  action: z.string(),
-  subjectType: z.string(),
-  subjectId: z.string().nullable(),
-  detail: z.record(z.string(), z.unknown()),
-});
-export type AuditEvent = z.infer<typeof auditEventSchema>;
+// The audit event's shape lives with the audit log's other shapes.
+export { auditEventSchema } from './audit';
+export type { AuditEvent } from './audit';
 
 export const mailMessageSchema = z.object({
   id: z.string(),

@@ -93,7 +93,14 @@ const ROUTES: RouteCase[] = [
     name: 'audit log',
     method: 'get',
     path: (i) => `/api/studios/${i.studio}/audit`,
-    allowed: ['studio_admin'],
+    allowed: ['studio_admin', 'safety_reviewer'],
+    ok: 200,
+  },
+  {
+    name: 'audit log as CSV',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/audit.csv?kind=membership`,
+    allowed: ['studio_admin', 'safety_reviewer'],
     ok: 200,
   },
   {

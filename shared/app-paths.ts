@@ -1,0 +1,12 @@
+// Paths of the web app's pages that the server links to (e-mails) and the client routes to: written
+// once so a mailed link always opens the page it names.
+
+export const appPaths = {
+  run: (studioId: string, runId: string) => `/s/${studioId}/runs/${runId}`,
+  release: (studioId: string, releaseId: string) => `/s/${studioId}/releases/${releaseId}`,
+  releases: (studioId: string) => `/s/${studioId}/releases`,
+  track: (studioId: string, trackId: string) => `/s/${studioId}/tracks/${trackId}`,
+  home: (studioId: string) => `/s/${studioId}`,
+  audit: (studioId: string) => `/s/${studioId}/audit`,
+  notificationSettings: () => '/settings/notifications',
+} as const;
