@@ -5,7 +5,7 @@
 import '@testing-library/jest-dom/vitest';
 import { act, cleanup, fireEvent, screen, waitFor } from '@testing-library/react';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import type { Take } from '../../../shared/schemas/pipeline';
+import type { UploadedTake } from '../../../shared/schemas/pipeline';
 import { UploadTakeForm } from '../../../src/features/tracks/components/upload-take-form';
 import { fakeApi, renderWithApp } from './harness';
 
@@ -121,7 +121,7 @@ describe('take upload form', () => {
     );
     expect(screen.getByText('Checking the file on the server…')).toBeInTheDocument();
 
-    const take: Take = {
+    const take: UploadedTake = {
       id: '2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f',
       trackId: TRACK,
       number: 1,
@@ -134,9 +134,37 @@ describe('take upload form', () => {
       duration_s: 20,
       uploadedVia: 'browser',
       createdAt: '2026-12-01T10:00:00.000Z',
+      duplicateOf: null,
     };
     act(() => xhr.respond(201, take));
     expect(await screen.findByText('Take 1 stored: gentle surge.csv, 2001 samples.')).toBeInTheDocument();
+    expect(screen.queryByText(/identical to take/)).toBeNull();
+  });
+
+  it('warns when the stored file is identical to an earlier take, and keeps the new take', async () => {
+    fakeApi({});
+    renderWithApp(<UploadTakeForm studioId={STUDIO} trackId={TRACK} />);
+    chooseFile('gentle surge.csv', 'time_s');
+    fireEvent.click(screen.getByRole('button', { name: 'Upload take' }));
+    const xhr = await sentRequest();
+    const take: UploadedTake = {
+      id: '3c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f',
+      trackId: TRACK,
+      number: 2,
+      kind: 'vehicle',
+      layout: 'vehicle',
+      fileName: 'gentle surge.csv',
+      sizeBytes: 2048,
+      sha256: 'a'.repeat(64),
+      samples: 2001,
+      duration_s: 20,
+      uploadedVia: 'browser',
+      createdAt: '2026-12-01T10:05:00.000Z',
+      duplicateOf: { id: '2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f', number: 1 },
+    };
+    act(() => xhr.respond(201, take));
+    expect(await screen.findByText('Take 2 stored: gentle surge.csv, 2001 samples.')).toBeInTheDocument();
+    expect(screen.getByText(/identical to take 1 \(same SHA-256\)/)).toBeInTheDocument();
   });
 
   it('names the size limit on a 413 without a JSON body', async () => {

@@ -1,16 +1,29 @@
 import type { AuditEvent } from '../../../../shared/schemas/api';
+import { Link } from 'react-router-dom';
+import { appPaths } from '../../../../shared/app-paths';
 import { Button } from '../../../components/ui/button';
 import { Empty, ErrorNotice, Loading } from '../../../components/ui/status';
 import { Table, Td, Th } from '../../../components/ui/table';
 import { formatDateTime } from '../../../lib/format';
 import { useAuditEvents } from '../api/get-audit-events';
 
-function detailText(detail: AuditEvent['detail']): string {
-  const entries = Object.entries(detail);
-  if (entries.length === 0) return '';
-  return entries
-    .map(([key, value]) => `${key}: ${typeof value === 'string' ? value : JSON.stringify(value)}`)
-    .join(' · ');
+/** The page an event is about, where the app has one (releases, invitations: none yet). */
+function linkPath(studioId: string, link: AuditEvent['link']): string | null {
+  if (!link) return null;
+  switch (link.kind) {
+    case 'run':
+      return appPaths.run(studioId, link.id);
+    case 'track':
+      return appPaths.track(studioId, link.id);
+    case 'venue':
+      return `/s/${studioId}/venues/${link.id}`;
+    case 'member':
+      return `/s/${studioId}/members`;
+    case 'profile':
+      return `/s/${studioId}/profiles`;
+    default:
+      return null;
+  }
 }
 
 /** The studio's audit events, newest first, fifty at a time with an "Older" button. */
@@ -30,27 +43,26 @@ export function AuditLog({ studioId }: { studioId: string }) {
           <tr>
             <Th>When</Th>
             <Th>Who</Th>
-            <Th>Action</Th>
-            <Th>Subject</Th>
-            <Th>Detail</Th>
+            <Th>What happened</Th>
           </tr>
         </thead>
         <tbody>
           {events.map((event) => (
             <tr key={event.id}>
               <Td className="text-xs whitespace-nowrap text-ink-600">{formatDateTime(event.at)}</Td>
-              <Td className="font-mono text-xs">{event.actorEmail ?? 'system'}</Td>
-              <Td className="font-mono text-xs font-medium">{event.action}</Td>
-              <Td className="text-xs">
-                {event.subjectType}
-                {event.subjectId ? (
-                  // The first eight characters tell rows apart; the whole id is one hover away.
-                  <span title={event.subjectId} className="ml-1 font-mono text-ink-400">
-                    {event.subjectId.slice(0, 8)}
-                  </span>
-                ) : null}
+              <Td className="text-xs">{event.actorEmail ?? 'Legwork'}</Td>
+              <Td className="text-sm">
+                {(() => {
+                  const to = linkPath(studioId, event.link);
+                  return to ? (
+                    <Link to={to} className="text-tealdeep-700 underline-offset-2 hover:underline">
+                      {event.words}
+                    </Link>
+                  ) : (
+                    event.words
+                  );
+                })()}
               </Td>
-              <Td className="text-xs break-all text-ink-600">{detailText(event.detail)}</Td>
             </tr>
           ))}
         </tbody>
@@ -65,6 +77,13 @@ export function AuditLog({ studioId }: { studioId: string }) {
           <span className="text-xs text-ink-400">Start of the log.</span>
         )}
         <span className="text-xs text-ink-400">{events.length} events shown</span>
+        <a
+          href={`/api/studios/${studioId}/audit.csv`}
+          download
+          className="ml-auto text-xs text-tealdeep-700 underline-offset-2 hover:underline"
+        >
+          Export as CSV
+        </a>
       </div>
     </div>
   );

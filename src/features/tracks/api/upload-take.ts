@@ -2,8 +2,8 @@
 // because only its upload events report how many bytes have left the browser.
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiErrorSchema } from '../../../../shared/schemas/api';
-import { takeSchema } from '../../../../shared/schemas/pipeline';
-import type { Take } from '../../../../shared/schemas/pipeline';
+import { uploadedTakeSchema } from '../../../../shared/schemas/pipeline';
+import type { UploadedTake } from '../../../../shared/schemas/pipeline';
 import { ApiRequestError, refreshCsrfToken } from '../../../lib/api-client';
 import { tracksQueryKey } from './get-tracks';
 
@@ -24,13 +24,18 @@ function parseJson(text: string): unknown {
 }
 
 /** Sends a take file (.csv or .csv.gz) to the track; the server checks it and names any bad line and column. */
-export async function uploadTake({ studioId, trackId, file, onProgress }: UploadTakeInput): Promise<Take> {
+export async function uploadTake({
+  studioId,
+  trackId,
+  file,
+  onProgress,
+}: UploadTakeInput): Promise<UploadedTake> {
   const path =
     `/api/studios/${encodeURIComponent(studioId)}/tracks/${encodeURIComponent(trackId)}/takes` +
     `?fileName=${encodeURIComponent(file.name)}`;
   // The session's token, fetched through the shared client so later JSON calls reuse it.
   const csrfToken = await refreshCsrfToken();
-  return new Promise<Take>((resolve, reject) => {
+  return new Promise<UploadedTake>((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     xhr.open('POST', path);
     xhr.withCredentials = true;
@@ -46,7 +51,7 @@ export async function uploadTake({ studioId, trackId, file, onProgress }: Upload
     xhr.onload = () => {
       const body = parseJson(xhr.responseText);
       if (xhr.status >= 200 && xhr.status < 300) {
-        const parsed = takeSchema.safeParse(body);
+        const parsed = uploadedTakeSchema.safeParse(body);
         if (parsed.success) resolve(parsed.data);
         else
           reject(

@@ -13,11 +13,13 @@ export function UploadTakeForm({ studioId, trackId }: { studioId: string; trackI
   const [fraction, setFraction] = useState(0);
   const [missing, setMissing] = useState(false);
   const [done, setDone] = useState<string | null>(null);
+  const [duplicate, setDuplicate] = useState<string | null>(null);
   const upload = useUploadTake(studioId);
 
   const submit = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();
     setDone(null);
+    setDuplicate(null);
     if (!file) {
       setMissing(true);
       return;
@@ -30,6 +32,12 @@ export function UploadTakeForm({ studioId, trackId }: { studioId: string; trackI
         onSuccess: (take) => {
           setFraction(1);
           setDone(`Take ${take.number} stored: ${take.fileName}, ${take.samples} samples.`);
+          // Same SHA-256 as an earlier take of this track: stored anyway, but say so.
+          setDuplicate(
+            take.duplicateOf
+              ? `This file is identical to take ${take.duplicateOf.number} (same SHA-256). It is kept as take ${take.number}; cue the earlier take instead if that is what you meant.`
+              : null,
+          );
           setFile(null);
           if (input.current) input.current.value = '';
         },
@@ -67,6 +75,14 @@ export function UploadTakeForm({ studioId, trackId }: { studioId: string; trackI
       {missing ? <FieldError>Choose a take file first.</FieldError> : null}
       {upload.error ? <ErrorNotice error={upload.error} /> : null}
       {done ? <Notice>{done}</Notice> : null}
+      {duplicate ? (
+        <p
+          role="status"
+          className="rounded border border-amber-300 bg-amber-50 px-3 py-2 text-sm text-amber-900"
+        >
+          {duplicate}
+        </p>
+      ) : null}
       <p className="text-xs text-ink-400">
         Vehicle takes: time_s, fx/fy/fz (mps2 or g), wx/wy/wz (radps or degps). Pose and legs takes follow the
         motion conventions. Units are part of each column name.
