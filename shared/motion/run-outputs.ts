@@ -58,6 +58,8 @@ export interface SourceFile {
   file: string;
   sha256: string;
   size_bytes?: number;
+  /** The name people know it by (a studio profile's name and version), where it differs from the file's. */
+  label?: string;
 }
 
 /** Where a run's inputs came from, for the manifest and the report. */
@@ -118,7 +120,8 @@ export function buildRunOutputs(
     baseKind: base.kind,
     seats: base.seats_m.length,
     rate_hz: result.rate_hz,
-    profileName: result.profile ? result.profile.name : null,
+    // The name the run page shows (the studio's profile name and version), so screen and report agree.
+    profileName: result.profile ? (source.profile?.label ?? result.profile.name) : null,
     budget: result.budget,
     budgetIsDemo: result.budgetIsDemo,
     softwareVersion: source.softwareVersion,

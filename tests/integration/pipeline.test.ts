@@ -219,6 +219,11 @@ describe('cue runs', () => {
       const d = runDetailSchema.parse((await producer.get(`${base()}/runs/${run.id}`).expect(200)).body);
       expect(d.result?.uses.length).toBeGreaterThan(0);
       expect(d.state).toBe(row.state);
+      // The package report names the cueing profile as the run page does (name and version).
+      const report = (await storedObject(`${row.artifactPrefix}report.txt`)).toString();
+      if (d.cueingVersion) {
+        expect(report).toContain(`profile "${d.cueingVersion.name} v${d.cueingVersion.version}"`);
+      }
       // The state follows the findings: held by budget exactly when a finding is at or over a limit.
       expect(d.state === 'held_by_budget').toBe((d.result?.findings.length ?? 0) > 0);
       // Parsed with the client's own schema, which refuses a band off the time axis' length.

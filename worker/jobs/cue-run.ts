@@ -163,6 +163,7 @@ function buildOutputsOf(run: CueRunRow, inputs: RunInputs, track: Track): RunOut
       ? {
           profile: {
             file: `${cueingVersion.name} v${cueingVersion.version}`,
+            label: `${cueingVersion.name} v${cueingVersion.version}`,
             sha256: hashJson(cueingVersion.params),
           },
         }
