@@ -176,16 +176,42 @@ async function startServices(database: string): Promise<Services> {
   return { pg, env };
 }
 
-function launch(name: string, cmd: string, args: string[], env: Record<string, string>): ChildProcess {
-  const child = spawn(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
-  children.push(child);
-  child.on('exit', (code, signal) => {
-    if (!shuttingDown) {
-      log(`${name} stopped (${signal ?? `exit ${code}`}); stopping everything`);
-      void shutdown(code || 1);
-    }
-  });
-  return child;
+/** Restart delays for a crashed child under `start` and `dev`: doubling from 1 s up to 30 s. */
+const RESTART_FIRST_MS = 1000;
+const RESTART_MAX_MS = 30_000;
+/** A child that ran this long before it stopped counts as healthy again: its next delay starts over. */
+const RESTART_HEALTHY_MS = 60_000;
+
+/**
+ * Starts a child process. Under `start` and `dev` a child that stops on its own (a crash, a lost
+ * database at start-up) is started again after a growing delay, so one fault does not take the whole
+ * app down; under `test` it stops everything at once, so a broken server fails the run quickly.
+ */
+function launch(name: string, cmd: string, args: string[], env: Record<string, string>): void {
+  const restart = mode === 'start' || mode === 'dev';
+  let delay = RESTART_FIRST_MS;
+  const spawnOnce = () => {
+    const started = Date.now();
+    const child = spawn(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
+    children.push(child);
+    child.on('exit', (code, signal) => {
+      children.splice(children.indexOf(child), 1);
+      if (shuttingDown) return;
+      const how = signal ?? `exit ${code}`;
+      if (!restart) {
+        log(`${name} stopped (${how}); stopping everything`);
+        void shutdown(code || 1);
+        return;
+      }
+      if (Date.now() - started >= RESTART_HEALTHY_MS) delay = RESTART_FIRST_MS;
+      log(`${name} stopped (${how}); starting it again in ${(delay / 1000).toFixed(0)} s`);
+      setTimeout(() => {
+        if (!shuttingDown) spawnOnce();
+      }, delay);
+      delay = Math.min(delay * 2, RESTART_MAX_MS);
+    });
+  };
+  spawnOnce();
 }
 
 async function waitForHealth(url: string, timeout_ms = 60_000): Promise<void> {
