@@ -72,6 +72,25 @@ async function sentRequest(): Promise<FakeXhr> {
   return FakeXhr.sent[0]!;
 }
 
+function storedTake(overrides: Partial<UploadedTake> = {}): UploadedTake {
+  return {
+    id: '2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f',
+    trackId: TRACK,
+    number: 1,
+    kind: 'vehicle',
+    layout: 'vehicle',
+    fileName: 'gentle surge.csv',
+    sizeBytes: 2048,
+    sha256: 'a'.repeat(64),
+    samples: 2001,
+    duration_s: 20,
+    uploadedVia: 'browser',
+    createdAt: '2026-12-01T10:00:00.000Z',
+    duplicateOf: null,
+    ...overrides,
+  };
+}
+
 describe('take upload form', () => {
   it("shows the server's 400 message verbatim, with the line and column it names", async () => {
     fakeApi({});
@@ -121,21 +140,7 @@ describe('take upload form', () => {
     );
     expect(screen.getByText('Checking the file on the server…')).toBeInTheDocument();
 
-    const take: UploadedTake = {
-      id: '2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f',
-      trackId: TRACK,
-      number: 1,
-      kind: 'vehicle',
-      layout: 'vehicle',
-      fileName: 'gentle surge.csv',
-      sizeBytes: 2048,
-      sha256: 'a'.repeat(64),
-      samples: 2001,
-      duration_s: 20,
-      uploadedVia: 'browser',
-      createdAt: '2026-12-01T10:00:00.000Z',
-      duplicateOf: null,
-    };
+    const take = storedTake();
     act(() => xhr.respond(201, take));
     expect(await screen.findByText('Take 1 stored: gentle surge.csv, 2001 samples.')).toBeInTheDocument();
     expect(screen.queryByText(/identical to take/)).toBeNull();
@@ -147,21 +152,12 @@ describe('take upload form', () => {
     chooseFile('gentle surge.csv', 'time_s');
     fireEvent.click(screen.getByRole('button', { name: 'Upload take' }));
     const xhr = await sentRequest();
-    const take: UploadedTake = {
+    const take = storedTake({
       id: '3c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f',
-      trackId: TRACK,
       number: 2,
-      kind: 'vehicle',
-      layout: 'vehicle',
-      fileName: 'gentle surge.csv',
-      sizeBytes: 2048,
-      sha256: 'a'.repeat(64),
-      samples: 2001,
-      duration_s: 20,
-      uploadedVia: 'browser',
       createdAt: '2026-12-01T10:05:00.000Z',
       duplicateOf: { id: '2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f', number: 1 },
-    };
+    });
     act(() => xhr.respond(201, take));
     expect(await screen.findByText('Take 2 stored: gentle surge.csv, 2001 samples.')).toBeInTheDocument();
     expect(screen.getByText(/identical to take 1 \(same SHA-256\)/)).toBeInTheDocument();
