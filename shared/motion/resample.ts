@@ -98,23 +98,8 @@ export function resampleHermite(track: Track, rate_hz: number): Track {
   for (let k = 0; k < m; k++) time_s[k] = Math.min(t0 + k / rate_hz, tEnd);
   const slope = new Float64Array(n);
   const columns = track.columns.map((col) => {
-    derivativeInto(t, col, slope);
     const out = new Float64Array(m);
-    let j = 0;
-    for (let k = 0; k < m; k++) {
-      const tk = time_s[k] as number;
-      while (j < n - 2 && (t[j + 1] as number) <= tk) j++;
-      const ta = t[j] as number;
-      const h = (t[j + 1] as number) - ta;
-      const s = (tk - ta) / h;
-      const s2 = s * s;
-      const s3 = s2 * s;
-      out[k] =
-        (2 * s3 - 3 * s2 + 1) * (col[j] as number) +
-        (s3 - 2 * s2 + s) * h * (slope[j] as number) +
-        (-2 * s3 + 3 * s2) * (col[j + 1] as number) +
-        (s3 - s2) * h * (slope[j + 1] as number);
-    }
+    hermiteColumnInto(t, col, slope, time_s, out);
     return out;
   });
   return { kind: track.kind, layout: track.layout, length: m, time_s, names: track.names, columns };
