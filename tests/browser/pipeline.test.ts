@@ -5,6 +5,8 @@ import type { Browser, ConsoleMessage, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
+import { runDetailSchema } from '../../shared/schemas/pipeline';
+import { runSeriesSchema } from '../../shared/schemas/run-series';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 // Standard gravity, 3rd CGPM (1901): a level vehicle at rest feels +g0 on z (docs/motion-conventions.md section 3).
@@ -140,6 +142,35 @@ describe('pipeline screens', () => {
       await canvases.nth(5).waitFor({ timeout: 15_000 });
       // Three force charts, two pose charts and the legs chart.
       expect(await page.getByTestId('run-charts').locator('.uplot').count()).toBe(6);
+      // The last cued sample is drawn at the take's end: the chart's last finite sample of each cued
+      // force band and of every leg lies within one bucket of the take's duration (the take starts at
+      // 0 s). The run and its series come from the same API the page reads, parsed with its schemas.
+      const [, studioId, runId] = /\/s\/([^/]+)\/runs\/([^/?#]+)/.exec(page.url()) ?? [];
+      const apiBase = new URL(`/api/studios/${studioId}/runs/${runId}`, baseUrl).href;
+      const run = runDetailSchema.parse(await (await page.request.get(apiBase)).json());
+      const series = runSeriesSchema.parse(await (await page.request.get(`${apiBase}/series`)).json());
+      const end_s = run.take.duration_s;
+      // Buckets are of equal width from the first sample on.
+      const bucket_s = (series.time_s[1] ?? Number.NaN) - (series.time_s[0] ?? Number.NaN);
+      expect(bucket_s).toBeGreaterThan(0);
+      expect(end_s).toBeGreaterThan(19);
+      const lastXOf = async (chart: string, band: string) => {
+        const el = page.locator(`[data-chart="${chart}"]`);
+        const labels = ((await el.getAttribute('data-bands')) ?? '').split('|');
+        const lastX = ((await el.getAttribute('data-last-x')) ?? '').split(' ');
+        const k = labels.indexOf(band);
+        expect(k, `${band} on ${chart}`).toBeGreaterThanOrEqual(0);
+        return Number(lastX[k]);
+      };
+      for (const axis of ['x (surge)', 'y (sway)', 'z (heave)']) {
+        const last = await lastXOf(`Specific force ${axis}`, 'cued (seat 1)');
+        expect(Math.abs(last - end_s), `cued ${axis} ends at ${last} s`).toBeLessThanOrEqual(bucket_s);
+      }
+      expect(series.legs.length).toBeGreaterThan(0);
+      for (let i = 1; i <= series.legs.length; i++) {
+        const last = await lastXOf('Leg lengths inside the stroke band', `leg${i}`);
+        expect(Math.abs(last - end_s), `leg${i} ends at ${last} s`).toBeLessThanOrEqual(bucket_s);
+      }
       // The spectra file is drawn too, on a log axis.
       await page.getByText('Power spectral density up to 5 Hz').waitFor({ timeout: 15_000 });
       // The 3-D preview draws with three.js once it has loaded; its slider moves the instant shown.

@@ -26,6 +26,8 @@ export interface ChartLine {
   value: number;
   label: string;
   color: string;
+  /** A thin dotted reference (e.g. mid-stroke) instead of a dashed limit. */
+  thin?: boolean;
 }
 
 export interface BandChartProps {
@@ -66,6 +68,21 @@ export function bandChartData(x: readonly number[], bands: readonly ChartBand[],
     columns.push(lo, hi);
   }
   return columns;
+}
+
+/**
+ * The x of the last drawn sample of each band: the last index where min or max is finite (NaN and
+ * missing values are not drawn). Null for a band with nothing finite.
+ */
+export function lastDrawnX(x: readonly number[], bands: readonly ChartBand[]): (number | null)[] {
+  return bands.map((band) => {
+    for (let i = x.length - 1; i >= 0; i--) {
+      const xi = x[i];
+      if (xi === undefined || !Number.isFinite(xi)) continue;
+      if (Number.isFinite(band.min[i] ?? Number.NaN) || Number.isFinite(band.max[i] ?? Number.NaN)) return xi;
+    }
+    return null;
+  });
 }
 
 function chartOptions(
@@ -179,9 +196,9 @@ function chartOptions(
           const { ctx } = u;
           const { left, width } = u.bbox;
           ctx.save();
-          ctx.setLineDash([6, 4]);
-          ctx.lineWidth = 1.5 * devicePixelRatio;
           for (const line of lines) {
+            ctx.setLineDash(line.thin ? [2, 3] : [6, 4]);
+            ctx.lineWidth = (line.thin ? 1 : 1.5) * devicePixelRatio;
             const y = Math.round(u.valToPos(line.value, 'y', true));
             ctx.strokeStyle = line.color;
             ctx.beginPath();
@@ -236,6 +253,14 @@ export const BandChart = memo(function BandChart({
     cursorHandler.current = onCursorIndex;
   }, [onCursorIndex]);
   const data = useMemo(() => bandChartData(x, bands, scale), [x, bands, scale]);
+  // Exposed on the chart element so a test can check where each band's drawing ends.
+  const lastX = useMemo(
+    () =>
+      lastDrawnX(x, bands)
+        .map((v) => (v === null ? 'none' : String(v)))
+        .join(' '),
+    [x, bands],
+  );
 
   useEffect(() => {
     const el = holder.current;
@@ -291,14 +316,20 @@ export const BandChart = memo(function BandChart({
           <span key={line.label} className="inline-flex items-center gap-1 text-xs text-ink-600">
             <span
               aria-hidden="true"
-              className="inline-block w-3 border-t-2 border-dashed"
+              className={`inline-block w-3 ${line.thin ? 'border-t border-dotted' : 'border-t-2 border-dashed'}`}
               style={{ borderColor: line.color }}
             />
             {line.label}
           </span>
         ))}
       </figcaption>
-      <div ref={holder} className="min-w-0" data-chart={title} />
+      <div
+        ref={holder}
+        className="min-w-0"
+        data-chart={title}
+        data-bands={bands.map((b) => b.label).join('|')}
+        data-last-x={lastX}
+      />
     </figure>
   );
 });

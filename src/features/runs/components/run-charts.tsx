@@ -108,7 +108,7 @@ export function RunCharts({
     ];
   }, [series]);
   const strokeLines = useMemo<ChartLine[]>(() => {
-    const { min_m, max_m, margin_m } = series.stroke;
+    const { min_m, max_m, margin_m, mid_m } = series.stroke;
     return [
       {
         value: max_m - margin_m,
@@ -120,6 +120,8 @@ export function RunCharts({
         label: `min + margin ${(min_m + margin_m).toFixed(3)} m`,
         color: CHART_COLORS.stroke,
       },
+      // Stroke use is measured from here: 0 at mid-stroke, 1 at a margin.
+      { value: mid_m, label: `mid-stroke ${mid_m.toFixed(3)} m`, color: CHART_COLORS.axis, thin: true },
     ];
   }, [series]);
 
