@@ -15,9 +15,18 @@ import { createHandler } from '../../worker/jobs/cue-run';
 import type { JobMeta } from '../../worker/jobs/cue-run';
 import { makeVehicleCsv } from '../factories/takes';
 import { demoHexapodInput } from '../../shared/schemas/motion-base';
-import { runDetailSchema } from '../../shared/schemas/pipeline';
-import type { RunDetail, RunSummary, Take, TrackDetail } from '../../shared/schemas/pipeline';
+import {
+  runDetailSchema,
+  runSummarySchema,
+  trackDetailSchema,
+  uploadedTakeSchema,
+} from '../../shared/schemas/pipeline';
+
+import type { TrackDetail } from '../../shared/schemas/pipeline';
 import { runSeriesSchema } from '../../shared/schemas/run-series';
+
+// Every answer is parsed with the schema the client parses it with, so a drift fails here.
+const runSummaryList = runSummarySchema.array();
 
 let t: TestApp;
 let producer: Client;
@@ -52,7 +61,7 @@ const base = () => `/api/studios/${t.seed.studioId}`;
 async function newTrack(title = 'Kelp Forest Descent'): Promise<TrackDetail> {
   const r = await producer.send('post', `${base()}/tracks`, { title, film: 'Undertow (fictional)' });
   expect(r.status, JSON.stringify(r.body)).toBe(201);
-  return r.body as TrackDetail;
+  return trackDetailSchema.parse(r.body);
 }
 
 async function upload(trackId: string, fileName: string, body: string | Buffer, c: Client = producer) {
@@ -83,7 +92,7 @@ describe('takes', () => {
     const csv = makeVehicleCsv({ duration_s: 12 });
     const r = await upload(track.id, 'descent-take1.csv', csv);
     expect(r.status, JSON.stringify(r.body)).toBe(201);
-    const take = r.body as Take;
+    const take = uploadedTakeSchema.parse(r.body);
     expect(take).toMatchObject({
       number: 1,
       kind: 'vehicle',
@@ -101,7 +110,7 @@ describe('takes', () => {
     const gz = gzipSync(makeVehicleCsv({ duration_s: 3 }));
     const r = await upload(track.id, 'gulch.csv.gz', gz);
     expect(r.status, JSON.stringify(r.body)).toBe(201);
-    expect((r.body as Take).sha256).toBe(sha(gz));
+    expect(uploadedTakeSchema.parse(r.body).sha256).toBe(sha(gz));
   });
 
   it('refuses a bad file with its line and column, and stores nothing', async () => {
@@ -124,7 +133,7 @@ describe('takes', () => {
     expect(list2.KeyCount).toBe(list.KeyCount);
     // The good take is still there, unchanged.
     const detail = await producer.get(`${base()}/tracks/${track.id}`).expect(200);
-    expect((detail.body as TrackDetail).takes.map((x) => x.fileName)).toEqual(['reef.csv']);
+    expect(trackDetailSchema.parse(detail.body).takes.map((x) => x.fileName)).toEqual(['reef.csv']);
   });
 
   it('refuses a file over the size limit', async () => {
@@ -191,12 +200,12 @@ describe('cue runs', () => {
   it('queues one run per venue, and the worker leaves artifacts in storage and a summary in the database', async () => {
     const track = await newTrack('Lantern Drop');
     const up = await upload(track.id, 'drop.csv', makeVehicleCsv({ duration_s: 15 }));
-    const take = up.body as Take;
+    const take = uploadedTakeSchema.parse(up.body);
     const q = await producer.send('post', `${base()}/takes/${take.id}/runs`, {
       venueIds: [t.seed.venueIds.dome, t.seed.venueIds.arcade],
     });
     expect(q.status, JSON.stringify(q.body)).toBe(201);
-    const runs = q.body as RunSummary[];
+    const runs = runSummaryList.parse(q.body);
     expect(runs.map((r) => r.venueName).sort()).toEqual(['Harbour Lights Dome', 'Tidewater Arcade']);
     for (const run of runs) {
       const row = await waitForRun(run.id, (s) => s !== 'queued' && s !== 'cueing');
@@ -254,14 +263,18 @@ describe('cue runs', () => {
 
   it('asking again for the same take and venue returns the same run; a repeated delivery changes nothing', async () => {
     const track = await newTrack('Echo Chamber');
-    const take = (await upload(track.id, 'echo.csv', makeVehicleCsv({ duration_s: 5 }))).body as Take;
-    const first = (
-      await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] })
-    ).body as RunSummary[];
+    const take = uploadedTakeSchema.parse(
+      (await upload(track.id, 'echo.csv', makeVehicleCsv({ duration_s: 5 }))).body,
+    );
+    const first = runSummaryList.parse(
+      (await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] }))
+        .body,
+    );
     const done = await waitForRun(first[0]!.id, (s) => s !== 'queued' && s !== 'cueing');
-    const again = (
-      await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] })
-    ).body as RunSummary[];
+    const again = runSummaryList.parse(
+      (await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] }))
+        .body,
+    );
     expect(again[0]!.id).toBe(first[0]!.id);
     await handle({
       id: first[0]!.id,
@@ -278,10 +291,13 @@ describe('cue runs', () => {
 
   it('a run left half-done by a worker that died is done again, once', async () => {
     const track = await newTrack('Stalled Lift');
-    const take = (await upload(track.id, 'lift.csv', makeVehicleCsv({ duration_s: 5 }))).body as Take;
-    const [run] = (
-      await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.arcade] })
-    ).body as RunSummary[];
+    const take = uploadedTakeSchema.parse(
+      (await upload(track.id, 'lift.csv', makeVehicleCsv({ duration_s: 5 }))).body,
+    );
+    const [run] = runSummaryList.parse(
+      (await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.arcade] }))
+        .body,
+    );
     await waitForRun(run!.id, (s) => s !== 'queued' && s !== 'cueing');
     // What a killed worker leaves: state cueing, partial progress, no summary.
     await t.tdb.db
@@ -302,24 +318,27 @@ describe('cue runs', () => {
 
   it('a job that throws is retried and ends failed with its reason', async () => {
     const track = await newTrack('Vanishing Act');
-    const take = (await upload(track.id, 'vanish.csv', makeVehicleCsv({ duration_s: 3 }))).body as Take;
+    const take = uploadedTakeSchema.parse(
+      (await upload(track.id, 'vanish.csv', makeVehicleCsv({ duration_s: 3 }))).body,
+    );
     const [row] = await t.tdb.db.select().from(takes).where(eq(takes.id, take.id));
     await storage.client.send(new DeleteObjectCommand({ Bucket: storage.bucket, Key: row!.storageKey }));
-    const [run] = (
-      await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] })
-    ).body as RunSummary[];
+    const [run] = runSummaryList.parse(
+      (await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] }))
+        .body,
+    );
     const failed = await waitForRun(run!.id, (s) => s === 'failed', 90_000);
     // Retry limit 2 in this file: three attempts in all.
     expect(failed.attempts).toBe(3);
     expect(failed.failureReason).toMatch(/^Gave up after 3 attempt\(s\): /);
-    const d = (await producer.get(`${base()}/runs/${run!.id}`).expect(200)).body as RunDetail;
+    const d = runDetailSchema.parse((await producer.get(`${base()}/runs/${run!.id}`).expect(200)).body);
     expect(d.failureReason).toBe(failed.failureReason);
   });
 
   it('a take that does not fit the venue is refused before any run is made', async () => {
     const track = await newTrack('Flat Pose');
     const pose = 'time_s,x_m,y_m,yaw_rad\n0,0,0,0\n0.1,0.01,0,0\n0.2,0.02,0,0\n0.3,0.03,0,0\n';
-    const take = (await upload(track.id, 'flat.csv', pose)).body as Take;
+    const take = uploadedTakeSchema.parse((await upload(track.id, 'flat.csv', pose)).body);
     expect(take.layout).toBe('planar3');
     const r = await producer.send('post', `${base()}/takes/${take.id}/runs`, {
       venueIds: [t.seed.venueIds.dome],
@@ -367,10 +386,13 @@ describe('venues', () => {
 describe('tenancy of the pipeline', () => {
   it('answers 404 to a producer of another studio on every pipeline route', async () => {
     const track = await newTrack('Private Current');
-    const take = (await upload(track.id, 'current.csv', makeVehicleCsv({ duration_s: 2 }))).body as Take;
-    const [run] = (
-      await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] })
-    ).body as RunSummary[];
+    const take = uploadedTakeSchema.parse(
+      (await upload(track.id, 'current.csv', makeVehicleCsv({ duration_s: 2 }))).body,
+    );
+    const [run] = runSummaryList.parse(
+      (await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] }))
+        .body,
+    );
     // Ada produces for Quarry Hill; through Quarry Hill's paths, Lanternfish's things do not exist.
     const other = new Client(t.app);
     await other.signIn('ada.admin@lanternfish.example');

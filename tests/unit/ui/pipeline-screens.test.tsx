@@ -285,7 +285,8 @@ describe('pipeline navigation', () => {
   const expected: [Role, string[]][] = [
     ['producer', ['Home', 'Venues', 'Tracks', 'Profiles']],
     ['motion_engineer', ['Home', 'Venues', 'Tracks', 'Profiles']],
-    ['safety_reviewer', ['Home', 'Venues', 'Tracks', 'Profiles']],
+    // Safety reviewers read the audit log as well as admins (the role table in shared/permissions.ts).
+    ['safety_reviewer', ['Home', 'Venues', 'Tracks', 'Profiles', 'Audit log']],
     ['venue_operator', ['Home', 'Venues']],
     ['studio_admin', ['Home', 'Venues', 'Tracks', 'Profiles', 'Members', 'Audit log', 'API tokens']],
   ];
