@@ -4,6 +4,7 @@ import type { LoaderFunctionArgs } from 'react-router-dom';
 import { getMeQueryOptions } from '../features/auth/api/get-me';
 import { getStudioOverviewQueryOptions } from '../features/studios/api/get-studio-overview';
 import { getVenuesQueryOptions } from '../lib/queries/venues';
+import { getReleaseQueryOptions } from '../lib/queries/releases';
 import { getRunQueryOptions } from '../features/runs/api/get-run';
 import { getTrackQueryOptions } from '../features/tracks/api/get-track';
 import { Loading } from '../components/ui/status';
@@ -22,6 +23,7 @@ import { StudioHomeRoute } from './routes/studio-home';
 import { RootRedirect, StudioLayout } from './routes/studio-layout';
 import { AuditRoute, MembersRoute, VenuesRoute } from './routes/studio-pages';
 import { ProfilesRoute } from './routes/profiles';
+import { ReleaseRoute, ReleasesRoute } from './routes/releases';
 import { RunRoute } from './routes/run';
 import { TokensRoute } from './routes/tokens';
 import { TrackRoute } from './routes/track';
@@ -62,6 +64,11 @@ export function createAppRouter(queryClient: QueryClient) {
       queryClient.prefetchQuery(getRunQueryOptions(id, args.params.runId ?? '')),
     )(args);
 
+  const releaseLoader = (args: LoaderFunctionArgs) =>
+    prefetchInStudio('releases.read', (id) =>
+      queryClient.prefetchQuery(getReleaseQueryOptions(id, args.params.releaseId ?? '')),
+    )(args);
+
   return createBrowserRouter([
     {
       errorElement: <RouteErrorScreen />,
@@ -85,6 +92,8 @@ export function createAppRouter(queryClient: QueryClient) {
             { path: 'tracks', element: <TracksRoute />, loader: venuesLoader },
             { path: 'tracks/:trackId', element: <TrackRoute />, loader: trackLoader },
             { path: 'runs/:runId', element: <RunRoute />, loader: runLoader },
+            { path: 'releases', element: <ReleasesRoute />, loader: venuesLoader },
+            { path: 'releases/:releaseId', element: <ReleaseRoute />, loader: releaseLoader },
             { path: 'venues/:venueId', element: <VenueSettingsRoute /> },
             { path: 'profiles', element: <ProfilesRoute /> },
             { path: 'tokens', element: <TokensRoute /> },

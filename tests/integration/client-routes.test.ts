@@ -28,6 +28,9 @@ describe('client routes', () => {
     '/sign-in',
     '/s/00000000-0000-4000-8000-000000000000/tracks?state=failed',
     '/mailbox/',
+    '/s/00000000-0000-4000-8000-000000000000/releases?state=ready',
+    '/s/00000000-0000-4000-8000-000000000000/releases/00000000-0000-4000-8000-000000000001',
+    '/s/00000000-0000-4000-8000-000000000000/runs/00000000-0000-4000-8000-000000000002',
   ]) {
     it(`serves the app's page at ${path}`, async () => {
       const res = await request(t.app).get(path);

@@ -1,5 +1,5 @@
 import { useId } from 'react';
-import type { InputHTMLAttributes, ReactNode } from 'react';
+import type { InputHTMLAttributes, ReactNode, TextareaHTMLAttributes } from 'react';
 
 export interface TextFieldProps extends InputHTMLAttributes<HTMLInputElement> {
   label: string;
@@ -108,4 +108,39 @@ export function issuesByField(issues: readonly { path: string; message: string }
     byField[field] = byField[field] ? `${byField[field]}; ${issue.message}` : issue.message;
   }
   return byField;
+}
+
+export interface TextAreaFieldProps extends TextareaHTMLAttributes<HTMLTextAreaElement> {
+  label: string;
+  error?: string | undefined;
+  hint?: ReactNode;
+}
+
+/** A labelled multi-line input with its hint and its error, wired for screen readers. */
+export function TextAreaField({ label, error, hint, className = '', ...input }: TextAreaFieldProps) {
+  const id = useId();
+  const hintId = `${id}-hint`;
+  const errorId = `${id}-error`;
+  const describedBy = [hint ? hintId : null, error ? errorId : null].filter(Boolean).join(' ') || undefined;
+  return (
+    <div className={`flex flex-col gap-1 ${className}`}>
+      <label htmlFor={id} className="text-xs font-medium text-ink-600">
+        {label}
+      </label>
+      <textarea
+        id={id}
+        rows={3}
+        {...input}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={describedBy}
+        className={`rounded border bg-white px-2 py-1.5 text-sm text-ink-900 ${error ? 'border-stop-500' : 'border-ink-200'}`}
+      />
+      {hint ? (
+        <p id={hintId} className="text-xs text-ink-400">
+          {hint}
+        </p>
+      ) : null}
+      {error ? <FieldError id={errorId}>{error}</FieldError> : null}
+    </div>
+  );
 }

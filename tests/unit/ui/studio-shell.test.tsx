@@ -75,12 +75,12 @@ describe('studio shell', () => {
     renderRoutes(routes, `/s/${QUARRY}`);
     const nav = await screen.findByRole('navigation', { name: 'Studio pages' });
     // Members and the audit log are a studio admin's; a producer does not see them, but works on
-    // tracks and may read the profiles the venues use.
+    // tracks, releases runs and may read the profiles the venues use.
     expect(
       within(nav)
         .getAllByRole('link')
         .map((link) => link.textContent),
-    ).toEqual(['Home', 'Venues', 'Tracks', 'Profiles']);
+    ).toEqual(['Home', 'Venues', 'Tracks', 'Releases', 'Profiles']);
   });
 
   it('sends a signed-out visitor to sign-in and remembers where they were going', async () => {
