@@ -27,6 +27,7 @@ import {
   ReviewQueueList,
 } from '../../../src/features/homes/components/role-lists';
 import { ReleaseView } from '../../../src/features/releases/components/release-view';
+import { ReleasesList } from '../../../src/features/releases/components/releases-list';
 import { DecisionPanel } from '../../../src/features/review/components/decision-panel';
 import { MembershipProvider } from '../../../src/lib/membership';
 import { FAKE_IDS, FAKE_VENUES, fakeApi, json, renderWithApp } from './harness';
@@ -558,5 +559,43 @@ describe('release page', () => {
       'href',
       `/s/${STUDIO}/releases/${NEWER}`,
     );
+  });
+});
+
+describe('releases list', () => {
+  it('filters by venue and state through the query the server reads, in people words', async () => {
+    const api = fakeApi({
+      [`GET ${base}/venues`]: () => json(FAKE_VENUES),
+      [`GET ${base}/releases`]: (call) =>
+        json(new URLSearchParams(call.search).get('state') === 'withdrawn' ? [] : [release()]),
+    });
+    const view = inStudio(['producer'], <ReleasesList studioId={STUDIO} />);
+    const table = await screen.findByRole('table', { name: 'Releases' });
+    const row = within(table).getByRole('link', { name: 'Lantern Reef dive, take 3' }).closest('tr')!;
+    expect(row).toHaveTextContent('Tidewater Arcade');
+    expect(row).toHaveTextContent('Ready');
+    expect(row).toHaveTextContent('01 Dec 2026, 10:30 America/Halifax');
+    expect(row).not.toHaveTextContent(RELEASE);
+
+    fireEvent.change(screen.getByRole('combobox', { name: 'Venue' }), { target: { value: FAKE_IDS.arcade } });
+    fireEvent.change(screen.getByRole('combobox', { name: 'State' }), { target: { value: 'withdrawn' } });
+    expect(await screen.findByText('No releases match.')).toBeInTheDocument();
+    const last = api.calls.filter((c) => c.path === `${base}/releases`).at(-1)!;
+    expect(Object.fromEntries(new URLSearchParams(last.search))).toEqual({
+      venueId: FAKE_IDS.arcade,
+      state: 'withdrawn',
+    });
+    expect(view.router.state.location.search).toBe(`?venue=${FAKE_IDS.arcade}&state=withdrawn`);
+    const states = within(screen.getByRole('combobox', { name: 'State' }))
+      .getAllByRole('option')
+      .map((o) => o.textContent);
+    expect(states).toEqual([
+      'Every state',
+      'Building package',
+      'Ready',
+      'Build failed',
+      'Superseded',
+      'Withdrawn',
+    ]);
   });
 });

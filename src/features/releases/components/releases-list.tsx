@@ -1,6 +1,7 @@
 // The releases of the studio (an operator's server answer holds only their venues'), filtered by
 // venue and state, each row opening its release page.
 import { Link, useSearchParams } from 'react-router-dom';
+import { z } from 'zod';
 import { appPaths } from '../../../../shared/app-paths';
 import { RELEASE_STATES, RELEASE_STATE_LABELS, releaseStateSchema } from '../../../../shared/schemas/release';
 import { ReleaseStateBadge } from '../../../components/releases/release-badge';
@@ -13,9 +14,10 @@ import { useVenues } from '../../../lib/queries/venues';
 export function ReleasesList({ studioId }: { studioId: string }) {
   const [params, setParams] = useSearchParams();
   const venues = useVenues(studioId);
-  const venueId = venues.data?.some((v) => v.id === params.get('venue'))
-    ? (params.get('venue') ?? undefined)
-    : undefined;
+  // A venue id from the address is sent as it is; the server answers 400 for a malformed one and
+  // limits an operator to their venues.
+  const venueParse = z.string().uuid().safeParse(params.get('venue'));
+  const venueId = venueParse.success ? venueParse.data : undefined;
   const stateParse = releaseStateSchema.safeParse(params.get('state'));
   const state = stateParse.success ? stateParse.data : undefined;
   const releases = useReleases(studioId, { venueId, state });
