@@ -3,12 +3,6 @@ import { ROLES } from '../../../shared/schemas/roles';
 import type { Role } from '../../../shared/schemas/roles';
 import { PageHeading, Section, Stat } from '../../components/ui/section';
 import { ErrorNotice, Loading } from '../../components/ui/status';
-import {
-  EngineerHeldList,
-  OperatorReleases,
-  ProducerAttention,
-  ReviewQueueList,
-} from '../../features/homes/components/role-lists';
 import { PendingInvitationsCount } from '../../features/members/components/invitations-table';
 import { useStudioOverview } from '../../features/studios/api/get-studio-overview';
 import type { StudioOverview } from '../../features/studios/api/get-studio-overview';
@@ -20,7 +14,6 @@ type Counts = StudioOverview['counts'];
 function ProducerDesk({ studioId, counts }: { studioId: string; counts: Counts }) {
   return (
     <Section title="Producer desk" testId="home-producer">
-      <ProducerAttention studioId={studioId} />
       <h3 className="text-sm font-medium text-ink-800">Tracks in production</h3>
       <div className="flex flex-wrap gap-3">
         <Stat label="Tracks" value={counts.tracks} />
@@ -41,7 +34,6 @@ function ProducerDesk({ studioId, counts }: { studioId: string; counts: Counts }
 function MotionEngineering({ studioId }: { studioId: string }) {
   return (
     <Section title="Motion engineering" testId="home-motion_engineer">
-      <EngineerHeldList studioId={studioId} />
       <h3 className="text-sm font-medium text-ink-800">Venues and their motion bases</h3>
       <StudioVenues studioId={studioId} caption="Venues and their motion bases" />
       <p className="text-xs text-ink-600">
@@ -54,11 +46,10 @@ function MotionEngineering({ studioId }: { studioId: string }) {
   );
 }
 
-function SafetyReview({ studioId, counts }: { studioId: string; counts: Counts }) {
+function SafetyReview({ counts }: { counts: Counts }) {
   return (
     <Section title="Safety review" testId="home-safety_reviewer">
       <h3 className="text-sm font-medium text-ink-800">Review queue</h3>
-      <ReviewQueueList studioId={studioId} />
       <div className="flex flex-wrap gap-3">
         <Stat label="Awaiting review" value={counts.awaitingReview} />
         <Stat label="Held" value={counts.held} tone="hold" />
@@ -79,7 +70,6 @@ function VenueOperations({
 }) {
   return (
     <Section title="Venue operations" testId="home-venue_operator">
-      <OperatorReleases studioId={studioId} />
       <h3 className="text-sm font-medium text-ink-800">Your venues</h3>
       <StudioVenues
         studioId={studioId}
@@ -90,11 +80,6 @@ function VenueOperations({
       <div className="flex flex-wrap gap-3">
         <Stat label="Released packages" value={counts.released} />
       </div>
-      <p className="text-xs text-ink-600">
-        <Link className="text-tealdeep-600 underline" to={`/s/${studioId}/releases`}>
-          Every release of your venues
-        </Link>
-      </p>
     </Section>
   );
 }
@@ -140,7 +125,7 @@ export function StudioHomeRoute() {
           case 'motion_engineer':
             return <MotionEngineering key={role} studioId={studioId} />;
           case 'safety_reviewer':
-            return <SafetyReview key={role} studioId={studioId} counts={counts} />;
+            return <SafetyReview key={role} counts={counts} />;
           case 'venue_operator':
             return (
               <VenueOperations
