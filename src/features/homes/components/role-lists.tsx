@@ -75,7 +75,7 @@ function ReleaseButton({ studioId, run }: { studioId: string; run: HomeRun }) {
     );
   }
   return (
-    <div className="flex flex-col gap-1">
+    <div className="flex flex-col items-start gap-1">
       <Button
         size="sm"
         variant="primary"
@@ -252,7 +252,7 @@ function OperatorReleaseList({
             </Td>
             {actions ? (
               <Td>
-                <div className="flex flex-col gap-2">
+                <div className="flex flex-col items-start gap-2">
                   <DownloadLink studioId={studioId} release={release} />
                   <OperatorActions studioId={studioId} release={release} />
                 </div>

@@ -56,7 +56,7 @@ function ActionButton({
   type?: 'button' | 'submit';
 }) {
   return (
-    <div className="flex flex-col gap-0.5">
+    <div className="flex flex-col items-start gap-0.5">
       <Button type={type} variant={variant} disabled={!action.allowed} busy={busy} onClick={onClick}>
         {label}
       </Button>
@@ -141,7 +141,7 @@ function ReleaseAction({ studioId, decision }: { studioId: string; decision: Run
   const action = decision.actions.release;
   if (!action.allowed && !action.why) return null;
   return (
-    <div className="flex flex-col gap-2">
+    <div className="flex flex-col items-start gap-2">
       <ActionButton
         label="Release to the venue"
         action={action}
