@@ -196,6 +196,36 @@ const ROUTES: RouteCase[] = [
     ok: 201,
   },
   {
+    name: 'review queue',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/home/review`,
+    allowed: ['safety_reviewer'],
+    ok: 200,
+  },
+  {
+    name: 'engineer home',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/home/engineer`,
+    allowed: ['motion_engineer'],
+    ok: 200,
+  },
+  // No such run: a role that may act is told the run is not found (404) only after the role check.
+  {
+    name: 'run decision',
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/runs/00000000-0000-4000-8000-000000000000/decision`,
+    allowed: DESK,
+    ok: 404,
+  },
+  {
+    name: 'review a run',
+    method: 'post',
+    path: (i) => `/api/studios/${i.studio}/runs/00000000-0000-4000-8000-000000000000/review`,
+    body: () => ({ decision: 'hold', reason: 'matrix' }),
+    allowed: ['safety_reviewer'],
+    ok: 404,
+  },
+  {
     name: 'remove member',
     method: 'delete',
     path: (i) => `/api/studios/${i.studio}/members/${i.member}`,

@@ -1,0 +1,101 @@
+// Who may clear or hold a run, and when: the one statement of the review rules. The server enforces
+// it (each refusal carries its HTTP status) and the decision panel shows the same answers.
+//
+// - Only a role with 'runs.review' reviews (403).
+// - A run can be reviewed once it is finished and judged: awaiting review, held by budget or held;
+//   a cleared run can still be held until it is released (409 otherwise).
+// - A run with any hard finding cannot be cleared by anyone: it must be cued again (409).
+// - Separation of duties: a reviewer cannot clear a run they asked for or whose take they uploaded (403).
+// - A hold always needs a written reason; so does clearing a run with comfort findings (400).
+import { allows } from './permissions';
+
+export const CLEARABLE_STATES: readonly string[] = ['awaiting_review', 'held_by_budget', 'held'];
+export const HOLDABLE_STATES: readonly string[] = ['awaiting_review', 'held_by_budget', 'cleared'];
+
+export interface ReviewSubject {
+  state: string;
+  finished: boolean;
+  hardFindings: number;
+  comfortFindings: number;
+  requestedBy: string | null;
+  uploadedBy: string | null;
+  /** A release of this run is building or ready (a cleared run is then no longer held by review). */
+  activeRelease: boolean;
+}
+
+export interface ReviewViewer {
+  userId: string | null;
+  roles: readonly string[];
+}
+
+export interface RuleAnswer {
+  allowed: boolean;
+  reasonRequired: boolean;
+  why: string | null;
+  /** The HTTP status of a refusal (403, 409), 200 when allowed. */
+  status: 200 | 403 | 409;
+}
+
+const refuse = (status: 403 | 409, why: string, reasonRequired = false): RuleAnswer => ({
+  allowed: false,
+  reasonRequired,
+  why,
+  status,
+});
+const allow = (reasonRequired: boolean): RuleAnswer => ({
+  allowed: true,
+  reasonRequired,
+  why: null,
+  status: 200,
+});
+
+export function clearRule(run: ReviewSubject, viewer: ReviewViewer): RuleAnswer {
+  const reasonRequired = run.comfortFindings > 0;
+  if (!allows(viewer.roles, 'runs.review'))
+    return refuse(403, 'Clearing a run is the work of a safety reviewer.', reasonRequired);
+  if (!run.finished || !CLEARABLE_STATES.includes(run.state))
+    return refuse(409, stateWhy(run.state, 'cleared'), reasonRequired);
+  if (run.hardFindings > 0)
+    return refuse(
+      409,
+      `This run has ${plural(run.hardFindings, 'hard finding')}: no one can clear it. Cue the take again with other settings.`,
+      reasonRequired,
+    );
+  if (viewer.userId && viewer.userId === run.requestedBy)
+    return refuse(403, 'You asked for this run: another safety reviewer must clear it.', reasonRequired);
+  if (viewer.userId && viewer.userId === run.uploadedBy)
+    return refuse(
+      403,
+      "You uploaded this run's take: another safety reviewer must clear it.",
+      reasonRequired,
+    );
+  return allow(reasonRequired);
+}
+
+export function holdRule(run: ReviewSubject, viewer: ReviewViewer): RuleAnswer {
+  if (!allows(viewer.roles, 'runs.review'))
+    return refuse(403, 'Holding a run is the work of a safety reviewer.', true);
+  if (!run.finished || !HOLDABLE_STATES.includes(run.state))
+    return refuse(409, stateWhy(run.state, 'held'), true);
+  if (run.activeRelease)
+    return refuse(409, 'This run has a release: the producer withdraws the release instead.', true);
+  return allow(true);
+}
+
+function stateWhy(state: string, verb: 'cleared' | 'held'): string {
+  switch (state) {
+    case 'queued':
+    case 'cueing':
+      return `The run is not finished yet: it can be ${verb} once it has been cued and checked.`;
+    case 'failed':
+      return 'The run failed: there is nothing to review. Ask for the run again.';
+    case 'cleared':
+      return 'The run is already cleared.';
+    case 'held':
+      return 'The run is already held.';
+    default:
+      return `A run in this state (${state.replace(/_/g, ' ')}) cannot be ${verb}.`;
+  }
+}
+
+const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
