@@ -3,6 +3,7 @@ import { ROLES } from '../../../shared/schemas/roles';
 import type { Role } from '../../../shared/schemas/roles';
 import { PageHeading, Section, Stat } from '../../components/ui/section';
 import { ErrorNotice, Loading } from '../../components/ui/status';
+import { EngineerHeldList, ReviewQueueList } from '../../features/homes/components/role-lists';
 import { PendingInvitationsCount } from '../../features/members/components/invitations-table';
 import { useStudioOverview } from '../../features/studios/api/get-studio-overview';
 import type { StudioOverview } from '../../features/studios/api/get-studio-overview';
@@ -34,6 +35,7 @@ function ProducerDesk({ studioId, counts }: { studioId: string; counts: Counts }
 function MotionEngineering({ studioId }: { studioId: string }) {
   return (
     <Section title="Motion engineering" testId="home-motion_engineer">
+      <EngineerHeldList studioId={studioId} />
       <h3 className="text-sm font-medium text-ink-800">Venues and their motion bases</h3>
       <StudioVenues studioId={studioId} caption="Venues and their motion bases" />
       <p className="text-xs text-ink-600">
@@ -46,10 +48,11 @@ function MotionEngineering({ studioId }: { studioId: string }) {
   );
 }
 
-function SafetyReview({ counts }: { counts: Counts }) {
+function SafetyReview({ studioId, counts }: { studioId: string; counts: Counts }) {
   return (
     <Section title="Safety review" testId="home-safety_reviewer">
       <h3 className="text-sm font-medium text-ink-800">Review queue</h3>
+      <ReviewQueueList studioId={studioId} />
       <div className="flex flex-wrap gap-3">
         <Stat label="Awaiting review" value={counts.awaitingReview} />
         <Stat label="Held" value={counts.held} tone="hold" />
@@ -80,6 +83,11 @@ function VenueOperations({
       <div className="flex flex-wrap gap-3">
         <Stat label="Released packages" value={counts.released} />
       </div>
+      <p className="text-xs text-ink-600">
+        <Link className="text-tealdeep-600 underline" to={`/s/${studioId}/releases`}>
+          Every release of your venues
+        </Link>
+      </p>
     </Section>
   );
 }
@@ -125,7 +133,7 @@ export function StudioHomeRoute() {
           case 'motion_engineer':
             return <MotionEngineering key={role} studioId={studioId} />;
           case 'safety_reviewer':
-            return <SafetyReview key={role} counts={counts} />;
+            return <SafetyReview key={role} studioId={studioId} counts={counts} />;
           case 'venue_operator':
             return (
               <VenueOperations

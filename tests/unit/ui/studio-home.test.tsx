@@ -58,6 +58,10 @@ function renderHome(me: Me) {
       }),
     [`GET /api/studios/${STUDIO}/venues`]: () => json(VENUES),
     [`GET /api/studios/${STUDIO}/invitations`]: () => json([]),
+    // The role homes' lists (shared/schemas/homes.ts), empty here: their rows are checked in
+    // review-release-screens.test.tsx.
+    [`GET /api/studios/${STUDIO}/home/review`]: () => json({ runs: [] }),
+    [`GET /api/studios/${STUDIO}/home/engineer`]: () => json({ held: [] }),
   });
   return renderRoutes(
     [
@@ -126,5 +130,13 @@ describe('studio home', () => {
     const section = await screen.findByTestId('home-safety_reviewer');
     expect(within(section).getByText('Awaiting review').parentElement).toHaveTextContent('3');
     expect(within(section).getByText('Held').parentElement).toHaveTextContent('1');
+    expect(await within(section).findByText('Nothing waits for review.')).toBeInTheDocument();
+  });
+
+  it('shows a member with several roles the work list of each, and no error', async () => {
+    renderHome(meWith(['motion_engineer', 'safety_reviewer']));
+    expect(await screen.findByText('Nothing waits for review.')).toBeInTheDocument();
+    expect(await screen.findByText('No held runs.')).toBeInTheDocument();
+    expect(screen.queryByRole('alert')).toBeNull();
   });
 });

@@ -25,20 +25,10 @@ export function ReviewQueueList({ studioId }: { studioId: string }) {
   const venues = useVenues(studioId);
   if (home.isPending) return <Loading what="Loading the review queue" />;
   if (home.isError) return <ErrorNotice error={home.error} retry={() => void home.refetch()} />;
-  return (
-    <>
-      <Sub>Runs waiting for a decision</Sub>
-      {home.data.runs.length === 0 ? (
-        <Empty>Nothing waits for review.</Empty>
-      ) : (
-        <HomeRunsTable
-          studioId={studioId}
-          runs={home.data.runs}
-          venues={venues.data}
-          caption="Review queue"
-        />
-      )}
-    </>
+  return home.data.runs.length === 0 ? (
+    <Empty>Nothing waits for review.</Empty>
+  ) : (
+    <HomeRunsTable studioId={studioId} runs={home.data.runs} venues={venues.data} caption="Review queue" />
   );
 }
 
