@@ -1,12 +1,13 @@
 // The demo studio, seeded into an empty database by `npm start` (fictional names and numbers).
 import { randomUUID } from 'node:crypto';
 import { Readable } from 'node:stream';
-import { count } from 'drizzle-orm';
+import { count, inArray } from 'drizzle-orm';
 import type pg from 'pg';
 import type PgBoss from 'pg-boss';
 import { openDb } from './client';
 import type { Db } from './client';
 import {
+  cueRuns,
   memberships,
   profileVersions,
   profiles,
@@ -17,9 +18,11 @@ import {
   venueSettings,
   venues,
 } from './schema';
+import type { CueRunRow } from './schema';
 import type { Storage } from '../storage';
 import { receiveTake } from '../pipeline/upload';
 import { queueRuns } from '../pipeline/queue-runs';
+import { applyReview, findingCounts } from '../pipeline/review';
 import { demoRideCsv } from '../../shared/demo-ride';
 import { createHandler as createCueRunHandler } from '../../worker/jobs/cue-run';
 import { hashPassword } from '../auth/passwords';
@@ -186,6 +189,47 @@ export async function seedDemoTrack(
   return runs;
 }
 
+/**
+ * The demo's reviews, through the same rules as the review route: the demo reviewer holds the first
+ * run with a hard finding and clears the first run with no finding; the rest wait in the queue.
+ */
+export async function seedDemoReviews(
+  db: Db,
+  ids: Awaited<ReturnType<typeof seedDemo>>,
+  runs: { take: number; venue: 'dome' | 'arcade'; runId: string }[],
+): Promise<void> {
+  const reviewer = DEMO_USERS.find((u) => u.roles.includes('safety_reviewer'))!;
+  const who = {
+    userId: ids.userIds[reviewer.email]!,
+    email: reviewer.email,
+    roles: reviewer.roles,
+    venueIds: [],
+  };
+  const rows = await db
+    .select()
+    .from(cueRuns)
+    .where(
+      inArray(
+        cueRuns.id,
+        runs.map((r) => r.runId),
+      ),
+    );
+  const byTake = (a: CueRunRow, b: CueRunRow) =>
+    runs.findIndex((r) => r.runId === a.id) - runs.findIndex((r) => r.runId === b.id);
+  rows.sort(byTake);
+  const hard = rows.find((r) => findingCounts(r).hard > 0);
+  const clean = rows.find((r) => r.summary && r.summary.findings.length === 0);
+  await db.transaction(async (tx) => {
+    if (hard)
+      await applyReview(tx, ids.studioId, hard.id, who, {
+        decision: 'hold',
+        reason:
+          'Hard finding in the drop: the legs run out of stroke. Cue again with a softer heave washout.',
+      });
+    if (clean) await applyReview(tx, ids.studioId, clean.id, who, { decision: 'clear', reason: '' });
+  });
+}
+
 /** Seeds the demo studio (and, given storage and the queue, its demo track) when the database has no studio yet. */
 export async function seedDemoIfEmpty(
   url: string,
@@ -196,7 +240,10 @@ export async function seedDemoIfEmpty(
     const [row] = await db.select({ n: count() }).from(studios);
     if ((row?.n ?? 0) > 0) return false;
     const ids = await seedDemo(db);
-    if (services) await seedDemoTrack(db, pool, services.storage, services.boss, ids);
+    if (services) {
+      const runs = await seedDemoTrack(db, pool, services.storage, services.boss, ids);
+      await seedDemoReviews(db, ids, runs);
+    }
     return true;
   } finally {
     await pool.end();

@@ -10,7 +10,7 @@ import type { VenueScopeMember } from '../../shared/permissions';
 import { inStudio, visibleVenues } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
 import { worstUse } from '../pipeline/views';
-import { findingCounts } from './reviews';
+import { findingCounts } from '../pipeline/review';
 import type { EngineerHome, HomeRun, ReviewQueue } from '../../shared/schemas/homes';
 
 async function homeRuns(

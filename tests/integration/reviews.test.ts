@@ -8,7 +8,7 @@ import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { testEnv } from './support/services';
 import { createStorage } from '../../server/storage';
-import { seedDemoTrack } from '../../server/db/seed';
+import { seedDemoReviews, seedDemoTrack } from '../../server/db/seed';
 import { auditEvents, cueRuns, memberships, takes } from '../../server/db/schema';
 import type { CueRunRow } from '../../server/db/schema';
 import { reviewedRunSchema, runDecisionSchema } from '../../shared/schemas/review';
@@ -18,6 +18,7 @@ let t: TestApp;
 let storage: ReturnType<typeof createStorage>;
 const clients = new Map<string, Client>();
 let runs: CueRunRow[] = [];
+let seeded: Awaited<ReturnType<typeof seedDemoTrack>> = [];
 
 const base = () => `/api/studios/${t.seed.studioId}`;
 const as = (email: string) => clients.get(email)!;
@@ -53,7 +54,7 @@ async function resetState(runId: string, state: CueRunRow['state']) {
 beforeAll(async () => {
   t = await startTestApp({ queue: true, env: { LOGIN_RATE_LIMIT: '1000' } });
   storage = createStorage(testEnv(t.tdb.url));
-  await seedDemoTrack(t.tdb.db, t.tdb.pool, storage, t.boss!, t.seed);
+  seeded = await seedDemoTrack(t.tdb.db, t.tdb.pool, storage, t.boss!, t.seed);
   runs = await t.tdb.db.select().from(cueRuns).where(eq(cueRuns.studioId, t.seed.studioId));
   for (const email of [REVIEWER, PRODUCER, ENGINEER, OPERATOR]) {
     const c = new Client(t.app);
@@ -235,5 +236,22 @@ describe('the review queue', () => {
           (a.hardFindings === b.hardFindings && a.comfortFindings >= b.comfortFindings),
       ).toBe(true);
     }
+  });
+});
+
+describe('the demo seed', () => {
+  it('holds a run with a hard finding and clears one with none, through the same rules', async () => {
+    for (const r of runs) await resetState(r.id, r.state);
+    await seedDemoReviews(t.tdb.db, t.seed, seeded);
+    const hard = pick((c) => c.hard > 0);
+    const clean = pick((c) => c.hard === 0 && c.comfort === 0);
+    const h = await decision(REVIEWER, hard.id);
+    expect(h.state).toBe('held');
+    expect(h.reviews[0]).toMatchObject({ decision: 'hold', reviewer: { email: REVIEWER } });
+    expect(h.reviews[0]!.reason.length).toBeGreaterThan(10);
+    expect((await decision(REVIEWER, clean.id)).state).toBe('cleared');
+    // Something is still left for the reviewer's queue.
+    const q = reviewQueueSchema.parse((await as(REVIEWER).get(`${base()}/home/review`)).body).runs;
+    expect(q.length).toBeGreaterThan(0);
   });
 });
