@@ -7,6 +7,7 @@ import { ZodError } from 'zod';
 import type { AppDeps } from './deps';
 import { HttpError } from './lib/http-error';
 import { createPassport, requireCsrf, sessionMiddleware } from './auth/session';
+import { createPasswordThrottle, trustProxySetting } from './auth/throttle';
 import { healthRouter } from './routes/health';
 import { authRouter } from './routes/auth';
 import { invitationsRouter } from './routes/invitations';
@@ -22,7 +23,8 @@ export interface LegworkApp {
 export function createApp(deps: AppDeps): LegworkApp {
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  app.set('trust proxy', trustProxySetting(deps.env.TRUST_PROXY));
+  const throttle = createPasswordThrottle(deps.env);
   const sessions = sessionMiddleware(deps);
   const pass = createPassport(deps);
 
@@ -33,8 +35,8 @@ export function createApp(deps: AppDeps): LegworkApp {
   api.use(pass.initialize());
   api.use(pass.session());
   api.use(requireCsrf);
-  api.use('/auth', authRouter(deps, pass));
-  api.use('/invitations', invitationsRouter(deps));
+  api.use('/auth', authRouter(deps, pass, throttle));
+  api.use('/invitations', invitationsRouter(deps, throttle));
   api.use('/studios/:studioId', studioRouter(deps));
   api.use('/dev/mailbox', devMailboxRouter(deps));
   api.use((req, _res, next) =>

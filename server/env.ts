@@ -30,6 +30,15 @@ export const envSchema = z.object({
   MAIL_CAPTURE_DIR: z.string().optional(),
   LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
   LOGIN_RATE_WINDOW_S: z.coerce.number().int().min(1).default(60),
+  /** Refused password checks from one client address per window, whichever accounts. */
+  LOGIN_RATE_LIMIT_PER_CLIENT: z.coerce.number().int().min(1).default(50),
+  /** Refused password checks on the whole server per window. */
+  LOGIN_RATE_LIMIT_GLOBAL: z.coerce.number().int().min(1).default(500),
+  /**
+   * Express's `trust proxy` when a reverse proxy sits in front: a hop count, `loopback`, or a list
+   * of the proxies' addresses. Unset: X-Forwarded-For is ignored and the client is the socket's peer.
+   */
+  TRUST_PROXY: z.string().optional(),
   STATIC_DIR: z.string().default('dist'),
   /** How often an idle worker asks the queue for work (s). */
   WORKER_POLL_S: z.coerce.number().min(0.5).max(60).default(1),

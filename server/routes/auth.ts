@@ -1,6 +1,5 @@
 import { Router } from 'express';
 import type { Request } from 'express';
-import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import type passport from 'passport';
 import { and, eq, gt, isNull, sql } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
@@ -14,6 +13,7 @@ import { hashPassword } from '../auth/passwords';
 import { recordAudit } from '../audit';
 import { publicUrl } from '../env';
 import { loadMe } from './me';
+import type { PasswordThrottle } from '../auth/throttle';
 
 const RESET_TTL_MS = 60 * 60 * 1000;
 
@@ -22,7 +22,7 @@ export const logIn = (req: Request, user: Express.User): Promise<void> =>
   new Promise((resolve, reject) => req.logIn(user, (e) => (e ? reject(e) : resolve())));
 
 /** /api/auth: CSRF token, sign-in, sign-out, the current user, password reset. */
-export function authRouter(deps: AppDeps, pass: passport.PassportStatic): Router {
+export function authRouter(deps: AppDeps, pass: passport.PassportStatic, throttle: PasswordThrottle): Router {
   const r = Router();
   const now = deps.now ?? (() => new Date());
 
@@ -30,21 +30,9 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic): Router
     res.json({ csrfToken: csrfToken(req) });
   });
 
-  const limiter = rateLimit({
-    windowMs: deps.env.LOGIN_RATE_WINDOW_S * 1000,
-    limit: deps.env.LOGIN_RATE_LIMIT,
-    // Only refused attempts count, so people who sign in often are never locked out.
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) =>
-      `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
-    handler: (_req, res) => {
-      res.status(429).json({ error: 'Too many sign-in attempts. Wait a minute and try again.' });
-    },
-  });
+  const limiter = throttle.guard((req) => String((req.body as { email?: unknown } | undefined)?.email ?? ''));
 
-  r.post('/login', limiter, async (req, res) => {
+  r.post('/login', ...limiter, async (req, res) => {
     const body = parseBody(loginBody, req.body, 'The sign-in form');
     req.body = body;
     const user = await new Promise<Express.User | false>((resolve, reject) => {

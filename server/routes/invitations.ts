@@ -11,8 +11,9 @@ import { hashPassword, verifyPassword } from '../auth/passwords';
 import { recordAudit } from '../audit';
 import { logIn } from './auth';
 import { loadMe } from './me';
+import type { PasswordThrottle } from '../auth/throttle';
 
-export function invitationsRouter(deps: AppDeps): Router {
+export function invitationsRouter(deps: AppDeps, throttle: PasswordThrottle): Router {
   const r = Router();
   const now = deps.now ?? (() => new Date());
 
@@ -36,7 +37,18 @@ export function invitationsRouter(deps: AppDeps): Router {
     res.json({ studioName, email: inv.email, roles: inv.roles, existingUser: Boolean(u) });
   });
 
-  r.post('/:token/accept', async (req, res) => {
+  // Accepting as an existing user checks that account's password: the same limits as sign-in,
+  // counted against the invited address.
+  const acceptLimiter = throttle.guard(async (req) => {
+    const [row] = await deps.db
+      .select({ email: invitations.email })
+      .from(invitations)
+      .where(eq(invitations.tokenHash, hashToken(String(req.params.token))))
+      .limit(1);
+    return row?.email ?? '';
+  });
+
+  r.post('/:token/accept', ...acceptLimiter, async (req, res) => {
     const { inv } = await find(String(req.params.token));
     const body = parseBody(acceptInvitationBody, req.body, 'The invitation form');
     const [existing] = await deps.db.select().from(users).where(eq(users.email, inv.email)).limit(1);
