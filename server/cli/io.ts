@@ -14,8 +14,11 @@ import { parseBudgetText } from '../../shared/schemas/budget';
 import type { Budget } from '../../shared/schemas/budget';
 import { parseCueingProfileJson } from '../../shared/schemas/cueing-profile';
 import type { CueingProfile } from '../../shared/schemas/cueing-profile';
+import { touchupSchema } from '../../shared/schemas/touchup';
+import type { Touchup } from '../../shared/schemas/touchup';
 import {
   JsonInputError,
+  formatJsonPath,
   formatProblem,
   lineColumn,
   locateJsonPath,
@@ -180,6 +183,23 @@ export async function readProfileFile(path: string): Promise<{ profile: CueingPr
     }),
   );
   throw new CliInputError(`invalid cueing profile:\n${lines.join('\n')}`);
+}
+
+/** Reads and validates a touch-up JSON file; every problem names the field (`gain.z: ...`). */
+export async function readTouchupFile(path: string): Promise<{ touchup: Touchup; text: string }> {
+  const text = await readTextFile(path);
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (e) {
+    throw new CliInputError(`${path}: not JSON: ${(e as Error).message}`);
+  }
+  const r = touchupSchema.safeParse(json);
+  if (r.success) return { touchup: r.data, text };
+  const lines = r.error.issues.map((i) =>
+    formatProblem({ file: path, path: formatJsonPath(i.path), reason: i.message }),
+  );
+  throw new CliInputError(`invalid touch-up:\n${lines.join('\n')}`);
 }
 
 /**

@@ -32,6 +32,9 @@ import { trackColumn } from './track-reader';
 import { cueClassical } from './washout';
 import { trackName } from './track-names';
 import { hexapodLegForces } from './leg-force';
+import { applyTouchup, TouchupError } from './touchup';
+import { isIdentityTouchup } from '../schemas/touchup';
+import type { Touchup } from '../schemas/touchup';
 
 /** Inputs of the pipeline; the track is parsed (SI) but not yet resampled. */
 export interface ProcessInput {
@@ -41,6 +44,8 @@ export interface ProcessInput {
   profile?: CueingProfile;
   /** Safety budget; the demo budget (clearly marked as such) when absent. */
   budget?: Budget;
+  /** Touch-up applied to the take before anything else (resampling, cueing, kinematics, checks). */
+  touchup?: Touchup;
 }
 
 /** Spectra as written to spectra.json: one-sided Welch PSD per axis of the rider's specific force. */
@@ -104,8 +109,18 @@ function vehicleColumns(track: Track, rate_hz: number) {
 
 /** Runs the whole offline pipeline (see the file comment); pure, throws on input it cannot process. */
 export function processTrack(input: ProcessInput): ProcessResult {
-  const { base, track } = input;
+  const { base } = input;
   const notes: string[] = [];
+  let track = input.track;
+  if (input.touchup && !isIdentityTouchup(input.touchup)) {
+    try {
+      track = applyTouchup(input.track, input.touchup);
+    } catch (e) {
+      if (e instanceof TouchupError) throw new ProcessInputError(`touch-up: ${e.message}`);
+      throw e;
+    }
+    notes.push('The take was touched up before cueing (see the touch-up in the run parameters).');
+  }
   const budgetIsDemo = input.budget === undefined;
   const budget = input.budget ?? DEMO_BUDGET;
   if (budgetIsDemo) {

@@ -12,7 +12,16 @@ import type { Budget } from '../../../shared/schemas/budget';
 import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
 import type { CliIo } from '../io';
 import { parseCommandOptions } from '../args';
-import { CAUTION, CliInputError, readBaseFile, readBudgetFile, readProfileFile, readTrackFile } from '../io';
+import {
+  CAUTION,
+  CliInputError,
+  readBaseFile,
+  readBudgetFile,
+  readProfileFile,
+  readTouchupFile,
+  readTrackFile,
+} from '../io';
+import type { Touchup } from '../../../shared/schemas/touchup';
 import { folderSink, sha256Hex, writeRunOutputs } from '../../pipeline/run-outputs';
 import { softwareVersion } from '../../lib/version';
 import { describePipelineError } from './check';
@@ -21,7 +30,7 @@ export const summary =
   'the whole offline pipeline into a package folder (legs, pose, findings, spectra, report)';
 
 export const help = `Usage: legwork process --base BASE.json [--profile PROFILE.json] [--budget BUDGET.json]
-                       --in TRACK.csv[.gz] --out DIR
+                       [--touchup TOUCHUP.json] --in TRACK.csv[.gz] --out DIR
 
 Reads a vehicle, pose or legs track, resamples it to the base's controller rate, cues vehicle
 tracks by classical washout (the default profile when none is given), runs the kinematics (inverse;
@@ -34,6 +43,9 @@ Options:
   --base FILE      motion base JSON (docs/motion-conventions.md section 7)
   --profile FILE   cueing profile JSON (vehicle tracks only)
   --budget FILE    safety budget JSON
+  --touchup FILE   take touch-up JSON applied before everything else: offset_s, trimIn_s,
+                   trimOut_s, gain {axis: factor}, smoothing_hz {axis: cut-off}, fadeIn_s,
+                   fadeOut_s (docs/motion-conventions.md, take touch-up)
   --in FILE        track CSV, optionally gzipped
   --out DIR        package folder (created if missing; package files in it are replaced)
   -h, --help       this text
@@ -57,7 +69,7 @@ async function fileSha256(path: string): Promise<{ sha256: string; size_bytes: n
 
 /** Runs `legwork process`; resolves to the exit code (0, 3 or 4; bad input throws CliInputError for 2). */
 export async function run(argv: string[], io: CliIo): Promise<number> {
-  const values = parseCommandOptions(argv, ['base', 'profile', 'budget', 'in', 'out'], {
+  const values = parseCommandOptions(argv, ['base', 'profile', 'budget', 'touchup', 'in', 'out'], {
     base: 'FILE',
     in: 'FILE',
     out: 'DIR',
@@ -75,6 +87,8 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   let profile: CueingProfile | undefined;
   let profileText: string | undefined;
   if (values.profile) ({ profile, text: profileText } = await readProfileFile(values.profile));
+  let touchup: Touchup | undefined;
+  if (values.touchup) ({ touchup } = await readTouchupFile(values.touchup));
   const track = await readTrackFile(inPath);
   if (values.profile && track.kind !== 'vehicle') {
     io.stderr(`warning: ${values.profile}: a ${track.kind} track is not cued; the profile was not used\n`);
@@ -88,6 +102,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
       base,
       ...(budget ? { budget } : {}),
       ...(profile ? { profile } : {}),
+      ...(touchup ? { touchup } : {}),
     });
   } catch (e) {
     describePipelineError(e, {
