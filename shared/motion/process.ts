@@ -82,6 +82,8 @@ export interface ProcessResult {
   spectra: SpectraJson | null;
   budget: Budget;
   budgetIsDemo: boolean;
+  /** The touch-up applied to the take before cueing, or null when none (or an identity one) was given. */
+  touchup: Touchup | null;
   /** The profile used when the input was a vehicle track. */
   profile: CueingProfile | null;
   notes: string[];
@@ -344,6 +346,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
     spectra,
     budget,
     budgetIsDemo,
+    touchup: input.touchup && !isIdentityTouchup(input.touchup) ? input.touchup : null,
     profile,
     notes,
     exitCode: exitCodeFor(check),

@@ -72,6 +72,8 @@ export interface PackageSource {
   profile?: SourceFile;
   /** Absent when the demo budget was used. */
   budget?: SourceFile;
+  /** The touch-up file (`legwork process --touchup`); absent when none or when it came with the run. */
+  touchup?: SourceFile;
   softwareVersion: string;
   /** Set by the worker: which run, take and venue the package belongs to. */
   run?: { id: string; take: { id: string; number: number }; venue: { id: string; name: string } };
@@ -166,6 +168,7 @@ export function buildRunOutputs(
       ? { ...(source.profile ?? {}), default: source.profile === undefined, parameters: result.profile }
       : null,
     budget: { ...(source.budget ?? {}), demo: result.budgetIsDemo, parameters: result.budget },
+    touchup: result.touchup ? { ...(source.touchup ?? {}), parameters: result.touchup } : null,
     notes: result.notes,
     ...(source.run ? { run: source.run } : {}),
   };

@@ -88,7 +88,8 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   let profileText: string | undefined;
   if (values.profile) ({ profile, text: profileText } = await readProfileFile(values.profile));
   let touchup: Touchup | undefined;
-  if (values.touchup) ({ touchup } = await readTouchupFile(values.touchup));
+  let touchupText: string | undefined;
+  if (values.touchup) ({ touchup, text: touchupText } = await readTouchupFile(values.touchup));
   const track = await readTrackFile(inPath);
   if (values.profile && track.kind !== 'vehicle') {
     io.stderr(`warning: ${values.profile}: a ${track.kind} track is not cued; the profile was not used\n`);
@@ -121,6 +122,9 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
       : {}),
     ...(values.budget && budgetText !== undefined
       ? { budget: { file: basename(values.budget), sha256: sha256Hex(budgetText) } }
+      : {}),
+    ...(values.touchup && touchupText !== undefined
+      ? { touchup: { file: basename(values.touchup), sha256: sha256Hex(touchupText) } }
       : {}),
     softwareVersion: softwareVersion(),
   });

@@ -75,6 +75,14 @@ describe('legwork process --touchup', () => {
       expect(h[y]).toBeCloseTo(p[y] as number, 9);
     }
     expect(peak).toBeGreaterThan(0.05);
+    // The manifest records the touch-up that was applied; a package without one says null.
+    const manifest = (name: string) =>
+      JSON.parse(readFileSync(join(dir, name, 'manifest.json'), 'utf8')) as {
+        touchup: { file: string; parameters: { gain: Record<string, number> } } | null;
+      };
+    expect(manifest('plain').touchup).toBeNull();
+    expect(manifest('half').touchup?.file).toBe('half.json');
+    expect(manifest('half').touchup?.parameters.gain).toEqual({ z: 0.5 });
   });
 
   it('a trim from 3 s to 9 s leaves a package 6 s long', async () => {
