@@ -68,6 +68,11 @@ const common = {
   controllerRate_hz: z.number().positive().max(100_000),
   /** Rider reference points in the platform frame (m). */
   seats_m: z.array(vec3).min(1).max(64),
+  /**
+   * The ride maker's sequence from the show back to neutral and park, and what the controller does on
+   * an emergency stop, in plain words as the ride maker gives it; absent when none is given.
+   */
+  park: z.string().trim().min(1).max(4000).optional(),
 };
 
 /** Hexapod given by its joints: six base joints (base frame) and six platform joints (platform frame), m. */

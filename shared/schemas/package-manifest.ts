@@ -1,0 +1,42 @@
+// The manifest of a release package (manifest.json, written last in the zip): every other file's
+// SHA-256 and size, the take, the motion base, cueing and budget versions, the reviews and the release
+// with who and when, the software version and the layout of the controller's binary file. The package
+// builder writes it, `legwork verify` and the tests read it through this one schema.
+import { z } from 'zod';
+import { manifestFileSchema } from './run-outputs';
+import { personSchema, reviewSchema, versionRefSchema } from './review';
+
+export const MANIFEST_NAME = 'manifest.json';
+
+export const frameLayoutSchema = z.object({
+  file: z.string().min(1),
+  format: z.literal('float32'),
+  byteOrder: z.literal('little-endian'),
+  valuesPerFrame: z.number().int().positive(),
+  bytesPerFrame: z.number().int().positive(),
+  frames: z.number().int().nonnegative(),
+  rate_hz: z.number().positive(),
+  columns: z.array(z.string()),
+  unit: z.literal('mm'),
+  zero: z.string(),
+  header: z.literal('none'),
+});
+
+export const packageManifestSchema = z.object({
+  format: z.literal('legwork-release-package'),
+  formatVersion: z.literal(1),
+  softwareVersion: z.string().min(1),
+  release: z.object({ id: z.string(), releasedBy: personSchema, releasedAt: z.string() }),
+  run: z.object({ id: z.string(), state: z.string() }),
+  track: z.object({ id: z.string(), title: z.string() }),
+  take: z.object({ id: z.string(), number: z.number().int(), sha256: z.string(), filename: z.string() }),
+  venue: z.object({ id: z.string(), name: z.string(), timeZone: z.string() }),
+  motionBase: versionRefSchema,
+  cueing: versionRefSchema,
+  budget: versionRefSchema,
+  filmSync: z.record(z.string(), z.unknown()).nullable(),
+  reviews: z.array(reviewSchema),
+  controller: z.object({ csv: z.string(), binary: frameLayoutSchema }),
+  files: z.array(manifestFileSchema),
+});
+export type PackageManifest = z.infer<typeof packageManifestSchema>;

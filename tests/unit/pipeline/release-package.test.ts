@@ -1,0 +1,128 @@
+import { describe, expect, it } from 'vitest';
+import { createHash } from 'node:crypto';
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import yauzl from 'yauzl';
+import {
+  buildReleasePackage,
+  escapeHtml,
+  type ReleasePackageInput,
+} from '../../../server/pipeline/release-package';
+import { packageManifestSchema } from '../../../shared/schemas/package-manifest';
+import { demoHexapodBase } from '../../../shared/schemas/motion-base';
+
+const legsCsv = readFileSync(fileURLToPath(new URL('../../fixtures/legs-hexapod.csv', import.meta.url)));
+const person = { id: 'u1', name: 'Ada Reviewer', email: 'ada@example.test' };
+
+function input(title = 'Canyon Glide'): ReleasePackageInput {
+  const base = { ...demoHexapodBase, controllerRate_hz: 50 } as ReleasePackageInput['motionBase']['base'];
+  return {
+    release: {
+      id: '0b7f3a9e-1111-4222-8333-444455556666',
+      releasedBy: person,
+      releasedAt: '2026-01-02T03:04:05Z',
+    },
+    reviews: [],
+    run: {
+      id: 'r1',
+      state: 'released',
+      summary: {
+        within: true,
+        exitCode: 0,
+        uses: [],
+        findings: [],
+        comfort: null,
+        notes: [],
+        rate_hz: 50,
+        samples: 3,
+        duration_s: 1,
+        budgetIsDemo: true,
+        files: [],
+      },
+    },
+    track: { id: 't1', title },
+    take: { id: 'k1', number: 2, sha256: 'a'.repeat(64), filename: 'take2.csv' },
+    venue: { id: 'v1', name: 'North Hall', timeZone: 'UTC' },
+    motionBase: { id: 'm1', name: 'Base', version: 1, base },
+    cueing: { id: 'c1', name: 'Soft', version: 3 },
+    budget: { id: 'b1', name: 'Family', version: 4 },
+    softwareVersion: '0.0.0-test',
+    readRunFile: async (name) => (name === 'legs.csv' ? legsCsv : Buffer.from(`${name}\n`)),
+  };
+}
+
+/** Independent reader: yauzl entries into a map of name -> bytes. */
+function unzip(zip: Buffer): Promise<Map<string, Buffer>> {
+  return new Promise((resolve, reject) => {
+    yauzl.fromBuffer(zip, { lazyEntries: true }, (err, zf) => {
+      if (err || !zf) return reject(err);
+      const out = new Map<string, Buffer>();
+      zf.on('entry', (entry: yauzl.Entry) => {
+        zf.openReadStream(entry, (e2, s) => {
+          if (e2 || !s) return reject(e2);
+          const chunks: Buffer[] = [];
+          s.on('data', (c: Buffer) => chunks.push(c));
+          s.on('end', () => {
+            out.set(entry.fileName, Buffer.concat(chunks));
+            zf.readEntry();
+          });
+        });
+      });
+      zf.on('end', () => resolve(out));
+      zf.readEntry();
+    });
+  });
+}
+
+describe('release package', () => {
+  it('lists every other file with its SHA-256 and size, checked by yauzl and node:crypto', async () => {
+    const built = await buildReleasePackage(input());
+    const files = await unzip(built.zip);
+    const manifest = packageManifestSchema.parse(JSON.parse(files.get('manifest.json')!.toString('utf8')));
+    expect(new Set(manifest.files.map((f) => f.name))).toEqual(
+      new Set([...files.keys()].filter((n) => n !== 'manifest.json')),
+    );
+    for (const f of manifest.files) {
+      const data = files.get(f.name)!;
+      expect(createHash('sha256').update(data).digest('hex'), f.name).toBe(f.sha256);
+      expect(data.length, f.name).toBe(f.size_bytes);
+    }
+    expect(built.name).toBe('canyon-glide-take2-north-hall-r0b7f3a9e.zip');
+    // Equal input gives equal bytes.
+    expect((await buildReleasePackage(input())).sha256).toBe(built.sha256);
+  });
+
+  it('float32 frames decoded by Buffer.readFloatLE from the manifest layout equal the CSV and leg minus leg.min_m in mm', async () => {
+    const built = await buildReleasePackage(input());
+    const files = await unzip(built.zip);
+    const manifest = packageManifestSchema.parse(JSON.parse(files.get('manifest.json')!.toString('utf8')));
+    const layout = manifest.controller.binary;
+    const bin = files.get(layout.file)!;
+    expect(bin.length).toBe(layout.frames * layout.bytesPerFrame);
+    const csvRows = files.get('controller/positions_mm.csv')!.toString('utf8').trim().split('\n').slice(1);
+    const legRows = legsCsv.toString('utf8').trim().split('\n').slice(1);
+    expect(csvRows.length).toBe(layout.frames);
+    const minM = demoHexapodBase.leg.min_m;
+    for (let k = 0; k < layout.frames; k++) {
+      const csv = csvRows[k]!.split(',').map(Number);
+      const legs = legRows[k]!.split(',').map(Number);
+      for (let j = 0; j < layout.valuesPerFrame; j++) {
+        const f = bin.readFloatLE(k * layout.bytesPerFrame + j * 4);
+        // float32 has a 24-bit significand (IEEE 754): relative error under 2^-24; CSV has 3 decimals.
+        expect(Math.abs(f - csv[1 + j]!)).toBeLessThan(Math.abs(csv[1 + j]!) * 2 ** -23 + 0.0005);
+        expect(Math.abs(f - (legs[1 + j]! - minM) * 1000)).toBeLessThan(Math.abs(f) * 2 ** -23 + 1e-9);
+      }
+    }
+  });
+
+  it('escapes a track title with a script tag in report.html and says plainly when no park sequence is given', async () => {
+    expect(escapeHtml('<a href="x">&\'')).toBe('&#60;a href=&#34;x&#34;&#62;&#38;&#39;');
+    const files = await unzip((await buildReleasePackage(input('<script>alert(1)</script>'))).zip);
+    const html = files.get('report.html')!.toString('utf8');
+    expect(html).not.toContain('<script>');
+    expect(html).toContain('&#60;script&#62;alert(1)&#60;/script&#62;');
+    expect(html).toMatch(/No park or emergency-stop sequence is given/);
+    expect(html).toMatch(/ASTM F2291/);
+    expect(html).not.toMatch(/<link|src=|@import/);
+  });
+});
