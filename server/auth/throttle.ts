@@ -15,6 +15,8 @@ import type { Env } from '../env';
 export const normaliseAddress = (v: unknown): string => (typeof v === 'string' ? v.trim().toLowerCase() : '');
 
 export interface PasswordThrottle {
+  /** Middleware chain for password reset requests (the address in the body's `email`). */
+  resetGuard: RequestHandler[];
   /** Middleware chain for a route whose account address is found by `address(req)`. */
   guard: (address: (req: Request) => Promise<string> | string) => RequestHandler[];
 }
@@ -25,9 +27,7 @@ export function createPasswordThrottle(env: Env): PasswordThrottle {
   const refuse =
     (what: string): RequestHandler =>
     (_req, res) => {
-      res
-        .status(429)
-        .json({ error: `Too many refused sign-in attempts ${what}. Wait a minute and try again.` });
+      res.status(429).json({ error: `Too many ${what}. Wait a minute and try again.` });
     };
   const common = {
     windowMs,
@@ -39,13 +39,13 @@ export function createPasswordThrottle(env: Env): PasswordThrottle {
     ...common,
     limit: env.LOGIN_RATE_LIMIT_PER_CLIENT,
     keyGenerator: (req) => `client|${ipKeyGenerator(req.ip ?? '')}`,
-    handler: refuse('from this address'),
+    handler: refuse('refused sign-in attempts from this address'),
   });
   const overall = rateLimit({
     ...common,
     limit: env.LOGIN_RATE_LIMIT_GLOBAL,
     keyGenerator: () => 'overall',
-    handler: refuse('on this server'),
+    handler: refuse('refused sign-in attempts on this server'),
   });
   // One store for the per-account counts, whichever route checks the password.
   const accountKeys = new WeakMap<Request, string>();
@@ -53,9 +53,33 @@ export function createPasswordThrottle(env: Env): PasswordThrottle {
     ...common,
     limit: env.LOGIN_RATE_LIMIT,
     keyGenerator: (req) => `account|${accountKeys.get(req) ?? ''}`,
-    handler: refuse('for this account'),
+    handler: refuse('refused sign-in attempts for this account'),
+  });
+  // Reset requests: every request counts (each may send a mail), per address and per client.
+  const resetKeys = new WeakMap<Request, string>();
+  const resetPerAccount = rateLimit({
+    ...common,
+    skipSuccessfulRequests: false,
+    limit: env.LOGIN_RATE_LIMIT,
+    keyGenerator: (req) => `reset|${resetKeys.get(req) ?? ''}`,
+    handler: refuse('password reset requests for this address'),
+  });
+  const resetPerClient = rateLimit({
+    ...common,
+    skipSuccessfulRequests: false,
+    limit: env.LOGIN_RATE_LIMIT_PER_CLIENT,
+    keyGenerator: (req) => `reset-client|${ipKeyGenerator(req.ip ?? '')}`,
+    handler: refuse('password reset requests from this address'),
   });
   return {
+    resetGuard: [
+      (req, _res, next) => {
+        resetKeys.set(req, normaliseAddress((req.body as { email?: unknown } | undefined)?.email));
+        next();
+      },
+      resetPerClient,
+      resetPerAccount,
+    ],
     guard: (address) => [
       async (req, _res, next) => {
         try {

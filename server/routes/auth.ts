@@ -82,21 +82,19 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic, throttl
     res.json(await loadMe(deps.db, req.user));
   });
 
-  r.post('/password-reset', async (req, res) => {
+  r.post('/password-reset', ...throttle.resetGuard, async (req, res) => {
     const { email } = parseBody(resetRequestBody, req.body, 'The reset form');
-    const [u] = await deps.db.select().from(users).where(eq(users.email, email)).limit(1);
-    if (u) {
+    // The same answer, at once, whether or not the address is known: the look-up and the mail
+    // happen after the answer, so neither its time nor a mail failure tells anything.
+    res.status(202).json({ sent: true });
+    try {
+      const [u] = await deps.db.select().from(users).where(eq(users.email, email)).limit(1);
+      if (!u) return;
       const token = newToken();
       await deps.db.insert(passwordResets).values({
         userId: u.id,
         tokenHash: hashToken(token),
         expiresAt: new Date(now().getTime() + RESET_TTL_MS),
-      });
-      const link = `${publicUrl(deps.env)}/reset-password?token=${encodeURIComponent(token)}`;
-      await deps.mailer.send({
-        to: u.email,
-        subject: 'Legwork: choose a new password',
-        text: `Hello ${u.name},\n\nSomeone asked to reset your Legwork password. To choose a new one, open this link within an hour:\n\n${link}\n\nIf it was not you, ignore this message; your password stays as it is.\n`,
       });
       await recordAudit(deps.db, {
         studioId: null,
@@ -105,29 +103,41 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic, throttl
         subjectType: 'user',
         subjectId: u.id,
       });
+      const link = `${publicUrl(deps.env)}/reset-password?token=${encodeURIComponent(token)}`;
+      await deps.mailer.send({
+        to: u.email,
+        subject: 'Legwork: choose a new password',
+        text: `Hello ${u.name},\n\nSomeone asked to reset your Legwork password. To choose a new one, open this link within an hour:\n\n${link}\n\nIf it was not you, ignore this message; your password stays as it is.\n`,
+      });
+    } catch (e) {
+      deps.log(`password reset mail not sent: ${e instanceof Error ? e.message : String(e)}`);
     }
-    // The same answer whether or not the address is known.
-    res.status(202).json({ sent: true });
   });
 
   r.post('/password-reset/confirm', async (req, res) => {
     const body = parseBody(resetConfirmBody, req.body, 'The new password form');
-    const [reset] = await deps.db
-      .select()
-      .from(passwordResets)
-      .where(
-        and(
-          eq(passwordResets.tokenHash, hashToken(body.token)),
-          isNull(passwordResets.usedAt),
-          gt(passwordResets.expiresAt, now()),
-        ),
-      )
-      .limit(1);
-    if (!reset) throw new HttpError(400, 'This reset link is not valid any more. Ask for a new one.');
     const hash = await hashPassword(body.password);
-    await deps.db.transaction(async (tx) => {
+    const at = now();
+    const done = await deps.db.transaction(async (tx) => {
+      // Consumed atomically: of parallel confirms with one link, exactly one finds it unused.
+      const [reset] = await tx
+        .update(passwordResets)
+        .set({ usedAt: at })
+        .where(
+          and(
+            eq(passwordResets.tokenHash, hashToken(body.token)),
+            isNull(passwordResets.usedAt),
+            gt(passwordResets.expiresAt, at),
+          ),
+        )
+        .returning();
+      if (!reset) return false;
       await tx.update(users).set({ passwordHash: hash }).where(eq(users.id, reset.userId));
-      await tx.update(passwordResets).set({ usedAt: now() }).where(eq(passwordResets.id, reset.id));
+      // Every other unused link of this user stops working.
+      await tx
+        .update(passwordResets)
+        .set({ usedAt: at })
+        .where(and(eq(passwordResets.userId, reset.userId), isNull(passwordResets.usedAt)));
       // Sign the user out everywhere: a reset often follows a lost device.
       await tx.execute(sql`delete from "session" where sess->'passport'->>'user' = ${reset.userId}`);
       await recordAudit(tx, {
@@ -137,7 +147,9 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic, throttl
         subjectType: 'user',
         subjectId: reset.userId,
       });
+      return true;
     });
+    if (!done) throw new HttpError(400, 'This reset link is not valid any more. Ask for a new one.');
     res.status(204).end();
   });
 

@@ -123,3 +123,56 @@ describe('behind a configured proxy', () => {
     expect(ceiling.body.error).toMatch(/on this server/);
   });
 });
+
+describe('password reset links', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await startTestApp({ env: { LOGIN_RATE_LIMIT: '3', LOGIN_RATE_LIMIT_PER_CLIENT: '100' } });
+  });
+  afterAll(async () => t.close());
+
+  const tokenOf = (mail: { text: string }) => firstLink(mail.text).searchParams.get('token')!;
+
+  it('one link works once under parallel confirms, and a reset voids the older links', async () => {
+    // An address of this run alone, so no earlier mail can match.
+    const email = `reset.${Date.now()}@elsewhere.example`;
+    await t.tdb.db
+      .insert(users)
+      .values({ email, name: 'Rue Hollis', passwordHash: await hashPassword(DEMO_PASSWORD) });
+    const c = new Client(t.app);
+    await c.refreshCsrf();
+    expect((await c.send('post', '/api/auth/password-reset', { email })).status).toBe(202);
+    const older = tokenOf(await waitForMail(email, /new password/));
+    expect((await c.send('post', '/api/auth/password-reset', { email })).status).toBe(202);
+    let newer = older;
+    const deadline = Date.now() + 15_000;
+    while (newer === older && Date.now() < deadline)
+      newer = tokenOf(await waitForMail(email, /new password/));
+    expect(newer).not.toBe(older);
+    const confirms = await Promise.all(
+      [0, 1, 2, 3].map(() =>
+        c.send('post', '/api/auth/password-reset/confirm', { token: newer, password: 'a-fresh-password-1' }),
+      ),
+    );
+    expect(confirms.map((r) => r.status).sort()).toEqual([204, 400, 400, 400]);
+    const old = await c.send('post', '/api/auth/password-reset/confirm', {
+      token: older,
+      password: 'another-password-2',
+    });
+    expect(old.status).toBe(400);
+    expect(old.body.error).toMatch(/not valid any more/);
+    expect((await new Client(t.app).signIn(email, 'a-fresh-password-1')).status).toBe(200);
+  });
+
+  it('limits reset requests per address, answering unknown addresses the same', async () => {
+    const c = new Client(t.app);
+    await c.refreshCsrf();
+    const statuses = [];
+    for (const email of ['  Pia.Producer@lanternfish.example', PIA, PIA, PIA])
+      statuses.push((await c.send('post', '/api/auth/password-reset', { email })).status);
+    expect(statuses).toEqual([202, 202, 202, 429]);
+    const unknown = await c.send('post', '/api/auth/password-reset', { email: 'ghost@lanternfish.example' });
+    expect(unknown.status).toBe(202);
+    expect(unknown.body).toEqual({ sent: true });
+  });
+});
