@@ -93,6 +93,21 @@ describe('legwork process --touchup', () => {
     expect(span(trimmed.rows)).toBeCloseTo(6, 1);
   });
 
+  it('fades of 1 s bring a take that starts and ends off neutral to neutral at its first and last frames', async () => {
+    // Raised-cosine fade to rest (pose rest = neutral, offset 0): weight 0 at the ends by definition.
+    const offPath = file('off.csv', poseTrackCsv(makePoseTrackFrom(100, 8, () => [0, 0.02, 0, 0, 0, 0])));
+    const out = join(dir, 'faded');
+    const tu = file('faded.json', JSON.stringify({ fadeIn_s: 1, fadeOut_s: 1 }));
+    const r = await run('process', '--base', basePath, '--in', offPath, '--out', out, '--touchup', tu);
+    expect(r.err).toBe('');
+    const pose = readPose(out);
+    const y = pose.names.findIndex((n) => n.startsWith('y'));
+    expect(Math.abs((pose.rows[0] as number[])[y] as number)).toBeLessThan(1e-4);
+    expect(Math.abs((pose.rows.at(-1) as number[])[y] as number)).toBeLessThan(1e-4);
+    const mid = pose.rows[pose.rows.length >> 1] as number[];
+    expect(mid[y]).toBeCloseTo(0.02, 4);
+  });
+
   it('exits 2 for a bad touch-up file, naming the field', async () => {
     const bad = file('bad.json', JSON.stringify({ gain: { z: -1 } }));
     const r = await run(
