@@ -80,7 +80,7 @@ describe('studio shell', () => {
       within(nav)
         .getAllByRole('link')
         .map((link) => link.textContent),
-    ).toEqual(['Home', 'Venues', 'Tracks', 'Releases', 'Profiles']);
+    ).toEqual(['Home', 'Venues', 'Tracks', 'Profiles']);
   });
 
   it('sends a signed-out visitor to sign-in and remembers where they were going', async () => {
