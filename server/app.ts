@@ -6,7 +6,7 @@ import { join, resolve } from 'node:path';
 import { ZodError } from 'zod';
 import type { AppDeps } from './deps';
 import { HttpError } from './lib/http-error';
-import { createPassport, requireCsrf, sessionMiddleware } from './auth/session';
+import { chooseCredentials, createPassport, requireCsrf, sessionMiddleware } from './auth/session';
 import { createPasswordThrottle, trustProxySetting } from './auth/throttle';
 import { healthRouter } from './routes/health';
 import { authRouter } from './routes/auth';
@@ -34,6 +34,7 @@ export function createApp(deps: AppDeps): LegworkApp {
   api.use(sessions.handler);
   api.use(pass.initialize());
   api.use(pass.session());
+  api.use(chooseCredentials);
   api.use(requireCsrf);
   api.use('/auth', authRouter(deps, pass, throttle));
   api.use('/invitations', invitationsRouter(deps, throttle));

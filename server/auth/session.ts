@@ -76,12 +76,38 @@ export function csrfToken(req: Parameters<RequestHandler>[0]): string {
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 /**
+ * The API token of an `Authorization: Bearer <token>` header: null when there is no such header,
+ * 'malformed' when the header names the Bearer scheme (any case) without exactly one token after it.
+ */
+export function bearerToken(header: string | undefined): string | null | 'malformed' {
+  if (header === undefined) return null;
+  if (!/^bearer(\s|$)/i.test(header)) return null;
+  const m = /^Bearer +([A-Za-z0-9._~+/=-]+)$/.exec(header);
+  return m ? m[1]! : 'malformed';
+}
+
+/**
+ * Chooses how the request is authenticated, once: a well-formed bearer token is the API token path
+ * and the session cookie is then ignored for the whole request (never a fallback); a malformed
+ * Bearer header is refused (401) rather than read as a cookie request.
+ */
+export const chooseCredentials: RequestHandler = (req, _res, next) => {
+  const token = bearerToken(req.headers.authorization);
+  if (token === 'malformed')
+    return next(new HttpError(401, 'The Authorization header is not "Bearer <token>" with one API token.'));
+  if (token !== null) req.user = undefined;
+  next();
+};
+
+/**
  * Synchronizer-token CSRF check: every unsafe request that rides on the session cookie must carry
- * the session's token in `x-csrf-token`. Requests with a bearer API token carry no cookie and skip it.
+ * the session's token in `x-csrf-token`. Requests with a well-formed bearer API token use no cookie
+ * (chooseCredentials drops the session's user) and skip it.
  */
 export const requireCsrf: RequestHandler = (req, _res, next) => {
   if (SAFE.has(req.method)) return next();
-  if (req.headers.authorization?.startsWith('Bearer ')) return next();
+  const token = bearerToken(req.headers.authorization);
+  if (token !== null && token !== 'malformed') return next();
   const sent = req.get('x-csrf-token') ?? '';
   const expected = req.session?.csrfToken ?? '';
   const a = Buffer.from(sent);

@@ -8,6 +8,7 @@ import { apiTokens, memberships, studios } from '../db/schema';
 import { HttpError, notFound } from '../lib/http-error';
 import { TOKEN_ROLE } from '../auth/permissions';
 import { hashToken } from '../lib/tokens';
+import { bearerToken } from '../auth/session';
 import { auditCsvRouter, auditRouter } from './audit';
 import { homesRouter } from './homes';
 import { membersRouter } from './members';
@@ -27,8 +28,8 @@ export function studioRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
   r.use(async (req, _res, next) => {
     const studioId = String((req.params as Record<string, string>).studioId ?? '');
-    const bearer = req.headers.authorization?.match(/^Bearer\s+(\S+)$/)?.[1];
-    if (bearer) {
+    const bearer = bearerToken(req.headers.authorization);
+    if (bearer !== null && bearer !== 'malformed') {
       // A pipeline's API token: it belongs to one studio; any other studio is not found.
       const [tok] = await deps.db
         .select({ id: apiTokens.id, studioId: apiTokens.studioId })
