@@ -1,33 +1,17 @@
 // `legwork check` and `legwork process` end to end on files: exit codes 0 / 2 / 3 / 4 (docs/motion-conventions.md
 // section 7), error positions, and the package folder with its SHA-256 manifest.
 import { createHash } from 'node:crypto';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { afterAll, describe, expect, it } from 'vitest';
-import { rmSync } from 'node:fs';
-import { main } from '../../../server/cli/legwork';
+import { describe, expect, it } from 'vitest';
+import { cliSandbox } from '../../factories/cli';
 import { checkResultSchema } from '../../../shared/schemas/findings';
 import { demoHexapodInput } from '../../../shared/schemas/motion-base';
 import { makeCsv } from '../../factories/motion';
 import { makePoseTrackFrom, poseTrackCsv, smoothStep } from './track-builders';
 
-const dir = mkdtempSync(join(tmpdir(), 'legwork-budget-'));
-afterAll(() => rmSync(dir, { recursive: true, force: true }));
-
-const file = (name: string, text: string): string => {
-  const p = join(dir, name);
-  writeFileSync(p, text);
-  return p;
-};
-
-async function run(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const code = await main(argv, { stdout: (t) => void (out += t), stderr: (t) => void (err += t) });
-  return { code, out, err };
-}
+const { dir, file, run } = cliSandbox('legwork-budget-');
 
 const basePath = file('base.json', JSON.stringify(demoHexapodInput, null, 2));
 const budgetText = readFileSync(new URL('../../fixtures/budget-demo.json', import.meta.url), 'utf8');

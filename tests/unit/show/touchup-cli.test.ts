@@ -2,29 +2,14 @@
 // touch-up file exits 2 with a message naming the field. The expected effects are the definitions of the
 // operations in shared/schemas/touchup.ts: a gain multiplies the departure from rest, a trim keeps only
 // the span between trimIn_s and trimOut_s.
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it } from 'vitest';
-import { main } from '../../../server/cli/legwork';
+import { describe, expect, it } from 'vitest';
+import { cliSandbox } from '../../factories/cli';
 import { demoHexapodInput } from '../../../shared/schemas/motion-base';
 import { makePoseTrackFrom, poseTrackCsv, smoothStep } from '../budget/track-builders';
 
-const dir = mkdtempSync(join(tmpdir(), 'legwork-touchup-'));
-afterAll(() => rmSync(dir, { recursive: true, force: true }));
-
-const file = (name: string, text: string): string => {
-  const p = join(dir, name);
-  writeFileSync(p, text);
-  return p;
-};
-
-async function run(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const code = await main(argv, { stdout: (t) => void (out += t), stderr: (t) => void (err += t) });
-  return { code, out, err };
-}
+const { dir, file, run } = cliSandbox('legwork-touchup-');
 
 function readPose(folder: string): { names: string[]; rows: number[][] } {
   const lines = readFileSync(join(folder, 'pose.csv'), 'utf8').trim().split('\n');
