@@ -2,7 +2,7 @@
 import PgBoss from 'pg-boss';
 
 /** Queue names used between the server and the worker. */
-export const QUEUES = { cueRun: 'cue-run' } as const;
+export const QUEUES = { cueRun: 'cue-run', buildRelease: 'build-release' } as const;
 
 /** Starts a pg-boss instance and makes sure every queue exists (pg-boss 10 drops sends to missing queues). */
 export async function startQueue(databaseUrl: string, opts: { schema?: string } = {}): Promise<PgBoss> {

@@ -7,6 +7,7 @@
 // - A run with any hard finding cannot be cleared by anyone: it must be cued again (409).
 // - Separation of duties: a reviewer cannot clear a run they asked for or whose take they uploaded (403).
 // - A hold always needs a written reason; so does clearing a run with comfort findings (400).
+// - Only a producer releases, and only a cleared run with no release building or ready (403, 409).
 import { allows } from './permissions';
 
 export const CLEARABLE_STATES: readonly string[] = ['awaiting_review', 'held_by_budget', 'held'];
@@ -80,6 +81,30 @@ export function holdRule(run: ReviewSubject, viewer: ReviewViewer): RuleAnswer {
   if (run.activeRelease)
     return refuse(409, 'This run has a release: the producer withdraws the release instead.', true);
   return allow(true);
+}
+
+/** The run states from which a producer may release a run to its venue. */
+export const RELEASABLE_STATES: readonly string[] = ['cleared'];
+
+/**
+ * A producer releases a cleared run to its venue (the worker then builds the package). A run that is
+ * released, superseded or withdrawn is not released again: a new release comes from a new run.
+ */
+export function releaseRule(run: ReviewSubject, viewer: ReviewViewer): RuleAnswer {
+  if (!allows(viewer.roles, 'releases.create'))
+    return refuse(403, 'Releasing a run to its venue is the work of a producer.');
+  if (run.activeRelease)
+    return refuse(409, 'This run already has a release that is building or ready.');
+  if (!RELEASABLE_STATES.includes(run.state))
+    return refuse(
+      409,
+      run.state === 'released' || run.state === 'superseded' || run.state === 'withdrawn'
+        ? `This run was already released (now ${run.state}); a new release comes from a new run.`
+        : 'Only a run a safety reviewer has cleared can be released.',
+    );
+  if (run.hardFindings > 0)
+    return refuse(409, `This run has ${plural(run.hardFindings, 'hard finding')}: it cannot be released.`);
+  return allow(false);
 }
 
 function stateWhy(state: string, verb: 'cleared' | 'held'): string {

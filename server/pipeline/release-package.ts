@@ -35,8 +35,10 @@ export interface ReleasePackageInput {
   track: { id: string; title: string };
   take: { id: string; number: number; sha256: string; filename: string };
   venue: { id: string; name: string; timeZone: string };
-  motionBase: VersionRef & { base: MotionBase };
-  cueing: VersionRef;
+  /** The geometry the run was computed with, its name and the SHA-256 of its JSON. */
+  motionBase: { id: string; name: string; sha256: string; base: MotionBase };
+  /** Null for a pose or legs take (not cued). */
+  cueing: VersionRef | null;
   budget: VersionRef;
   softwareVersion: string;
   /** The take's film sync settings, when it has them. */
@@ -247,8 +249,8 @@ svg text{font-size:10px;fill:#333}.grid{stroke:#ccc}.leg{fill:none;stroke-width:
 <h2>Release</h2>
 <table><tr><th>Released by</th><td>${e(input.release.releasedBy.name)}</td></tr><tr><th>Released at</th><td>${e(input.release.releasedAt)}</td></tr>
 <tr><th>Take</th><td>${e(input.take.filename)} (SHA-256 ${e(input.take.sha256)})</td></tr>
-<tr><th>Motion base</th><td>${e(input.motionBase.name)} v${input.motionBase.version}</td></tr>
-<tr><th>Cueing profile</th><td>${e(input.cueing.name)} v${input.cueing.version}</td></tr>
+<tr><th>Motion base</th><td>${e(input.motionBase.name)} (geometry SHA-256 ${e(input.motionBase.sha256)})</td></tr>
+<tr><th>Cueing profile</th><td>${input.cueing ? `${e(input.cueing.name)} v${input.cueing.version}` : 'none (the take is a pose or legs track)'}</td></tr>
 <tr><th>Budget</th><td>${e(input.budget.name)} v${input.budget.version}</td></tr>
 <tr><th>Software</th><td>Legwork ${e(input.softwareVersion)}</td></tr>
 <tr><th>Verdict</th><td>${s.within ? 'Within budget' : 'Over budget'}, ${s.samples} samples at ${s.rate_hz} Hz, ${s.duration_s.toFixed(1)} s</td></tr></table>
@@ -306,7 +308,7 @@ export async function buildReleasePackage(
     track: input.track,
     take: input.take,
     venue: input.venue,
-    motionBase: { id: input.motionBase.id, name: input.motionBase.name, version: input.motionBase.version },
+    motionBase: { id: input.motionBase.id, name: input.motionBase.name, sha256: input.motionBase.sha256 },
     cueing: input.cueing,
     budget: input.budget,
     filmSync: input.filmSync ?? null,

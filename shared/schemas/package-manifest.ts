@@ -31,8 +31,10 @@ export const packageManifestSchema = z.object({
   track: z.object({ id: z.string(), title: z.string() }),
   take: z.object({ id: z.string(), number: z.number().int(), sha256: z.string(), filename: z.string() }),
   venue: z.object({ id: z.string(), name: z.string(), timeZone: z.string() }),
-  motionBase: versionRefSchema,
-  cueing: versionRefSchema,
+  /** Motion bases carry no version number: the SHA-256 of the geometry's JSON identifies the one used. */
+  motionBase: z.object({ id: z.string(), name: z.string(), sha256: z.string().regex(/^[0-9a-f]{64}$/) }),
+  /** Null for a pose or legs take, which is not cued. */
+  cueing: versionRefSchema.nullable(),
   budget: versionRefSchema,
   filmSync: z.record(z.string(), z.unknown()).nullable(),
   reviews: z.array(reviewSchema),

@@ -20,6 +20,10 @@ export const RELEASE_STATE_LABELS: Record<ReleaseState, string> = {
   withdrawn: 'Withdrawn',
 };
 
+/** The pg-boss payload that asks the worker to build a release's package. The job id is the release id. */
+export const buildReleaseJobSchema = z.object({ releaseId: z.string().uuid(), studioId: z.string().uuid() });
+export type BuildReleaseJob = z.infer<typeof buildReleaseJobSchema>;
+
 /** POST .../runs/:run/release answers 201 with this; the state moves on to ready or failed. */
 export const releaseCreatedSchema = z.object({ id: z.string().uuid(), state: releaseStateSchema });
 export type ReleaseCreated = z.infer<typeof releaseCreatedSchema>;

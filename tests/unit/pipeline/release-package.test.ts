@@ -43,7 +43,7 @@ function input(title = 'Canyon Glide'): ReleasePackageInput {
     track: { id: 't1', title },
     take: { id: 'k1', number: 2, sha256: 'a'.repeat(64), filename: 'take2.csv' },
     venue: { id: 'v1', name: 'North Hall', timeZone: 'UTC' },
-    motionBase: { id: 'm1', name: 'Base', version: 1, base },
+    motionBase: { id: 'm1', name: 'Base', sha256: 'b'.repeat(64), base },
     cueing: { id: 'c1', name: 'Soft', version: 3 },
     budget: { id: 'b1', name: 'Family', version: 4 },
     softwareVersion: '0.0.0-test',
