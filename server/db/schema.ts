@@ -441,9 +441,9 @@ export const releaseProblems = pgTable(
 );
 
 /**
- * Mail waiting to be sent. Rows are written in the same transaction as the change they tell about;
- * the server sends them at once when it can and the worker retries the rest, so no action fails
- * because mail is down.
+ * Mail waiting to be sent, one row per recipient address. Rows are written (server/notifications/
+ * outbox.ts) in the same transaction as the change they tell about; the worker sends them and retries
+ * with backoff (server/notifications/sender.ts), so no action fails because mail is down.
  */
 export const mailOutbox = pgTable(
   'mail_outbox',
@@ -454,6 +454,8 @@ export const mailOutbox = pgTable(
     toEmail: text('to_email').notNull(),
     subject: text('subject').notNull(),
     text: text('text').notNull(),
+    /** The app page the mail is about; the sender appends it to the text as a full link (PUBLIC_URL). */
+    path: text('path'),
     attempts: integer('attempts').notNull().default(0),
     lastError: text('last_error'),
     nextAttemptAt: timestamp('next_attempt_at', { withTimezone: true }).notNull().defaultNow(),
