@@ -27,7 +27,7 @@ import {
 import { trackName } from '../../shared/motion/track-names';
 
 /** Exit codes of docs/motion-conventions.md section 7 (1 is left for failures of the program itself). */
-export const EXIT = { ok: 0, internal: 1, badInput: 2, comfort: 3, hard: 4 } as const;
+export const EXIT = { ok: 0, internal: 1, badInput: 2, comfort: 3, hard: 4, mismatch: 5 } as const;
 
 /** Printed in every help text: the product supports, never replaces, engineering and sign-off. */
 export const CAUTION =

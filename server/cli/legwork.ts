@@ -10,6 +10,7 @@ import * as cue from './commands/cue';
 import * as fk from './commands/fk';
 import * as ik from './commands/ik';
 import * as processCommand from './commands/process';
+import * as verify from './commands/verify';
 import type { CliIo } from './io';
 import { CAUTION, CliInputError, EXIT, processIo } from './io';
 
@@ -27,6 +28,7 @@ export const commands: Record<string, Command> = {
   cue,
   check,
   process: processCommand,
+  verify,
 };
 
 /** The top-level help text. */
@@ -39,8 +41,8 @@ Commands:
 ${lines.join('\n')}
 
 Run \`legwork <command> --help\` for a command's options. CSV in, CSV or JSON out; errors on stderr.
-Exit codes: 0 done (and within budget), 2 bad input or usage, 3 over a comfort limit only,
-4 over a hard limit.
+Exit codes: 0 done (and within budget, or the package matches its manifest), 2 bad input or usage,
+3 over a comfort limit only, 4 over a hard limit, 5 a package file does not match its manifest.
 
 ${CAUTION}
 `;
@@ -67,7 +69,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
   } catch (e) {
     if (e instanceof CliInputError) {
       io.stderr(`legwork ${name}: ${e.message}\n`);
-      if (/^(Unknown option|Option|Unexpected argument|missing --)/.test(e.message)) {
+      if (/^(Unknown option|Option|Unexpected argument|missing (--|PACKAGE))/.test(e.message)) {
         io.stderr(`\n${command.help}`);
       }
       return EXIT.badInput;
