@@ -22,6 +22,8 @@ export const PERMISSIONS = {
   'takes.upload': ['producer', TOKEN_ROLE],
   'runs.request': ['producer', 'motion_engineer'],
   'runs.read': STUDIO_DESK,
+  // Moving a run's motion against the picture (a new run with another film offset).
+  'runs.sync': ['producer'],
   'profiles.read': STUDIO_DESK,
   'profiles.cueing.write': ['motion_engineer'],
   'profiles.budget.write': ['safety_reviewer'],

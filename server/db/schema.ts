@@ -19,6 +19,8 @@ import {
   varchar,
 } from 'drizzle-orm/pg-core';
 import type { StoredRunSummary } from '../../shared/schemas/run-outputs';
+import type { FrameRateId } from '../../shared/motion/timecode';
+import type { RunParams } from '../../shared/schemas/run-params';
 
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
 
@@ -236,6 +238,12 @@ export const takes = pgTable(
     duration_s: doublePrecision('duration_s').notNull(),
     uploadedBy: uuid('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
     uploadedVia: text('uploaded_via').$type<'browser' | 'token'>().notNull(),
+    /** Film sync (shared/schemas/film-sync.ts): the picture rate; null when the take has none. */
+    frameRate: text('frame_rate').$type<FrameRateId>(),
+    /** The picture's first frame; set whenever frame_rate is. */
+    startTimecode: text('start_timecode'),
+    /** The motion against the picture (frames; positive plays the motion later); set whenever frame_rate is. */
+    filmOffsetFrames: integer('film_offset_frames'),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex('takes_number_key').on(t.trackId, t.number), index('takes_studio_idx').on(t.studioId)],
@@ -256,7 +264,7 @@ export const RUN_STATES = [
 ] as const;
 export type RunState = (typeof RUN_STATES)[number];
 
-/** take x venue x cueing version x budget version; the worker's result lives in storage, its summary here. */
+/** take x venue x cueing version x budget version x run parameters; the worker's result lives in storage, its summary here. */
 export const cueRuns = pgTable(
   'cue_runs',
   {
@@ -275,6 +283,11 @@ export const cueRuns = pgTable(
     budgetVersionId: uuid('budget_version_id')
       .notNull()
       .references(() => profileVersions.id),
+    /** The run's own parameters (film offset, touch-up; shared/schemas/run-params.ts), part of its identity. */
+    params: jsonb('params')
+      .$type<RunParams>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     state: text('state').$type<RunState>().notNull().default('queued'),
     progress: integer('progress').notNull().default(0),
     attempts: integer('attempts').notNull().default(0),
@@ -293,9 +306,10 @@ export const cueRuns = pgTable(
     jobId: uuid('job_id'),
   },
   (t) => [
-    // A pose or legs take has no cueing version: NULLs must count as equal here.
+    // A pose or legs take has no cueing version: NULLs must count as equal here. The run's own
+    // parameters count too (jsonb equality ignores key order), so a nudge or a touch-up is a new run.
     unique('cue_runs_inputs_key')
-      .on(t.takeId, t.venueId, t.cueingVersionId, t.budgetVersionId)
+      .on(t.takeId, t.venueId, t.cueingVersionId, t.budgetVersionId, t.params)
       .nullsNotDistinct(),
     index('cue_runs_studio_idx').on(t.studioId, t.state),
     index('cue_runs_track_idx').on(t.trackId),

@@ -8,7 +8,8 @@ import { isUuid } from '../lib/validate';
 import { notFound } from '../lib/http-error';
 import type { RunDetail } from '../../shared/schemas/pipeline';
 import { SERIES_FILE } from '../../shared/schemas/run-outputs';
-import { toRunSummary, toTake, versionRef } from './views';
+import { runFilmSync } from '../../shared/schemas/run-params';
+import { takeFilmSync, toRunSummary, toTake, versionRef } from './views';
 
 export interface LoadedRun {
   run: CueRunRow;
@@ -59,5 +60,7 @@ export async function runDetail(db: Db | Tx, studioId: string, loaded: LoadedRun
       : null,
     budgetIsDemo: s ? s.budgetIsDemo : null,
     files: s?.files.filter((f) => f.name !== SERIES_FILE.name) ?? [],
+    params: run.params,
+    filmSync: runFilmSync(takeFilmSync(take), run.params),
   };
 }

@@ -5,7 +5,18 @@ import { cueRuns, profileVersions, profiles, takes, venues } from '../db/schema'
 import type { CueRunRow, TakeRow } from '../db/schema';
 import { inStudio } from '../db/scope';
 import type { RunSummary, Take } from '../../shared/schemas/pipeline';
+import type { FilmSync } from '../../shared/schemas/film-sync';
 import type { StoredRunSummary } from '../../shared/schemas/run-outputs';
+
+/** The take's film sync from its columns, or null when it has none. */
+export function takeFilmSync(t: TakeRow): FilmSync | null {
+  if (!t.frameRate) return null;
+  return {
+    frameRate: t.frameRate,
+    startTimecode: t.startTimecode ?? '00:00:00:00',
+    offset_frames: t.filmOffsetFrames ?? 0,
+  };
+}
 
 export const toTake = (t: TakeRow): Take => ({
   id: t.id,
@@ -19,6 +30,7 @@ export const toTake = (t: TakeRow): Take => ({
   samples: t.samples,
   duration_s: t.duration_s,
   uploadedVia: t.uploadedVia,
+  filmSync: takeFilmSync(t),
   createdAt: t.createdAt.toISOString(),
 });
 

@@ -5,9 +5,14 @@ import type { Readable } from 'node:stream';
 import { GetObjectCommand } from '@aws-sdk/client-s3';
 import type { AppDeps } from '../deps';
 import { requirePermission } from '../auth/require-permission';
-import { notFound } from '../lib/http-error';
+import { HttpError, notFound } from '../lib/http-error';
+import { parseBody } from '../lib/validate';
+import { actorOf } from '../lib/actor';
 import { loadRun, runDetail } from '../pipeline/run-detail';
+import { queueRunWithFilmOffset } from '../pipeline/queue-runs';
+import { toRunSummary } from '../pipeline/views';
 import { runFileContentType } from '../../shared/schemas/run-outputs';
+import { filmOffsetBody } from '../../shared/schemas/run-params';
 
 export function runsRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
@@ -18,6 +23,33 @@ export function runsRouter(deps: AppDeps): Router {
     const studioId = req.member!.studioId;
     const out = await runDetail(deps.db, studioId, await load(studioId, String(req.params.runId)));
     res.json(out);
+  });
+
+  // A producer nudges the motion against the picture: a new run (a new version) with the new film
+  // offset and every other input of this run; this run is never rewritten. The same offset again
+  // returns the run that has it (200), a new one is 201.
+  r.post('/:runId/film-offset', requirePermission('runs.sync'), async (req, res) => {
+    const studioId = req.member!.studioId;
+    const loaded = await load(studioId, String(req.params.runId));
+    const body = parseBody(filmOffsetBody, req.body, 'The film offset');
+    if (!loaded.take.frameRate) {
+      throw new HttpError(
+        409,
+        `Take ${loaded.take.number} has no film sync: its frame rate and start timecode are set when it is uploaded.`,
+      );
+    }
+    if (!deps.boss) throw new HttpError(503, 'The job queue is not running; try again shortly.');
+    const made = await queueRunWithFilmOffset(deps.pool, deps.boss, {
+      studioId,
+      run: loaded.run,
+      take: loaded.take,
+      venueName: loaded.venueName,
+      offset_frames: body.offset_frames,
+      actor: actorOf(req),
+      now: (deps.now ?? (() => new Date()))(),
+      retry: { limit: deps.env.CUE_RUN_RETRY_LIMIT, delay_s: deps.env.CUE_RUN_RETRY_DELAY_S },
+    });
+    res.status(made.created ? 201 : 200).json(toRunSummary(made.run, loaded.take.number, loaded.venueName));
   });
 
   const streamArtifact = async (

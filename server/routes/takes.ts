@@ -30,6 +30,7 @@ export function takesRouter(deps: AppDeps): Router {
       studioId,
       take,
       venueIds: [...new Set(body.venueIds)],
+      ...(body.touchup ? { touchup: body.touchup } : {}),
       actor: actorOf(req),
       now: (deps.now ?? (() => new Date()))(),
       retry: { limit: deps.env.CUE_RUN_RETRY_LIMIT, delay_s: deps.env.CUE_RUN_RETRY_DELAY_S },

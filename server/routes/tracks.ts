@@ -157,7 +157,8 @@ export function tracksRouter(deps: AppDeps): Router {
   r.post('/:trackId/takes', requirePermission('takes.upload'), async (req, res) => {
     const studioId = req.member!.studioId;
     const trackId = String(req.params.trackId);
-    const { fileName } = parseBody(uploadQuery, req.query, 'The upload');
+    // Film sync is checked before a byte of the file is read, so a bad field stores nothing.
+    const { fileName, filmSync } = parseBody(uploadQuery, req.query, 'The upload');
     if (!isUuid(trackId)) throw notFound('No such track.');
     const [t] = await deps.db
       .select()
@@ -206,6 +207,9 @@ export function tracksRouter(deps: AppDeps): Router {
           duration_s,
           uploadedBy: req.user?.id ?? null,
           uploadedVia: req.member!.tokenId ? 'token' : 'browser',
+          frameRate: filmSync?.frameRate ?? null,
+          startTimecode: filmSync?.startTimecode ?? null,
+          filmOffsetFrames: filmSync?.offset_frames ?? null,
         })
         .returning();
       await tx.update(tracks).set({ updatedAt: now() }).where(eq(tracks.id, t.id));
@@ -221,6 +225,7 @@ export function tracksRouter(deps: AppDeps): Router {
           sha256: got.sha256,
           sizeBytes: got.sizeBytes,
           kind: got.track.kind,
+          filmSync,
         },
       });
       return inserted!;

@@ -14,6 +14,27 @@ import { ANTI_ALIAS_CUTOFF } from './band-limit';
 import { REPORT_CAUTION, buildReport } from './report';
 import { buildRunSeries } from './run-series';
 import type { Track } from './track-reader';
+import type { FilmSync } from '../schemas/film-sync';
+import { FRAME_RATES } from './timecode';
+
+/**
+ * The film sync as the manifests carry it: the rate's id, its exact frames per second (num/den), the
+ * picture's first timecode and the motion's offset against the picture in frames and in seconds.
+ */
+export function filmSyncManifest(f: FilmSync) {
+  const rate = FRAME_RATES[f.frameRate];
+  return {
+    frameRate: f.frameRate,
+    frameRateLabel: rate.label,
+    frameRate_num: rate.num,
+    frameRate_den: rate.den,
+    dropFrame: rate.dropFrame,
+    startTimecode: f.startTimecode,
+    offset_frames: f.offset_frames,
+    offset_s: (f.offset_frames * rate.den) / rate.num,
+    offsetSense: 'positive: the motion plays later than the picture',
+  };
+}
 
 /** CSV text of the pose offsets (docs/motion-conventions.md section 3 pose columns, SI units). */
 export function poseCsv(r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind'>): string {
@@ -75,6 +96,8 @@ export interface PackageSource {
   /** The touch-up file (`legwork process --touchup`); absent when none or when it came with the run. */
   touchup?: SourceFile;
   softwareVersion: string;
+  /** The picture the run plays against (the take's film sync with the run's offset); null or absent: none. */
+  filmSync?: FilmSync | null;
   /** Set by the worker: which run, take and venue the package belongs to. */
   run?: { id: string; take: { id: string; number: number }; venue: { id: string; name: string } };
 }
@@ -169,6 +192,7 @@ export function buildRunOutputs(
       : null,
     budget: { ...(source.budget ?? {}), demo: result.budgetIsDemo, parameters: result.budget },
     touchup: result.touchup ? { ...(source.touchup ?? {}), parameters: result.touchup } : null,
+    filmSync: source.filmSync ? filmSyncManifest(source.filmSync) : null,
     notes: result.notes,
     ...(source.run ? { run: source.run } : {}),
   };

@@ -11,6 +11,14 @@ import { resampleLinear } from './resample';
 import type { Track } from './track-reader';
 import { G0_MPS2 } from './units';
 
+/** The axes a touch-up may name for a take of this kind and layout (none for leg lengths). */
+export function touchupAxesOf(kind: Track['kind'], layout: Track['layout']): TouchupAxis[] {
+  if (kind === 'vehicle') return ['fx', 'fy', 'fz', 'wx', 'wy', 'wz'];
+  if (kind === 'pose')
+    return layout === 'planar3' ? ['x', 'y', 'yaw'] : ['x', 'y', 'z', 'roll', 'pitch', 'yaw'];
+  return [];
+}
+
 /** A touch-up that cannot apply to this track (names the setting and why). */
 export class TouchupError extends Error {
   override name = 'TouchupError';

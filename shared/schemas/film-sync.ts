@@ -11,7 +11,12 @@ export const filmSyncSchema = z
     frameRate: frameRateIdSchema,
     startTimecode: z.string().default('00:00:00:00'),
     /** Motion against picture, in frames; positive plays the motion later. */
-    offset_frames: z.number().int().min(-100_000).max(100_000).default(0),
+    offset_frames: z
+      .number({ error: 'must be a whole number of frames' })
+      .int('must be a whole number of frames')
+      .min(-100_000)
+      .max(100_000)
+      .default(0),
   })
   .superRefine((v, ctx) => {
     try {

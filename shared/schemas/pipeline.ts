@@ -1,6 +1,10 @@
 // API shapes of the pipeline: tracks, takes, cue runs, profiles, venue settings and API tokens.
 import { z } from 'zod';
 import { checkResultSchema } from './findings';
+import { filmSyncSchema } from './film-sync';
+import type { FilmSync } from './film-sync';
+import { runParamsSchema } from './run-params';
+import { touchupSchema } from './touchup';
 
 export const TAKE_KINDS = ['vehicle', 'pose', 'legs'] as const;
 
@@ -34,18 +38,57 @@ export const tracksQuery = z.object({
   q: z.string().trim().max(200).optional(),
 });
 
-export const uploadQuery = z.object({
+const uploadQueryFields = z.object({
   fileName: z
     .string()
     .trim()
     .min(1, 'required')
     .max(200)
     .regex(/^[^/\\]+\.csv(\.gz)?$/i, 'must be a .csv or .csv.gz file name'),
+  // Film sync, optional: the query's text, checked with filmSyncSchema below.
+  frameRate: z.string().optional(),
+  startTimecode: z.string().optional(),
+  offset_frames: z.string().optional(),
+});
+export type UploadQuery = z.input<typeof uploadQueryFields>;
+
+const given = (v: string | undefined): v is string => v !== undefined && v.trim() !== '';
+
+/**
+ * The upload's query: the file name and the take's film sync (null when none of its fields is given;
+ * a frame rate is needed once a start timecode or an offset is). Each issue names its query field.
+ */
+export const uploadQuery = uploadQueryFields.transform((q, ctx) => {
+  const out = { fileName: q.fileName, filmSync: null as FilmSync | null };
+  if (!given(q.frameRate)) {
+    for (const key of ['startTimecode', 'offset_frames'] as const) {
+      if (given(q[key])) {
+        ctx.addIssue({ code: 'custom', path: ['frameRate'], message: `required when ${key} is given` });
+        return z.NEVER;
+      }
+    }
+    return out;
+  }
+  const r = filmSyncSchema.safeParse({
+    frameRate: q.frameRate,
+    ...(given(q.startTimecode) ? { startTimecode: q.startTimecode.trim() } : {}),
+    ...(given(q.offset_frames) ? { offset_frames: Number(q.offset_frames) } : {}),
+  });
+  if (!r.success) {
+    for (const issue of r.error.issues) {
+      ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message });
+    }
+    return z.NEVER;
+  }
+  return { ...out, filmSync: r.data };
 });
 
 export const requestRunsBody = z.object({
   venueIds: z.array(z.string().uuid()).min(1, 'choose at least one venue'),
+  /** Applied to the take before cueing, for these runs only (recorded in each run's parameters). */
+  touchup: touchupSchema.optional(),
 });
+export type RequestRunsBody = z.input<typeof requestRunsBody>;
 
 export const takeSchema = z.object({
   id: z.string().uuid(),
@@ -59,6 +102,8 @@ export const takeSchema = z.object({
   samples: z.number().int(),
   duration_s: z.number(),
   uploadedVia: z.enum(['browser', 'token']),
+  /** The picture this take plays against, or null when it was uploaded without film sync. */
+  filmSync: filmSyncSchema.nullable(),
   createdAt: z.string(),
 });
 export type Take = z.infer<typeof takeSchema>;
@@ -100,6 +145,10 @@ export const runDetailSchema = runSummarySchema.extend({
   result: checkResultSchema.extend({ notes: z.array(z.string()).optional() }).nullable(),
   budgetIsDemo: z.boolean().nullable(),
   files: z.array(z.object({ name: z.string(), sha256: z.string(), size_bytes: z.number() })),
+  /** The run's own parameters: the film offset and the touch-up it was made with. */
+  params: runParamsSchema,
+  /** The film sync the run plays with (the take's, with the run's offset), or null. */
+  filmSync: filmSyncSchema.nullable(),
 });
 export type RunDetail = z.infer<typeof runDetailSchema>;
 

@@ -226,6 +226,14 @@ const ROUTES: RouteCase[] = [
     ok: 404,
   },
   {
+    name: "nudge a run's film offset",
+    method: 'post',
+    path: (i) => `/api/studios/${i.studio}/runs/00000000-0000-4000-8000-000000000000/film-offset`,
+    body: () => ({ offset_frames: 2 }),
+    allowed: ['producer'],
+    ok: 404,
+  },
+  {
     name: 'remove member',
     method: 'delete',
     path: (i) => `/api/studios/${i.studio}/members/${i.member}`,

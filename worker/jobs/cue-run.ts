@@ -32,6 +32,8 @@ import type { CueingProfile } from '../../shared/schemas/cueing-profile';
 import { cueRunJobSchema, storedRunSummarySchema } from '../../shared/schemas/run-outputs';
 import type { ManifestFile, StoredRunSummary } from '../../shared/schemas/run-outputs';
 import { softwareVersion } from '../../server/lib/version';
+import { takeFilmSync } from '../../server/pipeline/views';
+import { runFilmSync, runParamsSchema } from '../../shared/schemas/run-params';
 
 export { cueRunJobSchema };
 
@@ -153,7 +155,17 @@ function buildOutputs(run: CueRunRow, inputs: RunInputs, track: Track): RunOutpu
 
 function buildOutputsOf(run: CueRunRow, inputs: RunInputs, track: Track): RunOutputs {
   const { take, venue, base, budget, profile, cueingVersion, budgetVersion } = inputs;
-  const result = processTrack({ track, base, budget, ...(profile ? { profile } : {}) });
+  // The run's own parameters: the touch-up goes into the pipeline exactly as `legwork process
+  // --touchup` gives it; the film offset changes the sync in the manifest, not the motion.
+  const params = runParamsSchema.parse(run.params);
+  const filmSync = runFilmSync(takeFilmSync(take), params);
+  const result = processTrack({
+    track,
+    base,
+    budget,
+    ...(profile ? { profile } : {}),
+    ...(params.touchup ? { touchup: params.touchup } : {}),
+  });
   const hashJson = (v: unknown) => sha256Hex(JSON.stringify(v));
   return buildRunOutputs(result, track, base, {
     input: { file: take.fileName, sha256: take.sha256, size_bytes: take.sizeBytes },
@@ -173,6 +185,7 @@ function buildOutputsOf(run: CueRunRow, inputs: RunInputs, track: Track): RunOut
       sha256: hashJson(budgetVersion.params),
     },
     softwareVersion: softwareVersion(),
+    filmSync,
     run: {
       id: run.id,
       take: { id: take.id, number: take.number },

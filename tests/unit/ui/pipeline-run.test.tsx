@@ -3,7 +3,7 @@
 // section 7) and GET /runs/:id/series. uPlot draws on a canvas, which jsdom lacks: it is replaced by a
 // recorder here, and the drawing itself is checked in the browser test.
 import '@testing-library/jest-dom/vitest';
-import { cleanup, screen, waitFor, within } from '@testing-library/react';
+import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { unit } from 'mathjs';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { CHECK_SEVERITY } from '../../../shared/schemas/findings';
@@ -14,6 +14,17 @@ import type { RunSpectra } from '../../../src/features/runs/api/get-run-spectra'
 import { spectraLines } from '../../../src/features/runs/components/run-spectra';
 import { RunView } from '../../../src/features/runs/components/run-view';
 import { fakeApi, json, renderWithApp } from './harness';
+import { MembershipProvider } from '../../../src/lib/membership';
+import type { Membership } from '../../../shared/schemas/api';
+import type { Role } from '../../../shared/schemas/roles';
+
+const member = (roles: Role[]): Membership => ({
+  studioId: 'a3c1e7b2-5d4f-4e8a-9b6c-1d2e3f4a5b6c',
+  studioName: 'Lanternfish Studios',
+  studioSlug: 'lanternfish',
+  roles,
+  venueIds: [],
+});
 
 const plots = vi.hoisted(
   () => [] as { title: string | undefined; series: number; data: ArrayLike<number>[] }[],
@@ -67,6 +78,7 @@ function makeRun(overrides: Partial<RunDetail> = {}): RunDetail {
       samples: 2001,
       duration_s: 20,
       uploadedVia: 'browser',
+      filmSync: null,
       createdAt: '2026-12-01T09:59:00.000Z',
     },
     cueingVersion: { id: '4e5f6a7b-8c9d-4e0f-9a1b-3c4d5e6f7a8b', name: 'Dome washout', version: 3 },
@@ -106,6 +118,8 @@ function makeRun(overrides: Partial<RunDetail> = {}): RunDetail {
     },
     budgetIsDemo: true,
     files: [{ name: 'findings.json', sha256: 'c'.repeat(64), size_bytes: 812 }],
+    params: {},
+    filmSync: null,
     ...overrides,
   };
 }
@@ -325,5 +339,58 @@ describe('chart data for display', () => {
       expect(deg[2]![i]).toBeCloseTo(unit(radians.max[i]!, 'rad').toNumber('deg'), 9);
     }
     expect(Array.from(mm[0]!)).toEqual(time_s);
+  });
+});
+
+describe('film sync on the run page', () => {
+  const SYNC = { frameRate: '25' as const, startTimecode: '10:00:00:00', offset_frames: 0 };
+  const synced = (offset = 0) =>
+    makeRun({
+      take: { ...makeRun().take, filmSync: SYNC },
+      params: { filmOffset_frames: offset },
+      filmSync: { ...SYNC, offset_frames: offset },
+    });
+
+  it('shows each finding span as timecode beside the seconds', async () => {
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/runs/${RUN}`]: () => json(synced()),
+      [`GET /api/studios/${STUDIO}/runs/${RUN}/series`]: () => json(SERIES),
+    });
+    renderWithApp(
+      <MembershipProvider membership={member(['safety_reviewer'])}>
+        <RunView studioId={STUDIO} runId={RUN} />
+      </MembershipProvider>,
+    );
+    const table = await screen.findByRole('table', { name: 'Findings' });
+    // 3.5 s at 25 fps is frame 87.5 -> frame 87 on screen = 10:00:03:12; 12.31 s -> frame 307 = 10:00:12:07.
+    expect(table).toHaveTextContent('10:00:03:12–10:00:03:17');
+    expect(table).toHaveTextContent('10:00:12:07–10:00:12:22');
+    expect(screen.getByLabelText('Film sync')).toHaveTextContent('25 fps, starts 10:00:00:00');
+    // A reviewer sees the sync but not the nudge.
+    expect(screen.queryByRole('button', { name: 'Motion later' })).not.toBeInTheDocument();
+    expect(await screen.findByTestId('cursor-readout')).toHaveTextContent('TC 10:00:00:00');
+  });
+
+  it('lets a producer nudge the motion later: it asks for the run with the new offset', async () => {
+    const NEXT = '9d4e5f6a-7b8c-4d9e-8f0a-2b3c4d5e6f7b';
+    const { calls } = fakeApi({
+      [`GET /api/studios/${STUDIO}/runs/${RUN}`]: () => json(synced(4)),
+      [`GET /api/studios/${STUDIO}/runs/${RUN}/series`]: () => json(SERIES),
+      // The summary schema keeps only a summary's fields of this detail.
+      [`POST /api/studios/${STUDIO}/runs/${RUN}/film-offset`]: () =>
+        json({ ...synced(6), id: NEXT, state: 'queued' }, 201),
+      [`GET /api/studios/${STUDIO}/runs/${NEXT}`]: () => json({ ...synced(6), id: NEXT }),
+    });
+    renderWithApp(
+      <MembershipProvider membership={member(['producer'])}>
+        <RunView studioId={STUDIO} runId={RUN} />
+      </MembershipProvider>,
+    );
+    expect(await screen.findByLabelText('Film sync')).toHaveTextContent('motion +4 frames');
+    fireEvent.change(screen.getByLabelText('Nudge by (frames)'), { target: { value: '2' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Motion later' }));
+    await waitFor(() => expect(calls.some((c) => c.method === 'POST')).toBe(true));
+    const post = calls.find((c) => c.method === 'POST')!;
+    expect(post.body).toEqual({ offset_frames: 6 });
   });
 });

@@ -61,6 +61,7 @@ function track(runs: RunSummary[]): TrackDetail {
         samples: 2001,
         duration_s: 20,
         uploadedVia: 'token',
+        filmSync: null,
         createdAt: '2026-12-01T09:30:00.000Z',
       },
     ],

@@ -85,6 +85,7 @@ function storedTake(overrides: Partial<UploadedTake> = {}): UploadedTake {
     samples: 2001,
     duration_s: 20,
     uploadedVia: 'browser',
+    filmSync: null,
     createdAt: '2026-12-01T10:00:00.000Z',
     duplicateOf: null,
     ...overrides,
@@ -185,5 +186,47 @@ describe('take upload form', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Upload take' }));
     expect(await screen.findByText('Choose a take file first.')).toBeInTheDocument();
     expect(FakeXhr.sent).toHaveLength(0);
+  });
+});
+
+describe('film sync fields of the upload', () => {
+  it('refuses a drop-frame label that does not exist before sending anything, naming the field', async () => {
+    fakeApi({});
+    renderWithApp(<UploadTakeForm studioId={STUDIO} trackId={TRACK} />);
+    chooseFile('glide.csv', 'time_s,fx_mps2\n');
+    fireEvent.change(screen.getByLabelText('Film frame rate'), { target: { value: '29.97df' } });
+    // SMPTE ST 12-1 drop-frame: labels ;00 and ;01 are skipped at the start of minute 1.
+    fireEvent.change(screen.getByLabelText('Start timecode'), { target: { value: '00:01:00;00' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Upload take' }));
+    expect(
+      await screen.findByText(/Start timecode: .*skipped at the start of minute 01/),
+    ).toBeInTheDocument();
+    expect(screen.getByLabelText('Start timecode')).toHaveAttribute('aria-invalid', 'true');
+    expect(FakeXhr.sent).toHaveLength(0);
+  });
+
+  it('sends the frame rate, start timecode and offset in the query', async () => {
+    fakeApi({});
+    renderWithApp(<UploadTakeForm studioId={STUDIO} trackId={TRACK} />);
+    chooseFile('glide.csv', 'time_s,fx_mps2\n');
+    fireEvent.change(screen.getByLabelText('Film frame rate'), { target: { value: '29.97df' } });
+    fireEvent.change(screen.getByLabelText('Start timecode'), { target: { value: '01:00:00;00' } });
+    fireEvent.change(screen.getByLabelText('Motion offset (frames)'), { target: { value: '-3' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Upload take' }));
+    const xhr = await sentRequest();
+    const url = new URL(xhr.url, 'http://legwork.test');
+    expect(url.searchParams.get('frameRate')).toBe('29.97df');
+    expect(url.searchParams.get('startTimecode')).toBe('01:00:00;00');
+    expect(url.searchParams.get('offset_frames')).toBe('-3');
+  });
+
+  it('sends no film sync fields when no frame rate is chosen', async () => {
+    fakeApi({});
+    renderWithApp(<UploadTakeForm studioId={STUDIO} trackId={TRACK} />);
+    chooseFile('glide.csv', 'time_s,fx_mps2\n');
+    fireEvent.click(screen.getByRole('button', { name: 'Upload take' }));
+    const xhr = await sentRequest();
+    const url = new URL(xhr.url, 'http://legwork.test');
+    expect([...url.searchParams.keys()]).toEqual(['fileName']);
   });
 });

@@ -235,6 +235,7 @@ describe('decision panel', () => {
         samples: 2001,
         duration_s: 20,
         uploadedVia: 'browser',
+        filmSync: null,
         createdAt: '2026-12-01T09:59:00.000Z',
       },
       cueingVersion: null,
@@ -242,6 +243,8 @@ describe('decision panel', () => {
       result: null,
       budgetIsDemo: false,
       files: [],
+      params: {},
+      filmSync: null,
       reviews: [],
     });
     const api = fakeApi({

@@ -7,7 +7,9 @@ import type { RunSeries, SeriesBand } from '../../../../shared/schemas/run-serie
 import { BandChart } from '../../../components/charts/band-chart';
 import type { ChartBand, ChartLine, ChartSpan } from '../../../components/charts/band-chart';
 import { CHART_COLORS, withAlpha } from '../../../components/charts/palette';
+import type { FilmSync } from '../../../../shared/schemas/film-sync';
 import { BasePreview } from './base-preview';
+import { runTimecode } from '../utils/film-time';
 
 const M_TO_MM = 1000;
 const RAD_TO_DEG = 180 / Math.PI;
@@ -47,9 +49,12 @@ export function RunCharts({
   series,
   findings,
   base = null,
+  filmSync = null,
 }: {
   series: RunSeries;
   findings: readonly Finding[];
+  /** The run's film sync: the cursor read-out shows the picture's timecode beside the seconds. */
+  filmSync?: FilmSync | null;
   /** The venue's motion base for the 3-D preview; none, no preview. */
   base?: MotionBase | null;
 }) {
@@ -125,6 +130,8 @@ export function RunCharts({
     ];
   }, [series]);
 
+  const cursor_s = series.time_s[index] ?? null;
+  const cursorTimecode = cursor_s === null ? null : runTimecode(cursor_s, filmSync);
   // Every chart shares the time axis, the finding spans, the cursor and the instant marked.
   const shared = { x: series.time_s, spans, syncKey: 'run', onCursorIndex: setIndex, marker: marker_s };
   return (
@@ -150,6 +157,11 @@ export function RunCharts({
           />
           comfort finding
         </span>
+      </p>
+      <p className="font-mono text-xs text-ink-800" data-testid="cursor-readout">
+        {cursor_s === null ? '—' : `t = ${cursor_s.toFixed(3)} s`}
+        {cursorTimecode ? <span className="ml-2">TC {cursorTimecode}</span> : null}
+        <span className="ml-2 font-sans text-ink-400">(move the pointer over a chart)</span>
       </p>
       <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
         {force.map(({ axis, bands }) => (

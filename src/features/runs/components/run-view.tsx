@@ -15,6 +15,8 @@ import { RunCharts } from './run-charts';
 import { RunFiles } from './run-files';
 import { RunHeader } from './run-header';
 import { RunSpectra } from './run-spectra';
+import { FilmSyncPanel } from './film-sync-panel';
+import type { FilmSync } from '../../../../shared/schemas/film-sync';
 
 function readBase(base: unknown): MotionBase | null {
   try {
@@ -30,18 +32,20 @@ function Charts({
   runId,
   venueId,
   findings,
+  filmSync,
 }: {
   studioId: string;
   runId: string;
   venueId: string;
   findings: Parameters<typeof RunCharts>[0]['findings'];
+  filmSync: FilmSync | null;
 }) {
   const series = useRunSeries(studioId, runId, true);
   const venue = useVenue(studioId, venueId);
   const base = useMemo(() => (venue.data ? readBase(venue.data.base) : null), [venue.data]);
   if (series.isPending) return <Loading what="Loading the chart series" />;
   if (series.isError) return <ErrorNotice error={series.error} retry={() => void series.refetch()} />;
-  return <RunCharts series={series.data} findings={findings} base={base} />;
+  return <RunCharts series={series.data} findings={findings} base={base} filmSync={filmSync} />;
 }
 
 /** Everything about one cue run: header, live progress, charts, budget, findings, comfort, files and the caution. */
@@ -66,6 +70,7 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
     <>
       <RunHeader studioId={studioId} run={detail} />
       {run.isError ? <ErrorNotice error={run.error} /> : null}
+      <FilmSyncPanel studioId={studioId} run={detail} />
       {finished ? (
         <Section title="Motion">
           <Charts
@@ -73,6 +78,7 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
             runId={runId}
             venueId={detail.venueId}
             findings={result?.findings ?? []}
+            filmSync={detail.filmSync}
           />
         </Section>
       ) : null}
@@ -96,7 +102,7 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
             <BudgetTable uses={result.uses} />
           </Section>
           <Section title={`Findings (${result.findings.length})`}>
-            <FindingsTable findings={result.findings} />
+            <FindingsTable findings={result.findings} filmSync={detail.filmSync} />
           </Section>
           {result.comfort ? (
             <Section title="Comfort and motion sickness (ISO 2631-1)">

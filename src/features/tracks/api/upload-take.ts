@@ -11,6 +11,8 @@ export interface UploadTakeInput {
   studioId: string;
   trackId: string;
   file: File;
+  /** Film sync fields as typed (frame rate id, start timecode, offset in frames); empty ones are left out. */
+  filmSync?: { frameRate: string; startTimecode: string; offset_frames: string };
   /** Called with the fraction of the file sent so far, 0 to 1. */
   onProgress?: (fraction: number) => void;
 }
@@ -28,11 +30,18 @@ export async function uploadTake({
   studioId,
   trackId,
   file,
+  filmSync,
   onProgress,
 }: UploadTakeInput): Promise<UploadedTake> {
+  const query = new URLSearchParams({ fileName: file.name });
+  if (filmSync?.frameRate) {
+    query.set('frameRate', filmSync.frameRate);
+    if (filmSync.startTimecode.trim()) query.set('startTimecode', filmSync.startTimecode.trim());
+    if (filmSync.offset_frames.trim()) query.set('offset_frames', filmSync.offset_frames.trim());
+  }
   const path =
     `/api/studios/${encodeURIComponent(studioId)}/tracks/${encodeURIComponent(trackId)}/takes` +
-    `?fileName=${encodeURIComponent(file.name)}`;
+    `?${query.toString()}`;
   // The session's token, fetched through the shared client so later JSON calls reuse it.
   const csrfToken = await refreshCsrfToken();
   return new Promise<UploadedTake>((resolve, reject) => {
