@@ -8,6 +8,7 @@ import { strokeBand } from './checks';
 import type { ProcessResult } from './process';
 import type { Track } from './track-reader';
 import { trackColumn } from './track-reader';
+import { applyTouchup } from './touchup';
 
 /** Buckets per series: about one per pixel of the widest chart, so min/max loses nothing visible. */
 export const RUN_SERIES_BUCKETS = 2000;
@@ -61,7 +62,7 @@ export function minMaxOnEdges(signal: Float64Array, edges: Int32Array): SeriesBa
 }
 
 /**
- * The vehicle input column on the result's time grid: linear interpolation at each grid instant, held
+ * A column of the take on the result's time grid: linear interpolation at each grid instant, held
  * at the input's first or last value outside its span (m/s^2 or rad/s, as the column).
  */
 function onGrid(input: Track, name: string, grid: Float64Array): Float64Array {
@@ -89,13 +90,29 @@ function onGrid(input: Track, name: string, grid: Float64Array): Float64Array {
   return out;
 }
 
-/** Chart series of a pipeline result; `input` is the parsed take. Validated against the series schema. */
+/**
+ * Chart series of a pipeline result; `input` is the parsed take as uploaded. With a touch-up, the take
+ * after it (what the pipeline cued: applyTouchup is pure, so this is the same track) is the vehicle
+ * input of the force charts, and every column of the take is given before and after it, both on the
+ * run's time grid. Validated against the series schema.
+ */
 export function buildRunSeries(result: ProcessResult, input: Track, base: MotionBase): RunSeries {
   const time = result.time_s;
   const n = time.length;
   const edges = seriesBucketEdges(n);
   const band = (a: Float64Array) => minMaxOnEdges(a, edges);
-  const inputBand = (name: string) => (input.kind === 'vehicle' ? band(onGrid(input, name, time)) : null);
+  const cuedTake = result.touchup ? applyTouchup(input, result.touchup) : input;
+  const inputBand = (name: string) =>
+    cuedTake.kind === 'vehicle' ? band(onGrid(cuedTake, name, time)) : null;
+  const touchup = result.touchup
+    ? {
+        columns: input.names.map((name) => ({
+          name,
+          before: band(onGrid(input, name, time)),
+          after: band(onGrid(cuedTake, name, time)),
+        })),
+      }
+    : undefined;
   const seat1 = result.check.rider.seatForceLp_mps2[0];
   const cuedBand = (i: 0 | 1 | 2) => band(seat1 ? seat1[i] : new Float64Array(n));
   const poseNames =
@@ -130,5 +147,6 @@ export function buildRunSeries(result: ProcessResult, input: Track, base: Motion
       mid_m: stroke.mid_m,
     },
     gaps: result.gaps.map((g) => ({ start_s: g.start_s, end_s: g.end_s })),
+    ...(touchup ? { touchup } : {}),
   });
 }

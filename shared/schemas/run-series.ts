@@ -33,6 +33,13 @@ export const runSeriesSchema = z
     stroke: z.object({ min_m: z.number(), max_m: z.number(), margin_m: z.number(), mid_m: z.number() }),
     /** Stretches of the input with no samples (over 5 x the median spacing), bridged by interpolation (s). */
     gaps: z.array(z.object({ start_s: z.number(), end_s: z.number() })).optional(),
+    /**
+     * With a touch-up: every column of the take (SI name, e.g. fx_mps2 or roll_rad) as uploaded and
+     * after the touch-up, on this time axis (a column is held at its end value outside its span).
+     */
+    touchup: z
+      .object({ columns: z.array(z.object({ name: z.string(), before: band, after: band })) })
+      .optional(),
   })
   .superRefine((s, ctx) => {
     const n = s.time_s.length;
@@ -52,5 +59,9 @@ export const runSeriesSchema = z
     for (const [k, b] of Object.entries(s.pose)) check(b, ['pose', k]);
     s.legs.forEach((b, i) => check(b, ['legs', i]));
     s.legForce?.forEach((b, i) => check(b, ['legForce', i]));
+    s.touchup?.columns.forEach((c, i) => {
+      check(c.before, ['touchup', 'columns', i, 'before']);
+      check(c.after, ['touchup', 'columns', i, 'after']);
+    });
   });
 export type RunSeries = z.infer<typeof runSeriesSchema>;

@@ -394,3 +394,32 @@ describe('film sync on the run page', () => {
     expect(post.body).toEqual({ offset_frames: 6 });
   });
 });
+
+describe('touch-up on the run page', () => {
+  it('lists the touch-up settings and draws each take column before and after it', async () => {
+    const touchup = { offset_s: 0.5, gain: { fx: 0.5 }, smoothing_hz: { wz: 2 }, fadeIn_s: 1, fadeOut_s: 0 };
+    const columns = ['fx_mps2', 'wz_radps'].map((name) => ({
+      name,
+      before: band([0, 1, 0]),
+      after: band([0, 0.5, 0]),
+    }));
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/runs/${RUN}`]: () => json(makeRun({ params: { touchup } })),
+      [`GET /api/studios/${STUDIO}/runs/${RUN}/series`]: () => json({ ...SERIES, touchup: { columns } }),
+    });
+    renderWithApp(<RunView studioId={STUDIO} runId={RUN} />);
+    const summary = await screen.findByLabelText('Touch-up');
+    expect(summary).toHaveTextContent('Offset +0.5 s');
+    expect(summary).toHaveTextContent('Gain: fx × 0.5');
+    expect(summary).toHaveTextContent('Smoothing (zero-phase low-pass): wz 2 Hz');
+    expect(summary).toHaveTextContent('Fade in over 1 s');
+    expect(summary).not.toHaveTextContent('Fade out');
+    // Six motion charts plus one per touched-up column, each with the two bands (x + 2 x 2 series).
+    await waitFor(() => expect(plots).toHaveLength(8));
+    const wz = plots.find((p) => p.title === 'Touch-up wz')!;
+    expect(wz.series).toBe(5);
+    // The yaw rate shows in deg/s: 0.5 rad/s is 28.6479 deg/s (180/pi, as mathjs converts it).
+    const shown = (wz.data as Float64Array[])[4]![1]!;
+    expect(shown).toBeCloseTo(unit(0.51, 'rad/s').toNumber('deg/s'), 9);
+  });
+});

@@ -24,6 +24,18 @@ const POSE_LABELS: Record<string, string> = {
   yaw_rad: 'yaw',
 };
 
+/** Display label, unit and factor of a take column by its SI suffix (data stay SI). */
+export function takeColumnDisplay(name: string): { label: string; unit: string; scale: number } {
+  const cut = name.lastIndexOf('_');
+  const axis = cut > 0 ? name.slice(0, cut) : name;
+  const suffix = cut > 0 ? name.slice(cut + 1) : '';
+  if (suffix === 'm') return { label: axis, unit: 'mm', scale: M_TO_MM };
+  if (suffix === 'rad') return { label: axis, unit: 'deg', scale: RAD_TO_DEG };
+  if (suffix === 'radps') return { label: axis, unit: 'deg/s', scale: RAD_TO_DEG };
+  if (suffix === 'mps2') return { label: axis, unit: 'm/s²', scale: 1 };
+  return { label: axis, unit: suffix, scale: 1 };
+}
+
 /** Finding spans coloured by severity: hard red, comfort amber. */
 export function findingSpans(findings: readonly Finding[]): ChartSpan[] {
   return findings.map((f) => ({
@@ -75,7 +87,12 @@ export function RunCharts({
         const { input, cued } = series.force[axis];
         const bands: ChartBand[] = [];
         if (input)
-          bands.push({ label: 'input (vehicle)', color: CHART_COLORS.input, min: input.min, max: input.max });
+          bands.push({
+            label: series.touchup ? 'input after touch-up' : 'input (vehicle)',
+            color: CHART_COLORS.input,
+            min: input.min,
+            max: input.max,
+          });
         bands.push({ label: 'cued (seat 1)', color: CHART_COLORS.cued, min: cued.min, max: cued.max });
         return { axis, bands };
       }),
@@ -130,6 +147,18 @@ export function RunCharts({
     ];
   }, [series]);
 
+  const touchupCharts = useMemo(
+    () =>
+      (series.touchup?.columns ?? []).map((c) => ({
+        ...takeColumnDisplay(c.name),
+        name: c.name,
+        bands: [
+          { label: 'as uploaded', color: CHART_COLORS.input, min: c.before.min, max: c.before.max },
+          { label: 'after touch-up', color: CHART_COLORS.cued, min: c.after.min, max: c.after.max },
+        ] satisfies ChartBand[],
+      })),
+    [series],
+  );
   const cursor_s = series.time_s[index] ?? null;
   const cursorTimecode = cursor_s === null ? null : runTimecode(cursor_s, filmSync);
   // Every chart shares the time axis, the finding spans, the cursor and the instant marked.
@@ -213,6 +242,26 @@ export function RunCharts({
           scale={1e-3}
           height_px={200}
         />
+      ) : null}
+      {touchupCharts.length > 0 ? (
+        <div className="flex flex-col gap-2" data-testid="touchup-charts">
+          <h3 className="text-xs font-semibold text-ink-800">
+            Take touch-up: each column as uploaded and after the touch-up
+          </h3>
+          <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
+            {touchupCharts.map((c) => (
+              <BandChart
+                key={c.name}
+                title={`Touch-up ${c.label}`}
+                yLabel={c.unit}
+                bands={c.bands}
+                {...shared}
+                scale={c.scale}
+                height_px={150}
+              />
+            ))}
+          </div>
+        </div>
       ) : null}
       {base ? (
         <div className="flex flex-col gap-1">

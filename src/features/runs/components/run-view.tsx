@@ -16,6 +16,7 @@ import { RunFiles } from './run-files';
 import { RunHeader } from './run-header';
 import { RunSpectra } from './run-spectra';
 import { FilmSyncPanel } from './film-sync-panel';
+import { TouchupSummary } from './touchup-summary';
 import type { FilmSync } from '../../../../shared/schemas/film-sync';
 
 function readBase(base: unknown): MotionBase | null {
@@ -71,6 +72,11 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
       <RunHeader studioId={studioId} run={detail} />
       {run.isError ? <ErrorNotice error={run.error} /> : null}
       <FilmSyncPanel studioId={studioId} run={detail} />
+      {detail.params.touchup ? (
+        <Section title="Touch-up">
+          <TouchupSummary touchup={detail.params.touchup} />
+        </Section>
+      ) : null}
       {finished ? (
         <Section title="Motion">
           <Charts

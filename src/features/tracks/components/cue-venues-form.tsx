@@ -6,6 +6,8 @@ import { CheckboxGroup } from '../../../components/ui/form';
 import { ErrorNotice, Loading, Notice } from '../../../components/ui/status';
 import { useRequestRuns } from '../api/request-runs';
 import { useVenues } from '../../../lib/queries/venues';
+import { EMPTY_TOUCHUP, TouchupFields, touchupOfDraft } from './touchup-fields';
+import type { TouchupDraft } from './touchup-fields';
 
 /** Queues cue runs of one take for the venues ticked; the server refuses venues without profiles or of the wrong kind. */
 export function CueVenuesForm({
@@ -22,6 +24,8 @@ export function CueVenuesForm({
   const [error, setError] = useState<string | undefined>();
   const [queued, setQueued] = useState<string | null>(null);
   const request = useRequestRuns(studioId);
+  const [draft, setDraft] = useState<TouchupDraft>(EMPTY_TOUCHUP);
+  const [problems, setProblems] = useState<Record<string, string>>({});
 
   if (venues.isPending) return <Loading what="Loading venues" />;
   if (venues.isError) return <ErrorNotice error={venues.error} retry={() => void venues.refetch()} />;
@@ -34,8 +38,11 @@ export function CueVenuesForm({
       return;
     }
     setError(undefined);
+    const { touchup, problems: found } = touchupOfDraft(draft);
+    setProblems(found);
+    if (Object.keys(found).length > 0) return;
     request.mutate(
-      { studioId, takeId: take.id, venueIds },
+      { studioId, takeId: take.id, venueIds, ...(touchup ? { touchup } : {}) },
       {
         onSuccess: (runs) => {
           setQueued(`${runs.length} run${runs.length === 1 ? '' : 's'} queued for take ${take.number}.`);
@@ -61,6 +68,7 @@ export function CueVenuesForm({
         error={error}
         disabled={request.isPending}
       />
+      <TouchupFields take={take} draft={draft} onChange={setDraft} problems={problems} />
       {request.error ? <ErrorNotice error={request.error} /> : null}
       {queued ? <Notice>{queued}</Notice> : null}
       <div>
