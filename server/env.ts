@@ -28,6 +28,12 @@ export const envSchema = z.object({
   MAIL_FROM: z.string().default('Legwork <no-reply@legwork.local>'),
   /** Set only when the local SMTP capture is in use: the folder it writes messages to. */
   MAIL_CAPTURE_DIR: z.string().optional(),
+  /** How often the worker looks for mail to send (s). */
+  MAIL_POLL_S: z.coerce.number().min(0.5).max(300).default(5),
+  /** Tries per mail before the sender gives up on it (the row stays, with its last error). */
+  MAIL_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(50).default(10),
+  /** The wait after the first failed try (s); it doubles after each failure, up to an hour. */
+  MAIL_RETRY_DELAY_S: z.coerce.number().min(1).max(3600).default(30),
   LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
   LOGIN_RATE_WINDOW_S: z.coerce.number().int().min(1).default(60),
   /** Refused password checks from one client address per window, whichever accounts. */

@@ -18,6 +18,10 @@ export function createMailer(env: Env): Mailer {
     secure: env.SMTP_SECURE,
     ignoreTLS: !env.SMTP_SECURE && !env.SMTP_USER,
     auth: env.SMTP_USER ? { user: env.SMTP_USER, pass: env.SMTP_PASSWORD ?? '' } : undefined,
+    // A relay that hangs fails the try in seconds, not minutes: the outbox tries again later.
+    connectionTimeout: 10_000,
+    greetingTimeout: 10_000,
+    socketTimeout: 30_000,
   });
   return {
     send: async ({ to, subject, text }) => {

@@ -1,3 +1,3 @@
 // The worker reads the same variables as the server (database, storage, mail).
-export { parseEnv } from '../server/env';
+export { parseEnv, publicUrl } from '../server/env';
 export type { Env } from '../server/env';

@@ -1,10 +1,12 @@
 // The worker process: takes jobs off the pg-boss queues. Run as many as the queue needs, on as many
 // machines as you like; each one only needs the same environment variables as the server.
-import { parseEnv } from './env';
+import { parseEnv, publicUrl } from './env';
 import { QUEUES, startQueue } from '../server/queue';
 import { openDb } from '../server/db/client';
 import { createStorage } from '../server/storage';
 import { createHandler } from './jobs/cue-run';
+import { createMailer } from '../server/mail';
+import { startMailSender } from '../server/notifications/sender';
 import type { JobMeta } from './jobs/cue-run';
 
 const env = parseEnv();
@@ -20,6 +22,20 @@ await boss.work<object>(
     for (const job of jobs) await handle(job as unknown as JobMeta);
   },
 );
+// The outbox: every MAIL_POLL_S, the mail now due (server/notifications/sender.ts).
+const mailer = createMailer(env);
+const mail = startMailSender(
+  {
+    db,
+    mailer,
+    baseUrl: publicUrl(env),
+    log,
+    now: () => new Date(),
+    maxAttempts: env.MAIL_MAX_ATTEMPTS,
+    retryDelayS: env.MAIL_RETRY_DELAY_S,
+  },
+  env.MAIL_POLL_S * 1000,
+);
 log('ready for jobs');
 
 let stopping = false;
@@ -27,6 +43,8 @@ const stop = async () => {
   if (stopping) return;
   stopping = true;
   await boss.stop({ graceful: true, wait: true, timeout: 10_000 }).catch(() => undefined);
+  await mail.stop();
+  mailer.close();
   storage.close();
   await pool.end();
   process.exit(0);
