@@ -32,7 +32,7 @@ export interface TrackStreamOptions extends Omit<TrackReaderOptions, 'file' | 'm
   fileName: string;
   /** Most bytes as sent (compressed, for .gz); default no limit beyond maxTextBytes. */
   maxBytes?: number;
-  /** Most bytes of text after decompression; default 256 MiB. */
+  /** Most bytes of text after decompression; default 1 GiB (DEFAULT_MAX_BYTES). */
   maxTextBytes?: number;
   /** Called with each chunk as sent, in order, before it is parsed (e.g. to store it); awaited. */
   onChunk?: (chunk: Buffer) => Promise<void> | void;

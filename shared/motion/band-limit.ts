@@ -262,25 +262,28 @@ export function decimateColumn(
   const H = (taps.length - 1) / 2;
   const ext = extendByPrediction(fine, H);
   const values = new Float64Array(count);
-  // The taps are symmetric: fold the two halves, half the multiplications.
-  const centre = taps[H] as number;
-  const at = (j: number): number => {
-    const c = j + H;
-    let s = centre * (ext[c] as number);
-    for (let i = 1; i <= H; i++)
-      s += (taps[H + i] as number) * ((ext[c - i] as number) + (ext[c + i] as number));
-    return s;
-  };
+  // The taps are symmetric: fold the two halves, half the multiplications. half[i] = taps[H + i].
+  const half = taps.slice(H);
+  const centre = half[0] as number;
   let sx = 0;
   let sxx = 0;
   let srr = 0;
   let probes = 0;
   const nf = fine.length;
   for (let k = 0; k < count; k++) {
-    values[k] = at(k * m);
+    let c = k * m + H;
+    let s = centre * (ext[c] as number);
+    for (let i = 1; i <= H; i++) s += (half[i] as number) * ((ext[c - i] as number) + (ext[c + i] as number));
+    values[k] = s;
     const off = m === 1 ? 0 : Math.floor(((k * GOLDEN) % 1) * m);
     const j = Math.min(k * m + off, nf - 1);
-    const y = off === 0 && j === k * m ? (values[k] as number) : at(j);
+    let y = s;
+    if (!(off === 0 && j === k * m)) {
+      c = j + H;
+      y = centre * (ext[c] as number);
+      for (let i = 1; i <= H; i++)
+        y += (half[i] as number) * ((ext[c - i] as number) + (ext[c + i] as number));
+    }
     const x = fine[j] as number;
     const r = x - y;
     sx += x;

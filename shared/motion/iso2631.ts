@@ -11,7 +11,6 @@ import {
   analogMagnitude,
   cascadeFromAnalog,
   filterInto,
-  filterSample,
   steadyState,
 } from './filters';
 
@@ -152,22 +151,44 @@ export function weight(signal: Float64Array, rate_hz: number, w: Weighting): Flo
     return out;
   }
   const H = INTERP_HALF_WIDTH;
+  const W = 2 * H;
   const taps = interpolationTaps(L);
   const last = n - 1;
+  // The cascade runs inline on local state (the same operations as filterSample, in the same order).
+  const c = cascade.coefficients;
+  const sections = c.length / 5;
   for (let i = 0; i < n; i++) {
-    out[i] = filterSample(cascade, state, signal[i] as number);
+    out[i] = cascadeStep(c, sections, state, signal[i] as number);
+    const from = i - H + 1;
+    const inside = from >= 0 && from + W - 1 <= last;
     for (let p = 1; p < L; p++) {
-      const row = p * 2 * H;
+      const row = p * W;
       let u = 0;
-      for (let j = 0; j < 2 * H; j++) {
-        let k = i - H + 1 + j;
-        k = k < 0 ? 0 : k > last ? last : k; // constant extension beyond the ends
-        u += (taps[row + j] as number) * (signal[k] as number);
+      if (inside) {
+        for (let j = 0; j < W; j++) u += (taps[row + j] as number) * (signal[from + j] as number);
+      } else {
+        for (let j = 0; j < W; j++) {
+          let k = from + j;
+          k = k < 0 ? 0 : k > last ? last : k; // constant extension beyond the ends
+          u += (taps[row + j] as number) * (signal[k] as number);
+        }
       }
-      filterSample(cascade, state, u);
+      cascadeStep(c, sections, state, u);
     }
   }
   return out;
+}
+
+/** filterSample on bare coefficients (five per section) and state (two per section). */
+function cascadeStep(c: Float64Array, sections: number, state: Float64Array, x0: number): number {
+  let x = x0;
+  for (let k = 0, o = 0, s = 0; k < sections; k++, o += 5, s += 2) {
+    const y = (c[o] as number) * x + (state[s] as number);
+    state[s] = (c[o + 1] as number) * x - (c[o + 3] as number) * y + (state[s + 1] as number);
+    state[s + 1] = (c[o + 2] as number) * x - (c[o + 4] as number) * y;
+    x = y;
+  }
+  return x;
 }
 
 /** Root mean square of a signal (its unit); 0 for an empty signal. */

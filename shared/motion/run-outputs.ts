@@ -13,6 +13,7 @@ import { sig } from './process';
 import { ANTI_ALIAS_CUTOFF } from './band-limit';
 import { REPORT_CAUTION, buildReport } from './report';
 import { buildRunSeries } from './run-series';
+import { fixedColumnsCsv } from './fixed-csv';
 import type { Track } from './track-reader';
 import type { FilmSync } from '../schemas/film-sync';
 import { FRAME_RATES } from './timecode';
@@ -55,22 +56,9 @@ export function legsCsv(r: Pick<ProcessResult, 'time_s' | 'legs'>): string {
 }
 
 // Nine decimals (nanometres, nanoradians) keep second differences of a re-read file at 1 kHz far
-// below any limit.
+// below any limit. Time has six (microseconds); a tiny negative value is written as plain zero.
 function columnsCsv(header: string, time_s: Float64Array, cols: readonly Float64Array[]): string {
-  const n = time_s.length;
-  const lines: string[] = new Array<string>(n + 1);
-  lines[0] = header;
-  const row: string[] = new Array<string>(cols.length + 1);
-  for (let i = 0; i < n; i++) {
-    row[0] = (time_s[i] as number).toFixed(6);
-    for (let c = 0; c < cols.length; c++) {
-      const text = ((cols[c] as Float64Array)[i] as number).toFixed(9);
-      // A tiny negative value prints as "-0.000000000"; write it as plain zero.
-      row[c + 1] = text === '-0.000000000' ? '0.000000000' : text;
-    }
-    lines[i + 1] = row.join(',');
-  }
-  return lines.join('\n') + '\n';
+  return fixedColumnsCsv(header, time_s, cols, 6, 9);
 }
 
 /** A file named and hashed by the caller (hashing needs I/O or node:crypto, which shared/ has not). */
@@ -117,7 +105,7 @@ export interface RunOutputs {
   manifest: Record<string, unknown>;
   /** The run's summary without its `files` list (the writer returns the entries to add). */
   summary: Omit<StoredRunSummary, 'files'>;
-  /** The chart series, every band on the time axis' length. */
+  /** The chart series, every band on the time axis' length (built on first read). */
   series: RunSeries;
 }
 
@@ -214,6 +202,8 @@ export function buildRunOutputs(
     duration_s: n_out > 0 ? (result.time_s[n_out - 1] as number) - (result.time_s[0] as number) : 0,
     budgetIsDemo: result.budgetIsDemo,
   };
+  // The chart series are built when first read: `legwork process` writes no series.json.
+  let series: RunSeries | undefined;
   return {
     files: [
       file('legs.csv', legsCsv(result)),
@@ -224,6 +214,9 @@ export function buildRunOutputs(
     ],
     manifest,
     summary,
-    series: buildRunSeries(result, input, base),
+    get series() {
+      series ??= buildRunSeries(result, input, base);
+      return series;
+    },
   };
 }

@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import fc from 'fast-check';
 import {
+  parseDecimal,
   parseTrackText,
   trackColumn,
   TrackFileError,
@@ -197,6 +198,109 @@ describe('track reader content', () => {
       /bad\.csv\.gz: the name ends in \.gz but the file is not gzip-compressed/,
     );
     await expect(readTrackFile(join(dir, 'missing.csv'))).rejects.toThrow(/missing\.csv: no such file/);
+  });
+});
+
+describe('reading numbers from their characters', () => {
+  // Oracle: ECMAScript's Number() (StringToNumber, correctly rounded by the language's definition).
+  const agrees = (text: string) => {
+    const v = parseDecimal(text, 0, text.length);
+    if (Number.isNaN(v)) return; // left to the slow path, which is Number() itself
+    expect(Object.is(v, Number(text))).toBe(true);
+  };
+
+  it('equals Number() on formatted doubles and on random digit strings, or leaves them to Number()', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ noNaN: true, noDefaultInfinity: true }),
+        fc.integer({ min: 0, max: 20 }),
+        (x, d) => {
+          agrees(String(x));
+          agrees(x.toExponential(Math.min(d, 20)));
+          if (Math.abs(x) < 1e21) agrees(x.toFixed(d));
+          agrees(x.toPrecision(Math.max(1, d)));
+        },
+      ),
+      { numRuns: 3000 },
+    );
+    const digits = fc.string({ unit: fc.constantFrom(...'0123456789'.split('')), maxLength: 19 });
+    fc.assert(
+      fc.property(
+        fc.constantFrom('', '-', '+'),
+        digits,
+        fc.boolean(),
+        digits,
+        fc.option(
+          fc.tuple(
+            fc.constantFrom('e', 'E'),
+            fc.constantFrom('', '-', '+'),
+            fc.integer({ min: 0, max: 400 }),
+          ),
+        ),
+        (sign, a, point, b, exp) => {
+          const text = `${sign}${a}${point ? '.' : ''}${b}${exp ? `${exp[0]}${exp[1]}${exp[2]}` : ''}`;
+          agrees(text);
+          if (!Number.isNaN(parseDecimal(text, 0, text.length))) {
+            // Only text NUMBER_RE accepts takes the fast path: docs/motion-conventions.md section 3 syntax.
+            expect(text).toMatch(/^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/);
+          }
+        },
+      ),
+      { numRuns: 5000 },
+    );
+  });
+
+  it('takes the fast path for the fixed-point numbers track files hold, and not for odd text', () => {
+    for (const t of ['0', '-0', '12.5', '0.000123', '-1.234567890123', '9.80665', '1e-3', '.5', '5.', '+2']) {
+      expect(Number.isNaN(parseDecimal(t, 0, t.length))).toBe(false);
+      agrees(t);
+    }
+    expect(Object.is(parseDecimal('-0', 0, 2), -0)).toBe(true);
+    for (const t of [
+      '',
+      '-',
+      '.',
+      'e5',
+      '1e',
+      '1e+',
+      ' 1',
+      '1 ',
+      '"1"',
+      '0x1f',
+      'Infinity',
+      '1.2.3',
+      '1234567890123456',
+    ])
+      expect(Number.isNaN(parseDecimal(t, 0, t.length))).toBe(true);
+  });
+
+  it('reads a track over many storage blocks exactly as Number() reads each field', () => {
+    const rows = Array.from({ length: 40_000 }, (_, i) => [
+      i / 1000,
+      Math.sin(i) * 1234.5678,
+      (i % 97) * 1e-7,
+      -i * 0.3333333333333333,
+    ]);
+    const text = makeCsv(['time_s', 'x_mm', 'y_m', 'yaw_deg'], rows);
+    const t = parseTrackText(text, { file: 'p.csv' });
+    expect(t.length).toBe(rows.length);
+    const lines = text.trim().split('\n').slice(1);
+    // Source: 1 mm = 1e-3 m, 180 deg = pi rad (SI); the reader multiplies by the same factors.
+    const factors = [1, 1e-3, 1, Math.PI / 180];
+    const cols = [t.time_s, trackColumn(t, 'x_m'), trackColumn(t, 'y_m'), trackColumn(t, 'yaw_rad')];
+    const mismatches: string[] = [];
+    for (let r = 0; r < lines.length; r += 1) {
+      const f = (lines[r] as string).split(',');
+      for (let c = 0; c < 4; c++) {
+        if (!Object.is(cols[c]![r], Number(f[c]) * factors[c]!))
+          mismatches.push(`row ${r} field ${c}: ${f[c]}`);
+      }
+    }
+    expect(mismatches).toEqual([]);
+    expect(t.lines?.[39_999]).toBe(40_001);
+    const e = failure(text, { maxRows: 20_000 });
+    expect(e.code).toBe('tooManyRows');
+    expect(e.line).toBe(20_002);
   });
 });
 
