@@ -13,6 +13,7 @@ import { authRouter } from './routes/auth';
 import { invitationsRouter } from './routes/invitations';
 import { studioRouter } from './routes/studio';
 import { devMailboxRouter } from './routes/dev-mailbox';
+import { meRouter } from './routes/me';
 
 export interface LegworkApp {
   app: express.Express;
@@ -38,6 +39,7 @@ export function createApp(deps: AppDeps): LegworkApp {
   api.use(requireCsrf);
   api.use('/auth', authRouter(deps, pass, throttle));
   api.use('/invitations', invitationsRouter(deps, throttle));
+  api.use('/me', meRouter(deps));
   api.use('/studios/:studioId', studioRouter(deps));
   api.use('/dev/mailbox', devMailboxRouter(deps));
   api.use((req, _res, next) =>
