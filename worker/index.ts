@@ -8,6 +8,7 @@ import { createHandler } from './jobs/cue-run';
 import { createMailer } from '../server/mail';
 import { startMailSender } from '../server/notifications/sender';
 import type { JobMeta } from './jobs/cue-run';
+import { createBuildReleaseHandler } from './jobs/build-release';
 
 const env = parseEnv();
 const log = (m: string) => console.log(`[worker] ${m}`);
@@ -20,6 +21,14 @@ await boss.work<object>(
   { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: env.WORKER_POLL_S },
   async (jobs) => {
     for (const job of jobs) await handle(job as unknown as JobMeta);
+  },
+);
+const buildRelease = createBuildReleaseHandler({ db, storage, log, now: () => new Date() });
+await boss.work<object>(
+  QUEUES.buildRelease,
+  { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: env.WORKER_POLL_S },
+  async (jobs) => {
+    for (const job of jobs) await buildRelease(job as unknown as JobMeta);
   },
 );
 // The outbox: every MAIL_POLL_S, the mail now due (server/notifications/sender.ts).

@@ -35,3 +35,32 @@ export function openDb(url: string, opts: number | OpenDbOptions = {}): { db: Db
   pool.on('connect', (client) => client.on('error', report));
   return { db: drizzle(pool, { schema }), pool };
 }
+
+/** Runs SQL on the transaction's own connection (pg-boss's `db` send option takes this shape). */
+export interface SqlExecutor {
+  executeSql: (text: string, values: unknown[]) => Promise<{ rows: unknown[] }>;
+}
+
+/**
+ * Runs `fn` in one transaction on one pooled connection, handing it a Drizzle handle and an executor on
+ * the same connection, so that a queue job sent through pg-boss commits or rolls back with the rows.
+ */
+export async function inClientTransaction<T>(
+  pool: pg.Pool,
+  fn: (tx: Db, sql: SqlExecutor) => Promise<T>,
+): Promise<T> {
+  const client = await pool.connect();
+  try {
+    await client.query('BEGIN');
+    const out = await fn(drizzle(client, { schema }), {
+      executeSql: (text, values) => client.query(text, values),
+    });
+    await client.query('COMMIT');
+    return out;
+  } catch (e) {
+    await client.query('ROLLBACK').catch(() => undefined);
+    throw e;
+  } finally {
+    client.release();
+  }
+}

@@ -1,6 +1,8 @@
 // What each role's home lists: the work waiting for that role, most urgent first.
 // GET .../home/review: runs awaiting a safety reviewer's decision; GET .../home/engineer: held runs to
-// cue again.
+// cue again; GET .../home/producer: held runs, cleared runs not yet released, problems venues reported
+// and releases still building or failed; GET .../home/operator: the releases of the operator's venues
+// (new, installed, withdrawn).
 import { Router } from 'express';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
@@ -11,7 +13,14 @@ import { inStudio, visibleVenues } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
 import { worstUse } from '../pipeline/views';
 import { findingCounts } from '../pipeline/review';
-import type { EngineerHome, HomeRun, ReviewQueue } from '../../shared/schemas/homes';
+import { listReleases } from '../pipeline/releases';
+import type {
+  EngineerHome,
+  HomeRun,
+  OperatorHome,
+  ProducerHome,
+  ReviewQueue,
+} from '../../shared/schemas/homes';
 
 async function homeRuns(
   db: Db,
@@ -93,6 +102,35 @@ export function homesRouter(deps: AppDeps): Router {
     // Held by budget with only comfort findings waits for a reviewer, not for new cueing.
     const held = runs.filter((x) => x.state === 'held' || x.hardFindings > 0);
     const out: EngineerHome = { held: held.sort(worstFirst) };
+    res.json(out);
+  });
+  r.get('/producer', requirePermission('home.producer'), async (req, res) => {
+    const m = req.member!;
+    const runs = await homeRuns(deps.db, m.studioId, m, ['held_by_budget', 'held', 'cleared']);
+    const all = await listReleases(deps.db, m.studioId, m);
+    const problems = all
+      .flatMap((release) => release.problems.map((problem) => ({ problem, release })))
+      .sort((a, b) => b.problem.at.localeCompare(a.problem.at));
+    const out: ProducerHome = {
+      held: runs.filter((x) => x.state !== 'cleared').sort(worstFirst),
+      clearedNotReleased: runs
+        .filter((x) => x.state === 'cleared')
+        .sort((a, b) => (a.finishedAt ?? '').localeCompare(b.finishedAt ?? '')),
+      problems,
+      releasesInProgress: all.filter((x) => x.state === 'building' || x.state === 'failed'),
+    };
+    res.json(out);
+  });
+
+  r.get('/operator', requirePermission('home.operator'), async (req, res) => {
+    const m = req.member!;
+    const all = await listReleases(deps.db, m.studioId, m, { states: ['ready', 'superseded', 'withdrawn'] });
+    const installed = (x: (typeof all)[number]) => x.acknowledgements.length > 0;
+    const out: OperatorHome = {
+      new: all.filter((x) => x.state === 'ready' && !installed(x)),
+      installed: all.filter((x) => x.state !== 'withdrawn' && installed(x)),
+      withdrawn: all.filter((x) => x.state === 'withdrawn'),
+    };
     res.json(out);
   });
   return r;

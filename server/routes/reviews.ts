@@ -1,7 +1,8 @@
-// Reviews of cue runs: a safety reviewer clears or holds a finished run (POST .../runs/:run/review),
-// and the run page asks what the viewer may do next (GET .../runs/:run/decision). The rules are
-// shared/review-rules.ts, applied by server/pipeline/review.ts; every review is kept with who, when,
-// why and the budget version judged.
+// Decisions on cue runs: a safety reviewer clears or holds a finished run (POST .../runs/:run/review),
+// a producer releases a cleared one (POST .../runs/:run/release), and the run page asks what the
+// viewer may do next (GET .../runs/:run/decision). The rules are shared/review-rules.ts, applied by
+// server/pipeline/review.ts and releases.ts; every review is kept with who, when, why and the budget
+// version judged.
 import { Router } from 'express';
 import { desc, eq } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
@@ -14,7 +15,8 @@ import { parseBody } from '../lib/validate';
 import { actorOf } from '../lib/actor';
 import { loadRun, runDetail } from '../pipeline/run-detail';
 import { applyReview, reviewsOf, subjectOf } from '../pipeline/review';
-import { clearRule, holdRule } from '../../shared/review-rules';
+import { createRelease } from '../pipeline/releases';
+import { clearRule, holdRule, releaseRule } from '../../shared/review-rules';
 import type { ReviewViewer } from '../../shared/review-rules';
 import { reviewBody } from '../../shared/schemas/review';
 import type { ReviewedRun, RunAction, RunDecision } from '../../shared/schemas/review';
@@ -50,16 +52,7 @@ export function reviewsRouter(deps: AppDeps): Router {
       actions: {
         clear: action(clearRule(subject, viewer)),
         hold: action(holdRule(subject, viewer)),
-        // Packages are not built by this version of the server yet: say so rather than offer a
-        // button that cannot work.
-        release: {
-          allowed: false,
-          reasonRequired: false,
-          why:
-            loaded.run.state === 'cleared'
-              ? 'Building release packages is not available in this version of Legwork yet.'
-              : 'Only a cleared run can be released.',
-        },
+        release: action(releaseRule(subject, viewer)),
       },
     };
     res.json(out);
@@ -85,6 +78,17 @@ export function reviewsRouter(deps: AppDeps): Router {
       return result;
     });
     res.json(out);
+  });
+  r.post('/:runId/release', requirePermission('releases.create'), async (req, res) => {
+    const member = req.member!;
+    const actor = actorOf(req);
+    if (!member.userId || !actor) throw new HttpError(403, 'A release is signed by a person, not a token.');
+    const created = await createRelease(deps.pool, deps.boss, {
+      studioId: member.studioId,
+      runId: String(req.params.runId),
+      actor: { userId: member.userId, email: actor.email, roles: member.roles, venueIds: member.venueIds },
+    });
+    res.status(201).json(created);
   });
   return r;
 }

@@ -14,6 +14,7 @@ import { homesRouter } from './homes';
 import { membersRouter } from './members';
 import { overviewRouter } from './overview';
 import { profilesRouter } from './profiles';
+import { releasesRouter } from './releases';
 import { reviewsRouter } from './reviews';
 import { runsRouter } from './runs';
 import { studioInvitationsRouter } from './studio-invitations';
@@ -61,6 +62,7 @@ export function studioRouter(deps: AppDeps): Router {
   r.use('/takes', takesRouter(deps));
   r.use('/runs', runsRouter(deps));
   r.use('/runs', reviewsRouter(deps));
+  r.use('/releases', releasesRouter(deps));
   r.use('/home', homesRouter(deps));
   r.use('/profiles', profilesRouter(deps));
   r.use('/tokens', tokensRouter(deps));
