@@ -6,6 +6,7 @@ import { join, resolve } from 'node:path';
 import { ZodError } from 'zod';
 import type { AppDeps } from './deps';
 import { HttpError } from './lib/http-error';
+import { clientErrorAnswer, jsonBody, refuseUnstorableText } from './lib/client-errors';
 import { chooseCredentials, createPassport, requireCsrf, sessionMiddleware } from './auth/session';
 import { createPasswordThrottle, trustProxySetting } from './auth/throttle';
 import { healthRouter } from './routes/health';
@@ -30,7 +31,8 @@ export function createApp(deps: AppDeps): LegworkApp {
   const pass = createPassport(deps);
 
   const api = express.Router();
-  api.use(express.json({ limit: '1mb' }));
+  api.use(jsonBody('1mb'));
+  api.use(refuseUnstorableText);
   api.use('/health', healthRouter(deps));
   api.use(sessions.handler);
   api.use(pass.initialize());
@@ -66,13 +68,11 @@ export function createApp(deps: AppDeps): LegworkApp {
       res.status(400).json({ error: 'The request is not valid.', issues });
       return;
     }
-    const e = err as { type?: string; status?: number; message?: string };
-    if (e.type === 'entity.parse.failed') {
-      res.status(400).json({ error: `The request body is not valid JSON: ${e.message}` });
-      return;
-    }
-    if (e.type === 'entity.too.large') {
-      res.status(413).json({ error: 'The request body is too large.' });
+    // The router (malformed percent-encoding) and the body parser (charset, encoding, size, JSON)
+    // give their errors a 4xx status: answer with it and say what was wrong.
+    const answer = clientErrorAnswer(err);
+    if (answer) {
+      res.status(answer.status).json({ error: answer.error });
       return;
     }
     deps.log(`error: ${(err as Error).stack ?? String(err)}`);

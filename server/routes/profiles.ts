@@ -1,6 +1,6 @@
 // Cueing and budget profiles with immutable versions.
 import { Router } from 'express';
-import type { Request } from 'express';
+import type { Request, RequestHandler } from 'express';
 import { asc, desc, eq, max } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
 import type { Db, Tx } from '../db/client';
@@ -123,7 +123,15 @@ export function profilesRouter(deps: AppDeps): Router {
     res.json(await Promise.all(rows.map((p) => loadProfile(deps.db, studioId, p.id))));
   });
 
-  r.post('/', async (req, res) => {
+  // Which profile kind decides the exact permission; a member who may write neither kind is refused
+  // before the body or the profile is read.
+  const mayWriteSome: RequestHandler = (req, _res, next) => {
+    const roles = req.member!.roles;
+    if (!allows(roles, 'profiles.cueing.write') && !allows(roles, 'profiles.budget.write')) throw forbidden();
+    next();
+  };
+
+  r.post('/', mayWriteSome, async (req, res) => {
     const body = parseBody(createProfileBody, req.body, 'The profile form');
     if (!allows(req.member!.roles, writePermission(body.kind))) throw forbidden();
     const params = validateParams(body.kind, body.params);
@@ -144,7 +152,7 @@ export function profilesRouter(deps: AppDeps): Router {
   });
 
   // Versions are never edited: a change is a new version, so a run's inputs stay as they were.
-  r.post('/:profileId/versions', async (req, res) => {
+  r.post('/:profileId/versions', mayWriteSome, async (req, res) => {
     const studioId = req.member!.studioId;
     const profile = await loadProfile(deps.db, studioId, String(req.params.profileId));
     if (!allows(req.member!.roles, writePermission(profile.kind))) throw forbidden();

@@ -1,16 +1,17 @@
 // Request and response shapes of the JSON API under /api, written once and used by the server
 // (validation), the browser (typed fetches) and the tests.
 import { z } from 'zod';
+import { text } from './text';
 import { roleSchema } from './roles';
 
-export const emailSchema = z.string().trim().toLowerCase().email('must be an e-mail address').max(254);
-export const passwordSchema = z.string().min(10, 'must be at least 10 characters').max(200);
+export const emailSchema = text().trim().toLowerCase().email('must be an e-mail address').max(254);
+export const passwordSchema = text().min(10, 'must be at least 10 characters').max(200);
 
-export const loginBody = z.object({ email: emailSchema, password: z.string().min(1).max(200) });
+export const loginBody = z.object({ email: emailSchema, password: text().min(1).max(200) });
 export const resetRequestBody = z.object({ email: emailSchema });
-export const resetConfirmBody = z.object({ token: z.string().min(10).max(200), password: passwordSchema });
+export const resetConfirmBody = z.object({ token: text().min(10).max(200), password: passwordSchema });
 export const acceptInvitationBody = z.object({
-  name: z.string().trim().min(1).max(120).optional(),
+  name: text().trim().min(1).max(120).optional(),
   password: passwordSchema.optional(),
 });
 

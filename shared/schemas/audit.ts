@@ -1,6 +1,7 @@
 // The audit log as the API serves it: every event with its kind, plain words and what it links to,
 // the filters of the audit page and its CSV export.
 import { z } from 'zod';
+import { text } from './text';
 
 /** Kinds people filter the log by; each event's action belongs to one (see auditKindOf). */
 export const AUDIT_KINDS = [
@@ -100,15 +101,14 @@ export const auditLinkSchema = z.object({ kind: z.enum(AUDIT_LINK_KINDS), id: z.
 export type AuditLink = z.infer<typeof auditLinkSchema>;
 
 /** A day (YYYY-MM-DD, UTC) or a full ISO time. `to` as a day includes that whole day. */
-const when = z
-  .string()
+const when = text()
   .trim()
   .refine((s) => !Number.isNaN(Date.parse(s)), 'must be a date (YYYY-MM-DD) or an ISO date-time');
 
 export const auditQuery = z.object({
   kind: auditKindSchema.optional(),
   /** A member's user id or e-mail address. */
-  person: z.string().trim().min(1).max(254).optional(),
+  person: text().trim().min(1).max(254).optional(),
   from: when.optional(),
   to: when.optional(),
   before: z.coerce.number().int().positive().optional(),

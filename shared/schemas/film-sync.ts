@@ -1,6 +1,7 @@
 // Film sync settings of a take: the picture rate, the first frame's timecode and the motion's offset
 // against the picture. Used by the upload form, the API, the worker and the package manifest.
 import { z } from 'zod';
+import { text } from './text';
 import { FRAME_RATES, FRAME_RATE_IDS, timecodeToFrames } from '../motion/timecode';
 
 export const frameRateIdSchema = z.enum(FRAME_RATE_IDS);
@@ -9,7 +10,7 @@ export const frameRateIdSchema = z.enum(FRAME_RATE_IDS);
 export const filmSyncSchema = z
   .strictObject({
     frameRate: frameRateIdSchema,
-    startTimecode: z.string().default('00:00:00:00'),
+    startTimecode: text().default('00:00:00:00'),
     /** Motion against picture, in frames; positive plays the motion later. */
     offset_frames: z
       .number({ error: 'must be a whole number of frames' })

@@ -1,5 +1,6 @@
 // API shapes of the pipeline: tracks, takes, cue runs, profiles, venue settings and API tokens.
 import { z } from 'zod';
+import { text } from './text';
 import { checkResultSchema } from './findings';
 import { filmSyncSchema } from './film-sync';
 import type { FilmSync } from './film-sync';
@@ -24,8 +25,8 @@ export type RunStateName = keyof typeof RUN_STATE_LABELS;
 export const runStateSchema = z.enum(Object.keys(RUN_STATE_LABELS) as [RunStateName, ...RunStateName[]]);
 
 export const createTrackBody = z.object({
-  title: z.string().trim().min(1, 'required').max(200),
-  film: z.string().trim().max(200).default(''),
+  title: text().trim().min(1, 'required').max(200),
+  film: text().trim().max(200).default(''),
 });
 
 export const tracksQuery = z.object({
@@ -35,20 +36,19 @@ export const tracksQuery = z.object({
   dir: z.enum(['asc', 'desc']).default('desc'),
   state: runStateSchema.optional(),
   venueId: z.string().uuid().optional(),
-  q: z.string().trim().max(200).optional(),
+  q: text().trim().max(200).optional(),
 });
 
 const uploadQueryFields = z.object({
-  fileName: z
-    .string()
+  fileName: text()
     .trim()
     .min(1, 'required')
     .max(200)
     .regex(/^[^/\\]+\.csv(\.gz)?$/i, 'must be a .csv or .csv.gz file name'),
   // Film sync, optional: the query's text, checked with filmSyncSchema below.
-  frameRate: z.string().optional(),
-  startTimecode: z.string().optional(),
-  offset_frames: z.string().optional(),
+  frameRate: text().optional(),
+  startTimecode: text().optional(),
+  offset_frames: text().optional(),
 });
 export type UploadQuery = z.input<typeof uploadQueryFields>;
 
@@ -192,11 +192,11 @@ export type TrackDetail = z.infer<typeof trackDetailSchema>;
 export const profileKindSchema = z.enum(['cueing', 'budget']);
 export const createProfileBody = z.object({
   kind: profileKindSchema,
-  name: z.string().trim().min(1).max(120),
+  name: text().trim().min(1).max(120),
   params: z.unknown(),
-  note: z.string().max(2000).default(''),
+  note: text().max(2000).default(''),
 });
-export const newVersionBody = z.object({ params: z.unknown(), note: z.string().max(2000).default('') });
+export const newVersionBody = z.object({ params: z.unknown(), note: text().max(2000).default('') });
 
 export const profileVersionSchema = z.object({
   id: z.string().uuid(),
@@ -214,10 +214,15 @@ export const profileSchema = z.object({
 });
 export type Profile = z.infer<typeof profileSchema>;
 
-export const venueSettingsBody = z.object({
-  cueingVersionId: z.string().uuid().nullable().optional(),
-  budgetVersionId: z.string().uuid().nullable().optional(),
-});
+/** PUT .../venues/:venue/settings: at least one of the two; null clears it. */
+export const venueSettingsBody = z
+  .object({
+    cueingVersionId: z.string().uuid().nullable().optional(),
+    budgetVersionId: z.string().uuid().nullable().optional(),
+  })
+  .refine((b) => b.cueingVersionId !== undefined || b.budgetVersionId !== undefined, {
+    message: 'give cueingVersionId or budgetVersionId (a profile version id, or null to clear it)',
+  });
 
 export const venueDetailSchema = z.object({
   id: z.string().uuid(),
@@ -230,7 +235,7 @@ export const venueDetailSchema = z.object({
 });
 export type VenueDetail = z.infer<typeof venueDetailSchema>;
 
-export const createTokenBody = z.object({ name: z.string().trim().min(1).max(120) });
+export const createTokenBody = z.object({ name: text().trim().min(1).max(120) });
 export const apiTokenSchema = z.object({
   id: z.string().uuid(),
   name: z.string(),
@@ -243,9 +248,9 @@ export type ApiToken = z.infer<typeof apiTokenSchema>;
 
 /** A new venue: where it is and its motion base (validated by shared/schemas/motion-base.ts). */
 export const createVenueBody = z.object({
-  name: z.string().trim().min(1, 'required').max(200),
-  site: z.string().trim().max(200).default(''),
-  timeZone: z.string().trim().min(1).max(100).default('UTC'),
+  name: text().trim().min(1, 'required').max(200),
+  site: text().trim().max(200).default(''),
+  timeZone: text().trim().min(1).max(100).default('UTC'),
   base: z.unknown(),
 });
 export const venueBaseBody = z.object({ base: z.unknown() });

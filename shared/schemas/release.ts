@@ -1,6 +1,7 @@
 // Releases: a producer releases a cleared run to its venue; the worker builds the package (a zip the
 // venue's motion controller loads), and the venue's operators download, acknowledge or report problems.
 import { z } from 'zod';
+import { text } from './text';
 import { personSchema } from './review';
 
 /**
@@ -29,12 +30,12 @@ export const releaseCreatedSchema = z.object({ id: z.string().uuid(), state: rel
 export type ReleaseCreated = z.infer<typeof releaseCreatedSchema>;
 
 export const withdrawBody = z.object({
-  reason: z.string().trim().min(1, 'say why the release is withdrawn').max(4000),
+  reason: text().trim().min(1, 'say why the release is withdrawn').max(4000),
 });
 export const problemBody = z.object({
-  text: z.string().trim().min(1, 'describe the problem').max(8000),
+  text: text().trim().min(1, 'describe the problem').max(8000),
 });
-export const acknowledgeBody = z.object({ note: z.string().trim().max(2000).default('') });
+export const acknowledgeBody = z.object({ note: text().trim().max(2000).default('') });
 
 export const releasesQuery = z.object({
   venueId: z.string().uuid().optional(),

@@ -1,6 +1,7 @@
 // Reviews of cue runs: a safety reviewer clears or holds a run with a written reason. The server keeps
 // every review (who, when, the reason, the budget version the run was judged against).
 import { z } from 'zod';
+import { text } from './text';
 import { runDetailSchema } from './pipeline';
 
 export const REVIEW_DECISIONS = ['clear', 'hold'] as const;
@@ -15,7 +16,7 @@ export const REVIEW_DECISION_LABELS: Record<ReviewDecision, string> = { clear: '
  */
 export const reviewBody = z.object({
   decision: reviewDecisionSchema,
-  reason: z.string().trim().max(4000, 'at most 4000 characters').default(''),
+  reason: text().trim().max(4000, 'at most 4000 characters').default(''),
 });
 export type ReviewBody = z.infer<typeof reviewBody>;
 
