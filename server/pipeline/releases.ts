@@ -33,6 +33,54 @@ import { buildReleaseJobSchema } from '../../shared/schemas/release';
 import type { Release, ReleaseCreated, ReleaseState } from '../../shared/schemas/release';
 import type { Person } from '../../shared/schemas/review';
 import { packageName } from './release-package';
+import { queueMail, recipientsByRole } from '../notifications/outbox';
+import { ROLE } from '../../shared/schemas/roles';
+import { appPaths } from '../../shared/app-paths';
+import type { MailKind } from '../../shared/schemas/notifications';
+
+/** The line every release mail ends with, before its link. */
+const MAIL_CAUTION =
+  "Load a package only after the venue's own checks. Legwork supports, and never replaces, the ride " +
+  "manufacturer's engineering, the applicable codes and a qualified person's sign-off.";
+
+/**
+ * Queues the mail about a release step in the caller's transaction: ready and withdrawn go to the
+ * venue's operators, a problem to the studio's producers and safety reviewers.
+ */
+export async function mailAboutRelease(
+  tx: Db | Tx,
+  studioId: string,
+  row: ReleaseRow,
+  kind: Extract<MailKind, 'release_ready' | 'release_withdrawn' | 'problem_reported'>,
+  words: { by?: string; reason?: string; text?: string } = {},
+): Promise<number> {
+  const n = await auditSubject(tx, studioId, row);
+  const [take] = await tx
+    .select({ number: takes.number })
+    .from(cueRuns)
+    .innerJoin(takes, eq(takes.id, cueRuns.takeId))
+    .where(inStudio(cueRuns, studioId, eq(cueRuns.id, row.runId)));
+  const what = `${n.trackTitle}, take ${take?.number ?? '?'}, for ${n.venueName}`;
+  const userIds =
+    kind === 'problem_reported'
+      ? await recipientsByRole(tx, studioId, [ROLE.producer, ROLE.safety_reviewer])
+      : await recipientsByRole(tx, studioId, [ROLE.venue_operator], { venueId: row.venueId });
+  const mail = {
+    release_ready: {
+      subject: `Package ready: ${what}`,
+      text: `The release package of ${what} is built and ready to download.\nSHA-256 of the zip: ${row.packageSha256 ?? '?'}\nCheck it with \`legwork verify\` before loading.\n\n${MAIL_CAUTION}`,
+    },
+    release_withdrawn: {
+      subject: `Release withdrawn: ${what}`,
+      text: `${words.by ?? 'A producer'} withdrew the release of ${what}: "${words.reason ?? ''}".\nDo not load this package; if it is installed, take it out of service as the venue's procedures say.\n\n${MAIL_CAUTION}`,
+    },
+    problem_reported: {
+      subject: `Problem reported: ${what}`,
+      text: `${words.by ?? 'A venue operator'} reported a problem with the release of ${what}:\n\n"${words.text ?? ''}"`,
+    },
+  }[kind];
+  return queueMail(tx, { studioId, kind, userIds, ...mail, path: appPaths.release(studioId, row.id) });
+}
 
 /** A member acting on releases, with the address the audit log records. */
 export interface ReleaseActor extends VenueScopeMember {
@@ -366,6 +414,9 @@ export async function withdrawRelease(
     .where(inStudio(releases, studioId, eq(releases.id, releaseId)))
     .returning();
   await settleRun(tx, studioId, after!, 'withdrawn');
+  // Operators heard of the package only once it was built.
+  if (before.state === 'ready' || before.state === 'superseded')
+    await mailAboutRelease(tx, studioId, after!, 'release_withdrawn', { by: actor.email, reason });
   await recordAudit(tx, {
     studioId,
     actor: { id: actor.userId, email: actor.email },
@@ -429,6 +480,7 @@ export async function reportProblem(
     subjectId: releaseId,
     detail: { text, problemId: p!.id, ...(await auditSubject(tx, studioId, row)) },
   });
+  await mailAboutRelease(tx, studioId, row, 'problem_reported', { by: actor.email, text });
   return { row, problemId: p!.id };
 }
 

@@ -12,7 +12,14 @@ import type { TestApp } from './support/app';
 import { testEnv } from './support/services';
 import { createStorage } from '../../server/storage';
 import { seedDemoReviews, seedDemoTrack } from '../../server/db/seed';
-import { auditEvents, cueRuns, memberships, releaseDownloads, releases } from '../../server/db/schema';
+import {
+  auditEvents,
+  cueRuns,
+  mailOutbox,
+  memberships,
+  releaseDownloads,
+  releases,
+} from '../../server/db/schema';
 import type { CueRunRow } from '../../server/db/schema';
 import { createBuildReleaseHandler } from '../../worker/jobs/build-release';
 import { releaseCreatedSchema, releaseSchema } from '../../shared/schemas/release';
@@ -64,6 +71,13 @@ const scopeOperator = async (venueIds: string[]) => {
     .set({ venueIds })
     .where(and(eq(memberships.studioId, t.seed.studioId), eq(memberships.userId, op)));
 };
+
+/** Addresses the outbox holds for this kind of mail about this release. */
+const mailedTo = async (kind: string, releaseId: string) =>
+  (await t.tdb.db.select().from(mailOutbox).where(eq(mailOutbox.kind, kind)))
+    .filter((m) => m.path?.endsWith(`/releases/${releaseId}`))
+    .map((m) => m.toEmail)
+    .sort();
 
 /** A general-purpose zip reader: every entry's bytes by name. */
 function unzip(zip: Buffer): Promise<Map<string, Buffer>> {
@@ -196,6 +210,8 @@ describe('releasing a run', () => {
     expect(manifest.reviews.some((r) => r.decision === 'clear')).toBe(true);
     expect(manifest.budget.id).toBe(first.budgetVersionId);
     expect(rel.files.map((f) => f.name).sort()).toEqual(manifest.files.map((f) => f.name).sort());
+    // The venue's operator is told, and no one else.
+    expect(await mailedTo('release_ready', firstRelease)).toEqual([OPERATOR]);
     // The report carries the caution (common practice: the ride maker and the codes decide).
     expect(entries.get('report.html')!.toString('utf8')).toMatch(/never replaces/i);
   });
@@ -281,6 +297,7 @@ describe('venue operators', () => {
     const p = home.problems.find((x) => x.release.id === firstRelease);
     expect(p?.problem.text).toBe('Leg 4 encoder reads 2 mm short at park.');
     expect(p?.problem.by.email).toBe(OPERATOR);
+    expect(await mailedTo('problem_reported', firstRelease)).toEqual([PRODUCER, REVIEWER].sort());
   });
 });
 
@@ -313,6 +330,7 @@ describe('supersede and withdraw', () => {
     const rel = releaseSchema.parse(ok.body);
     expect(rel.state).toBe('withdrawn');
     expect(rel.withdrawnBy?.email).toBe(PRODUCER);
+    expect(await mailedTo('release_withdrawn', secondRelease)).toEqual([OPERATOR]);
     const gone = await download(OPERATOR, secondRelease);
     expect(gone.status).toBe(410);
     expect((await runById(second.id)).state).toBe('withdrawn');

@@ -18,7 +18,7 @@ import { isMissingObject } from '../../server/storage';
 import { recordAudit } from '../../server/audit';
 import { versionRef } from '../../server/pipeline/views';
 import { reviewsOf } from '../../server/pipeline/review';
-import { auditSubject, packageKeyOf, supersedeOlder } from '../../server/pipeline/releases';
+import { auditSubject, mailAboutRelease, packageKeyOf, supersedeOlder } from '../../server/pipeline/releases';
 import { PackageInputError, buildReleasePackage } from '../../server/pipeline/release-package';
 import type { BuiltPackage, ReleasePackageInput } from '../../server/pipeline/release-package';
 import { softwareVersion } from '../../server/lib/version';
@@ -140,6 +140,7 @@ async function publish(
         ...(await auditSubject(tx, release.studioId, ready)),
       },
     });
+    await mailAboutRelease(tx, release.studioId, ready, 'release_ready');
     return { ready, superseded };
   });
 }
