@@ -3,7 +3,12 @@ import { ROLES } from '../../../shared/schemas/roles';
 import type { Role } from '../../../shared/schemas/roles';
 import { PageHeading, Section, Stat } from '../../components/ui/section';
 import { ErrorNotice, Loading } from '../../components/ui/status';
-import { EngineerHeldList, ReviewQueueList } from '../../features/homes/components/role-lists';
+import {
+  EngineerHeldList,
+  OperatorReleases,
+  ProducerAttention,
+  ReviewQueueList,
+} from '../../features/homes/components/role-lists';
 import { PendingInvitationsCount } from '../../features/members/components/invitations-table';
 import { useStudioOverview } from '../../features/studios/api/get-studio-overview';
 import type { StudioOverview } from '../../features/studios/api/get-studio-overview';
@@ -27,6 +32,14 @@ function ProducerDesk({ studioId, counts }: { studioId: string; counts: Counts }
           Open the tracks table
         </Link>{' '}
         to upload takes and cue them for venues.
+      </p>
+      <ProducerAttention studioId={studioId} />
+      <p className="text-xs text-ink-600">
+        A release sends the package to its venue only; the venue&apos;s operators load it after their own
+        checks.{' '}
+        <Link className="text-tealdeep-600 underline" to={`/s/${studioId}/releases`}>
+          Every release
+        </Link>
       </p>
     </Section>
   );
@@ -62,17 +75,20 @@ function SafetyReview({ studioId, counts }: { studioId: string; counts: Counts }
   );
 }
 
-function VenueOperations({
-  studioId,
-  venueIds,
-  counts,
-}: {
-  studioId: string;
-  venueIds: string[];
-  counts: Counts;
-}) {
+function VenueOperations({ studioId, venueIds }: { studioId: string; venueIds: string[] }) {
   return (
     <Section title="Venue operations" testId="home-venue_operator">
+      <p
+        role="note"
+        className="rounded border border-signal-400 bg-white px-3 py-2 text-xs text-ink-800"
+        data-testid="operator-caution"
+      >
+        Load a package on the motion base only after your venue&apos;s own checks: compare its SHA-256 with
+        the release page, run <code className="font-mono">legwork verify</code> on it and follow the ride
+        maker&apos;s procedures. Legwork supports the ride maker, the applicable codes and a qualified
+        person&apos;s sign-off; it never replaces them.
+      </p>
+      <OperatorReleases studioId={studioId} />
       <h3 className="text-sm font-medium text-ink-800">Your venues</h3>
       <StudioVenues
         studioId={studioId}
@@ -80,9 +96,6 @@ function VenueOperations({
         caption="Your venues"
         empty="No venues are assigned to you yet; ask a studio admin."
       />
-      <div className="flex flex-wrap gap-3">
-        <Stat label="Released packages" value={counts.released} />
-      </div>
       <p className="text-xs text-ink-600">
         <Link className="text-tealdeep-600 underline" to={`/s/${studioId}/releases`}>
           Every release of your venues
@@ -135,14 +148,7 @@ export function StudioHomeRoute() {
           case 'safety_reviewer':
             return <SafetyReview key={role} studioId={studioId} counts={counts} />;
           case 'venue_operator':
-            return (
-              <VenueOperations
-                key={role}
-                studioId={studioId}
-                venueIds={membership.venueIds}
-                counts={counts}
-              />
-            );
+            return <VenueOperations key={role} studioId={studioId} venueIds={membership.venueIds} />;
           case 'studio_admin':
             return <StudioAdministration key={role} studioId={studioId} counts={counts} />;
         }

@@ -40,8 +40,8 @@ function navFor(membership: Membership): NavItem[] {
   // Each page is listed for the members whose roles may read it (the shared permission table).
   const can = (permission: Parameters<typeof allows>[1]) => allows(membership.roles, permission);
   if (can('tracks.read')) items.push({ to: `${base}/tracks`, label: 'Tracks' });
-  // Releases join the navigation when the server builds and serves packages; the release pages are
-  // ready (src/features/releases) but this version of the server answers no release route.
+  // Every role reads releases; the server answers an operator with their venues' releases only.
+  if (can('releases.read')) items.push({ to: `${base}/releases`, label: 'Releases' });
   if (can('profiles.read')) items.push({ to: `${base}/profiles`, label: 'Profiles' });
   if (can('members.manage')) items.push({ to: `${base}/members`, label: 'Members' });
   if (can('audit.read')) items.push({ to: `${base}/audit`, label: 'Audit log' });

@@ -284,12 +284,15 @@ describe('pipeline navigation', () => {
   // members, the audit log and tokens; operators see venues and their venues' releases only.
   // Every role reads releases ('releases.read'; the server limits an operator to their venues).
   const expected: [Role, string[]][] = [
-    ['producer', ['Home', 'Venues', 'Tracks', 'Profiles']],
-    ['motion_engineer', ['Home', 'Venues', 'Tracks', 'Profiles']],
+    ['producer', ['Home', 'Venues', 'Tracks', 'Releases', 'Profiles']],
+    ['motion_engineer', ['Home', 'Venues', 'Tracks', 'Releases', 'Profiles']],
     // Safety reviewers read the audit log as well as admins (the role table in shared/permissions.ts).
-    ['safety_reviewer', ['Home', 'Venues', 'Tracks', 'Profiles', 'Audit log']],
-    ['venue_operator', ['Home', 'Venues']],
-    ['studio_admin', ['Home', 'Venues', 'Tracks', 'Profiles', 'Members', 'Audit log', 'API tokens']],
+    ['safety_reviewer', ['Home', 'Venues', 'Tracks', 'Releases', 'Profiles', 'Audit log']],
+    ['venue_operator', ['Home', 'Venues', 'Releases']],
+    [
+      'studio_admin',
+      ['Home', 'Venues', 'Tracks', 'Releases', 'Profiles', 'Members', 'Audit log', 'API tokens'],
+    ],
   ];
   for (const [role, links] of expected) {
     it(`shows ${role} the pipeline pages of that role`, async () => {

@@ -5,6 +5,10 @@ import '@testing-library/jest-dom/vitest';
 import { cleanup, screen, within } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { Me, Venue } from '../../../shared/schemas/api';
+import { operatorHomeSchema, producerHomeSchema } from '../../../shared/schemas/homes';
+import type { OperatorHome, ProducerHome } from '../../../shared/schemas/homes';
+import { releaseSchema } from '../../../shared/schemas/release';
+import type { Release } from '../../../shared/schemas/release';
 import { ROLES } from '../../../shared/schemas/roles';
 import type { Role } from '../../../shared/schemas/roles';
 import { StudioHomeRoute } from '../../../src/app/routes/studio-home';
@@ -47,8 +51,52 @@ function meWith(roles: Role[], venueIds: string[] = []): Me {
   };
 }
 
-function renderHome(me: Me) {
-  fakeApi({
+const EMPTY_PRODUCER: ProducerHome = {
+  held: [],
+  clearedNotReleased: [],
+  problems: [],
+  releasesInProgress: [],
+};
+const EMPTY_OPERATOR: OperatorHome = { new: [], installed: [], withdrawn: [] };
+
+/** A ready release of the dome, parsed by the API contract's schema (shared/schemas/release.ts). */
+function domeRelease(overrides: Partial<Release> = {}): Release {
+  return releaseSchema.parse({
+    id: '2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f',
+    runId: '3d4e5f6a-7b8c-4d9e-8f0a-2b3c4d5e6f7a',
+    trackId: '1b2c3d4e-5f6a-4b7c-8d9e-0f1a2b3c4d5e',
+    trackTitle: 'Lantern Reef dive',
+    takeNumber: 2,
+    venueId: VENUES[0]!.id,
+    venueName: 'Harbour Lights Dome',
+    state: 'ready',
+    failureReason: null,
+    releasedBy: {
+      id: 'c5e3a9d4-7f6b-4a0c-9d8e-3f4a5b6c7d8e',
+      name: 'Pia Okafor',
+      email: 'pia@lanternfish.example',
+    },
+    releasedAt: '2026-12-01T14:30:00.000Z',
+    builtAt: '2026-12-01T14:30:05.000Z',
+    packageName: 'lantern-reef-dive-take2-harbour-lights-dome.zip',
+    packageSha256: 'a'.repeat(64),
+    packageSizeBytes: 1_234_567,
+    files: [],
+    withdrawnAt: null,
+    withdrawnBy: null,
+    withdrawReason: null,
+    supersededAt: null,
+    supersededById: null,
+    acknowledgements: [],
+    problems: [],
+    downloads: 0,
+    lastDownloadAt: null,
+    ...overrides,
+  });
+}
+
+function renderHome(me: Me, homes: { producer?: ProducerHome; operator?: OperatorHome } = {}) {
+  const api = fakeApi({
     'GET /api/auth/me': () => json(me),
     [`GET /api/studios/${STUDIO}/overview`]: () =>
       json({
@@ -58,12 +106,16 @@ function renderHome(me: Me) {
       }),
     [`GET /api/studios/${STUDIO}/venues`]: () => json(VENUES),
     [`GET /api/studios/${STUDIO}/invitations`]: () => json([]),
-    // The role homes' lists (shared/schemas/homes.ts), empty here: their rows are checked in
-    // review-release-screens.test.tsx.
+    // The role homes' lists (shared/schemas/homes.ts), empty unless a test gives them: their rows and
+    // actions are checked in review-release-screens.test.tsx.
     [`GET /api/studios/${STUDIO}/home/review`]: () => json({ runs: [] }),
     [`GET /api/studios/${STUDIO}/home/engineer`]: () => json({ held: [] }),
+    [`GET /api/studios/${STUDIO}/home/producer`]: () =>
+      json(producerHomeSchema.parse(homes.producer ?? EMPTY_PRODUCER)),
+    [`GET /api/studios/${STUDIO}/home/operator`]: () =>
+      json(operatorHomeSchema.parse(homes.operator ?? EMPTY_OPERATOR)),
   });
-  return renderRoutes(
+  renderRoutes(
     [
       {
         path: '/s/:studioId',
@@ -73,6 +125,7 @@ function renderHome(me: Me) {
     ],
     `/s/${STUDIO}`,
   );
+  return api;
 }
 
 afterEach(() => {
@@ -112,7 +165,88 @@ describe('studio home', () => {
     const table = await within(section).findByRole('table', { name: 'Your venues' });
     expect(within(table).getByText('Harbour Lights Dome')).toBeInTheDocument();
     expect(within(table).queryByText('Tidewater Arcade')).toBeNull();
-    expect(within(section).getByText('Released packages').parentElement).toHaveTextContent('4');
+  });
+
+  it("builds the venue operator's home from /home/operator, with the caution to check before loading", async () => {
+    const installed = domeRelease({
+      id: '4e5f6a7b-8c9d-4e0f-8a1b-2c3d4e5f6a7b',
+      takeNumber: 1,
+      acknowledgements: [
+        {
+          by: {
+            id: 'd6f4b0e5-8a7c-4b1d-8e9f-4a5b6c7d8e9f',
+            name: 'Otto Brenner',
+            email: 'otto@lanternfish.example',
+          },
+          note: 'Loaded after the morning checks.',
+          at: '2026-12-01T16:00:00.000Z',
+        },
+      ],
+    });
+    const api = renderHome(meWith(['venue_operator'], [VENUES[0]!.id]), {
+      operator: { new: [domeRelease()], installed: [installed], withdrawn: [] },
+    });
+    const section = await screen.findByTestId('home-venue_operator');
+    const fresh = await within(section).findByRole('table', { name: 'New releases' });
+    expect(within(fresh).getByRole('link', { name: 'Lantern Reef dive, take 2' })).toHaveAttribute(
+      'href',
+      `/s/${STUDIO}/releases/2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f`,
+    );
+    expect(within(fresh).getByRole('link', { name: 'Download package' })).toHaveAttribute(
+      'href',
+      `/api/studios/${STUDIO}/releases/2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f/package`,
+    );
+    expect(within(fresh).getByRole('button', { name: 'Mark as installed' })).toBeInTheDocument();
+    const done = within(section).getByRole('table', { name: 'Installed releases' });
+    expect(done).toHaveTextContent('Lantern Reef dive, take 1');
+    expect(done).toHaveTextContent('Installed at the venue.');
+    expect(within(section).getByText('No release of your venues was withdrawn.')).toBeInTheDocument();
+    const caution = within(section).getByTestId('operator-caution');
+    expect(caution).toHaveTextContent("only after your venue's own checks");
+    expect(caution).toHaveTextContent('never replaces them');
+    expect(api.calls.some((c) => c.path === `/api/studios/${STUDIO}/home/operator`)).toBe(true);
+    // The producer's list is not the operator's to ask for (the role table gives home.producer to producers only).
+    expect(api.calls.some((c) => c.path.endsWith('/home/producer'))).toBe(false);
+  });
+
+  it("builds the producer's home from /home/producer: cleared runs with a Release action", async () => {
+    const api = renderHome(meWith(['producer']), {
+      producer: {
+        held: [],
+        clearedNotReleased: [
+          {
+            id: '3d4e5f6a-7b8c-4d9e-8f0a-2b3c4d5e6f7a',
+            trackId: '1b2c3d4e-5f6a-4b7c-8d9e-0f1a2b3c4d5e',
+            trackTitle: 'Lantern Reef dive',
+            takeNumber: 2,
+            venueId: VENUES[0]!.id,
+            venueName: 'Harbour Lights Dome',
+            state: 'cleared',
+            hardFindings: 0,
+            comfortFindings: 0,
+            worstRatio: 0.62,
+            worstCheck: 'stroke leg3',
+            finishedAt: '2026-12-01T12:00:00.000Z',
+            lastReview: null,
+          },
+        ],
+        problems: [],
+        releasesInProgress: [domeRelease({ state: 'building', builtAt: null, packageSha256: null })],
+      },
+    });
+    const section = await screen.findByTestId('home-producer');
+    const cleared = await within(section).findByRole('table', { name: 'Cleared runs not yet released' });
+    expect(
+      within(cleared).getByRole('button', {
+        name: 'Release Lantern Reef dive, take 2, to Harbour Lights Dome',
+      }),
+    ).toBeEnabled();
+    expect(within(section).getByRole('table', { name: 'Packages building or failed' })).toHaveTextContent(
+      'Lantern Reef dive, take 2',
+    );
+    expect(within(section).getByText('No problems reported.')).toBeInTheDocument();
+    expect(within(section).getByText('No held runs.')).toBeInTheDocument();
+    expect(api.calls.some((c) => c.path.endsWith('/home/operator'))).toBe(false);
   });
 
   it("lists every venue's motion base for a motion engineer: kind, controller rate and seats", async () => {

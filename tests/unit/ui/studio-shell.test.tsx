@@ -80,7 +80,36 @@ describe('studio shell', () => {
       within(nav)
         .getAllByRole('link')
         .map((link) => link.textContent),
-    ).toEqual(['Home', 'Venues', 'Tracks', 'Profiles']);
+    ).toEqual(['Home', 'Venues', 'Tracks', 'Releases', 'Profiles']);
+  });
+
+  it('gives a venue operator Releases in the navigation, and not the studio pages of other roles', async () => {
+    const DOME = 'e7a5c1f6-9b8d-4c2e-8f0a-5b6c7d8e9f0a';
+    const operator: Me = {
+      user: { id: 'd6f4b0e5-8a7c-4b1d-8e9f-4a5b6c7d8e9f', email: 'otto@lanternfish.example', name: 'Otto' },
+      memberships: [
+        {
+          studioId: LANTERNFISH,
+          studioName: 'Lanternfish Studios',
+          studioSlug: 'lanternfish',
+          roles: ['venue_operator'],
+          venueIds: [DOME],
+        },
+      ],
+    };
+    fakeApi({ 'GET /api/auth/me': () => json(operator) });
+    renderRoutes(routes, `/s/${LANTERNFISH}`);
+    const nav = await screen.findByRole('navigation', { name: 'Studio pages' });
+    // shared/permissions.ts: releases.read is every role's; tracks, profiles, members are not an operator's.
+    expect(
+      within(nav)
+        .getAllByRole('link')
+        .map((link) => [link.textContent, link.getAttribute('href')]),
+    ).toEqual([
+      ['Home', `/s/${LANTERNFISH}`],
+      ['Venues', `/s/${LANTERNFISH}/venues`],
+      ['Releases', `/s/${LANTERNFISH}/releases`],
+    ]);
   });
 
   it('sends a signed-out visitor to sign-in and remembers where they were going', async () => {
