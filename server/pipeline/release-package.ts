@@ -67,6 +67,28 @@ export const CONTROLLER_CSV = 'controller/positions_mm.csv';
 export const CONTROLLER_BIN = 'controller/positions_f32le.bin';
 export const LEG_SPEED_CSV = 'series/leg_speed.csv';
 export const LEG_ACCEL_CSV = 'series/leg_accel.csv';
+export const SEAT_FORCE_CSV = 'series/seat_force.csv';
+export const LEG_FORCE_CSV = 'series/leg_force.csv';
+
+/**
+ * Series the run computed and the package carries as they are, when the run has them (runs made
+ * before they were stored have neither; leg forces need a payload on the base).
+ */
+export const RUN_SERIES_FILES = [
+  {
+    run: 'seat_force.csv',
+    file: SEAT_FORCE_CSV,
+    unit: 'm/s^2',
+    describes:
+      'specific force at each seat (x forward, y left, z up, platform frame), before the rider low-pass; at rest fz = +9.80665',
+  },
+  {
+    run: 'leg_force.csv',
+    file: LEG_FORCE_CSV,
+    unit: 'N',
+    describes: 'axial force of each leg from the platform and payload inverse dynamics, compression positive',
+  },
+] as const;
 export const REPORT_HTML = 'report.html';
 
 /** The fixed modification time of every entry (zip times have 2 s resolution and no zone). */
@@ -284,6 +306,37 @@ export async function buildReleasePackage(
   const accel = speed.map((v) => derivative(v, dt));
   const columns = positions.map((_, i) => `leg${i + 1}_mm`);
   const layout = frameLayout(CONTROLLER_BIN, columns, time_s.length, rate);
+  const series: PackageManifest['series'] = [
+    {
+      file: LEG_SPEED_CSV,
+      unit: 'm/s',
+      rate_hz: rate,
+      describes: "each leg's speed",
+      columns: columns.map((_, i) => `leg${i + 1}_mps`),
+    },
+    {
+      file: LEG_ACCEL_CSV,
+      unit: 'm/s^2',
+      rate_hz: rate,
+      describes: "each leg's acceleration",
+      columns: columns.map((_, i) => `leg${i + 1}_mps2`),
+    },
+  ];
+  const stored = new Set(input.run.summary.files.map((f) => f.name));
+  const copiedSeries: { name: string; data: Buffer }[] = [];
+  for (const f of RUN_SERIES_FILES) {
+    if (!stored.has(f.run)) continue;
+    const data = await input.readRunFile(f.run);
+    const header = data.subarray(0, Math.max(0, data.indexOf(10))).toString('utf8');
+    copiedSeries.push({ name: f.file, data });
+    series.push({
+      file: f.file,
+      unit: f.unit,
+      rate_hz: rate,
+      describes: f.describes,
+      columns: header.split(',').slice(1),
+    });
+  }
   entries.push(
     {
       name: REPORT_HTML,
@@ -293,6 +346,7 @@ export async function buildReleasePackage(
     { name: CONTROLLER_BIN, data: Buffer.from(float32Frames(positions)) },
     { name: LEG_SPEED_CSV, data: Buffer.from(seriesCsv(time_s, speed, 'mps', 6), 'utf8') },
     { name: LEG_ACCEL_CSV, data: Buffer.from(seriesCsv(time_s, accel, 'mps2', 5), 'utf8') },
+    ...copiedSeries,
   );
   const files: ManifestFile[] = entries.map((f) => ({
     name: f.name,
@@ -314,6 +368,7 @@ export async function buildReleasePackage(
     filmSync: input.filmSync ?? null,
     reviews: input.reviews,
     controller: { csv: CONTROLLER_CSV, binary: layout },
+    series,
     files,
   });
   entries.push({ name: MANIFEST_NAME, data: Buffer.from(`${JSON.stringify(manifest, null, 2)}\n`, 'utf8') });

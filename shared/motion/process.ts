@@ -75,6 +75,8 @@ export interface ProcessResult {
   legs: Float64Array[];
   /** Axial leg forces (N, compression positive) when the base carries a payload (hexapods), else null. */
   legForce_N: Float64Array[] | null;
+  /** Specific force at each seat [x, y, z] (m/s^2, platform frame), before the rider low-pass. */
+  seatForce_mps2: (readonly [Float64Array, Float64Array, Float64Array])[];
   check: BudgetCheck;
   /** findings.json content (rounded for reading). */
   findings: CheckResult;
@@ -341,6 +343,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
     pose,
     legs,
     legForce_N: legForce,
+    seatForce_mps2: seatForce,
     check,
     findings: findingsForJson(check, notes),
     spectra,

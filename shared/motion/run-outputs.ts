@@ -55,10 +55,25 @@ export function legsCsv(r: Pick<ProcessResult, 'time_s' | 'legs'>): string {
   return columnsCsv(header, r.time_s, r.legs);
 }
 
+/** CSV text of each seat's specific force, x, y and z per seat (m/s^2, platform frame, micro-m/s^2). */
+export function seatForceCsv(r: Pick<ProcessResult, 'time_s' | 'seatForce_mps2'>): string {
+  const header = [
+    'time_s',
+    ...r.seatForce_mps2.flatMap((_, s) => ['x', 'y', 'z'].map((a) => `seat${s + 1}_f${a}_mps2`)),
+  ].join(',');
+  return columnsCsv(header, r.time_s, r.seatForce_mps2.flat(), 6);
+}
+
+/** CSV text of each leg's axial force (N, compression positive, to the millinewton). */
+export function legForceCsv(time_s: Float64Array, legForce_N: readonly Float64Array[]): string {
+  const header = ['time_s', ...legForce_N.map((_, i) => `leg${i + 1}_N`)].join(',');
+  return columnsCsv(header, time_s, legForce_N, 3);
+}
+
 // Nine decimals (nanometres, nanoradians) keep second differences of a re-read file at 1 kHz far
 // below any limit. Time has six (microseconds); a tiny negative value is written as plain zero.
-function columnsCsv(header: string, time_s: Float64Array, cols: readonly Float64Array[]): string {
-  return fixedColumnsCsv(header, time_s, cols, 6, 9);
+function columnsCsv(header: string, time_s: Float64Array, cols: readonly Float64Array[], digits = 9): string {
+  return fixedColumnsCsv(header, time_s, cols, 6, digits);
 }
 
 /** A file named and hashed by the caller (hashing needs I/O or node:crypto, which shared/ has not). */
@@ -208,6 +223,8 @@ export function buildRunOutputs(
     files: [
       file('legs.csv', legsCsv(result)),
       file('pose.csv', poseCsv(result)),
+      file('seat_force.csv', seatForceCsv(result)),
+      ...(result.legForce_N ? [file('leg_force.csv', legForceCsv(result.time_s, result.legForce_N))] : []),
       file('findings.json', `${JSON.stringify(result.findings, null, 2)}\n`),
       file('spectra.json', `${JSON.stringify(spectra)}\n`),
       file('report.txt', report),

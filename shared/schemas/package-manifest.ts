@@ -22,6 +22,15 @@ export const frameLayoutSchema = z.object({
   header: z.literal('none'),
 });
 
+/** A time series at the controller rate in the package: CSV with time_s first, then these columns. */
+export const seriesFileSchema = z.object({
+  file: z.string().min(1),
+  unit: z.string(),
+  rate_hz: z.number().positive(),
+  describes: z.string(),
+  columns: z.array(z.string()),
+});
+
 export const packageManifestSchema = z.object({
   format: z.literal('legwork-release-package'),
   formatVersion: z.literal(1),
@@ -39,6 +48,8 @@ export const packageManifestSchema = z.object({
   filmSync: z.record(z.string(), z.unknown()).nullable(),
   reviews: z.array(reviewSchema),
   controller: z.object({ csv: z.string(), binary: frameLayoutSchema }),
+  /** The time series beside the controller files (absent in packages built before they were listed). */
+  series: z.array(seriesFileSchema).optional(),
   files: z.array(manifestFileSchema),
 });
 export type PackageManifest = z.infer<typeof packageManifestSchema>;

@@ -24,6 +24,18 @@ export const PACKAGE_FILES = [
     contentType: 'text/csv',
     describes: 'pose offsets from neutral at the controller rate',
   },
+  {
+    name: 'seat_force.csv',
+    contentType: 'text/csv',
+    describes:
+      'specific force at each seat, platform frame, before the rider low-pass (time_s, seat1_fx_mps2 ..)',
+  },
+  {
+    name: 'leg_force.csv',
+    contentType: 'text/csv',
+    describes:
+      'axial force of each leg, compression positive, when the base has a payload (time_s, leg1_N ..)',
+  },
   { name: 'findings.json', contentType: 'application/json', describes: 'findings, uses and comfort figures' },
   {
     name: 'spectra.json',

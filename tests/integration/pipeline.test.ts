@@ -223,6 +223,7 @@ describe('cue runs', () => {
         'legs.csv',
         'pose.csv',
         'report.txt',
+        'seat_force.csv',
         'spectra.json',
       ]);
       const d = runDetailSchema.parse((await producer.get(`${base()}/runs/${run.id}`).expect(200)).body);

@@ -171,6 +171,7 @@ describe('legwork process', () => {
       'legs.csv',
       'pose.csv',
       'report.txt',
+      'seat_force.csv',
       'spectra.json',
     ]);
     for (const f of manifest.files) {

@@ -126,3 +126,58 @@ describe('release package', () => {
     expect(html).not.toMatch(/<link|src=|@import/);
   });
 });
+
+describe('force series in the release package', () => {
+  const seatCsv =
+    'time_s,seat1_fx_mps2,seat1_fy_mps2,seat1_fz_mps2\n0.000000,0.1,0,9.80665\n0.020000,0.2,0,9.9\n0.040000,0,0,9.80665\n';
+  const forceCsv = 'time_s,leg1_N,leg2_N\n0.000000,1000.5,990\n0.020000,1001,991\n0.040000,1000,990\n';
+  const withSeries = (): ReleasePackageInput => {
+    const i = input();
+    const entry = (name: string, text: string) => ({
+      name,
+      sha256: createHash('sha256').update(text).digest('hex'),
+      size_bytes: Buffer.byteLength(text),
+    });
+    i.run.summary.files = [entry('seat_force.csv', seatCsv), entry('leg_force.csv', forceCsv)];
+    i.readRunFile = async (name) =>
+      name === 'legs.csv'
+        ? legsCsv
+        : name === 'seat_force.csv'
+          ? Buffer.from(seatCsv)
+          : name === 'leg_force.csv'
+            ? Buffer.from(forceCsv)
+            : Buffer.from(`${name}\n`);
+    return i;
+  };
+
+  it("carries the run's seat and leg force series as they were stored, each listed with its columns", async () => {
+    const files = await unzip((await buildReleasePackage(withSeries())).zip);
+    const manifest = packageManifestSchema.parse(JSON.parse(files.get('manifest.json')!.toString('utf8')));
+    expect(files.get('series/seat_force.csv')!.toString('utf8')).toBe(seatCsv);
+    expect(files.get('series/leg_force.csv')!.toString('utf8')).toBe(forceCsv);
+    const listed = new Map(manifest.series!.map((s) => [s.file, s]));
+    expect(listed.get('series/seat_force.csv')).toMatchObject({
+      unit: 'm/s^2',
+      rate_hz: 50,
+      columns: ['seat1_fx_mps2', 'seat1_fy_mps2', 'seat1_fz_mps2'],
+    });
+    expect(listed.get('series/leg_force.csv')).toMatchObject({ unit: 'N', columns: ['leg1_N', 'leg2_N'] });
+    // Every series named in the manifest is in the zip and in the checksummed file list.
+    for (const s of manifest.series!) {
+      expect(files.has(s.file), s.file).toBe(true);
+      expect(
+        manifest.files.some((f) => f.name === s.file),
+        s.file,
+      ).toBe(true);
+      const header = files.get(s.file)!.toString('utf8').split('\n')[0]!.split(',');
+      expect(header).toEqual(['time_s', ...s.columns]);
+    }
+  });
+
+  it('leaves the force series out for a run that did not store them', async () => {
+    const files = await unzip((await buildReleasePackage(input())).zip);
+    const manifest = packageManifestSchema.parse(JSON.parse(files.get('manifest.json')!.toString('utf8')));
+    expect(files.has('series/seat_force.csv')).toBe(false);
+    expect(manifest.series!.map((s) => s.file)).toEqual(['series/leg_speed.csv', 'series/leg_accel.csv']);
+  });
+});
