@@ -1,5 +1,6 @@
 // Clearing or holding a run: the rules of shared/review-rules.ts applied under a row lock, the review
-// kept, the run's state moved and the audit written, all in the caller's transaction. The review
+// kept, the run's state moved, the audit written and (for a hold) the "run is held" mail queued, all in
+// the caller's transaction. The review
 // route and the demo seed both use it.
 import { eq, desc, inArray } from 'drizzle-orm';
 import type { Db, Tx } from '../db/client';
@@ -10,6 +11,7 @@ import { canSeeVenue } from '../auth/permissions';
 import type { VenueScopeMember } from '../../shared/permissions';
 import { HttpError, badRequest, notFound } from '../lib/http-error';
 import { recordAudit } from '../audit';
+import { queueRunHeldMail } from '../notifications/run-mails';
 import { loadRun } from './run-detail';
 import type { LoadedRun } from './run-detail';
 import { versionRef } from './views';
@@ -135,5 +137,13 @@ export async function applyReview(
       venueId: loaded.run.venueId,
     },
   });
-  return { ...loaded, run: updated! };
+  const result = { ...loaded, run: updated! };
+  if (body.decision === 'hold') {
+    const [who] = await tx.select({ name: users.name }).from(users).where(eq(users.id, reviewer.userId));
+    await queueRunHeldMail(tx, studioId, result, {
+      reviewerName: who?.name ?? reviewer.email,
+      reason: body.reason,
+    });
+  }
+  return result;
 }

@@ -32,6 +32,8 @@ import type { CueingProfile } from '../../shared/schemas/cueing-profile';
 import { cueRunJobSchema, storedRunSummarySchema } from '../../shared/schemas/run-outputs';
 import type { ManifestFile, StoredRunSummary } from '../../shared/schemas/run-outputs';
 import { softwareVersion } from '../../server/lib/version';
+import { loadRun } from '../../server/pipeline/run-detail';
+import { queueRunFinishedMails } from '../../server/notifications/run-mails';
 import { takeFilmSync } from '../../server/pipeline/views';
 import { runFilmSync, runParamsSchema } from '../../shared/schemas/run-params';
 
@@ -225,6 +227,9 @@ async function finish(deps: CueRunDeps, run: CueRunRow, outputs: RunOutputs, fil
         subjectId: run.id,
         detail: { findings: summary.findings.length, exitCode: summary.exitCode },
       });
+      // The reviewers' (and, held with a hard finding, the producers' and engineers') mail, queued in
+      // this transaction: it exists exactly when the new state does.
+      await queueRunFinishedMails(tx, run.studioId, await loadRun(tx, run.studioId, run.id));
     }
   });
   deps.log(`cue run ${run.id}: ${state} (${summary.findings.length} finding(s))`);
