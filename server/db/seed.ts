@@ -25,6 +25,8 @@ import { queueRuns } from '../pipeline/queue-runs';
 import { applyReview, findingCounts } from '../pipeline/review';
 import { demoRideCsv } from '../../shared/demo-ride';
 import { createHandler as createCueRunHandler } from '../../worker/jobs/cue-run';
+import { createBuildReleaseHandler } from '../../worker/jobs/build-release';
+import { acknowledgeRelease, createRelease, withdrawRelease } from '../pipeline/releases';
 import { hashPassword } from '../auth/passwords';
 import {
   DEMO_PASSWORD,
@@ -230,6 +232,82 @@ export async function seedDemoReviews(
   });
 }
 
+/**
+ * The demo's releases, through the same steps as the routes and the worker: the run the reviewer
+ * cleared goes out to Harbour Lights Dome and is withdrawn (the recut replaces it); the recut is
+ * cleared, released there, built and acknowledged as installed by the dome's operator. One run stays
+ * awaiting review, the rattle cut stays held by its comfort findings, the hot cut held for a hard one.
+ */
+export async function seedDemoReleases(
+  db: Db,
+  pool: pg.Pool,
+  storage: Storage,
+  boss: PgBoss,
+  ids: Awaited<ReturnType<typeof seedDemo>>,
+  runs: { take: number; venue: 'dome' | 'arcade'; runId: string }[],
+): Promise<void> {
+  const person = (role: string) => {
+    const u = DEMO_USERS.find((x) => x.roles.includes(role as never))!;
+    return {
+      userId: ids.userIds[u.email]!,
+      email: u.email,
+      roles: u.roles,
+      venueIds: (u.venues ?? []).map((v) => ids.venueIds[v]),
+    };
+  };
+  const producer = person('producer');
+  const reviewer = person('safety_reviewer');
+  const operator = person('venue_operator');
+  const build = createBuildReleaseHandler({ db, storage, log: () => undefined, now: () => new Date() });
+  const releaseAndBuild = async (runId: string) => {
+    const made = await createRelease(pool, boss, { studioId: ids.studioId, runId, actor: producer });
+    await build({ id: made.id, data: { releaseId: made.id, studioId: ids.studioId } });
+    return made.id;
+  };
+  const rows = await db
+    .select()
+    .from(cueRuns)
+    .where(
+      inArray(
+        cueRuns.id,
+        runs.map((r) => r.runId),
+      ),
+    );
+  const at = (take: number, venue: 'dome' | 'arcade') =>
+    rows.find((r) => r.id === runs.find((x) => x.take === take && x.venue === venue)?.runId);
+  const first = rows.find((r) => r.state === 'cleared' && r.venueId === ids.venueIds.dome);
+  const recut = at(2, 'dome');
+  if (!first || !recut || findingCounts(recut).hard > 0 || recut.state === 'cleared') return;
+  const withdrawn = await releaseAndBuild(first.id);
+  await db.transaction((tx) =>
+    withdrawRelease(
+      tx,
+      ids.studioId,
+      producer,
+      withdrawn,
+      'The recut with the softer launch replaces this cut at the dome.',
+    ),
+  );
+  await db.transaction((tx) =>
+    applyReview(tx, ids.studioId, recut.id, reviewer, {
+      decision: 'clear',
+      reason: findingCounts(recut).comfort
+        ? 'Comfort findings are brief and inside what this ride accepts; checked against the budget.'
+        : '',
+    }),
+  );
+  const installed = await releaseAndBuild(recut.id);
+  await db.transaction((tx) =>
+    acknowledgeRelease(
+      tx,
+      ids.studioId,
+      operator,
+      installed,
+      'Loaded on the dome controller after the venue checks.',
+    ),
+  );
+}
+
 /** Seeds the demo studio (and, given storage and the queue, its demo track) when the database has no studio yet. */
 export async function seedDemoIfEmpty(
   url: string,
@@ -243,6 +321,7 @@ export async function seedDemoIfEmpty(
     if (services) {
       const runs = await seedDemoTrack(db, pool, services.storage, services.boss, ids);
       await seedDemoReviews(db, ids, runs);
+      await seedDemoReleases(db, pool, services.storage, services.boss, ids, runs);
     }
     return true;
   } finally {
