@@ -8,6 +8,12 @@ const bool = z
 
 export const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  /**
+   * `local` only under the local orchestration (`npm start`, `npm run dev`, `npm test`, `npm run
+   * services`), which sets it: local stand-ins such as the mailbox route are served only then. Any
+   * other installation is `hosted`, the default, whatever NODE_ENV says.
+   */
+  LEGWORK_MODE: z.enum(['local', 'hosted']).default('hosted'),
   HOST: z.string().default('127.0.0.1'),
   PORT: z.coerce.number().int().min(1).max(65535).default(5480),
   PUBLIC_URL: z.string().url().optional(),

@@ -166,6 +166,8 @@ async function startServices(database: string): Promise<Services> {
     SMTP_HOST: '127.0.0.1',
     SMTP_PORT: String(ports.smtp),
     MAIL_CAPTURE_DIR: mailDir,
+    // The local stand-ins (the mailbox route) are served only when this says so explicitly.
+    LEGWORK_MODE: 'local',
     SESSION_SECRET: sessionSecret(),
     HOST: '127.0.0.1',
     PORT: String(ports.app),

@@ -1,15 +1,25 @@
 import { Router } from 'express';
-import { count, eq } from 'drizzle-orm';
+import { and, arrayOverlaps, count, countDistinct, eq, inArray } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
 import { cueRuns, memberships, studios, tracks, venues } from '../db/schema';
 import { inStudio, visibleVenues } from '../db/scope';
 import { requirePermission } from '../auth/require-permission';
+import { venueScope } from '../auth/permissions';
 
-/** GET /api/studios/:studioId/overview: the counts every home screen starts from. */
+/** Matches no venue (no venue has the nil UUID), for an operator assigned to none. */
+const NO_VENUE = '00000000-0000-0000-0000-000000000000';
+
+/**
+ * GET /api/studios/:studioId/overview: the counts every home screen starts from. A member limited to
+ * some venues (venueScope) gets every figure about those venues only: their venues, the tracks with a
+ * run for one of them, those runs by state, and the members assigned to one of them.
+ */
 export function overviewRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
   r.get('/', requirePermission('studio.read'), async (req, res) => {
     const m = req.member!;
+    const scope = venueScope(m);
+    const scopeIds = scope === null ? null : scope.length > 0 ? [...scope] : [NO_VENUE];
     const [studio] = await deps.db
       .select({ id: studios.id, name: studios.name, slug: studios.slug })
       .from(studios)
@@ -21,12 +31,23 @@ export function overviewRouter(deps: AppDeps): Router {
     const [mem] = await deps.db
       .select({ n: count() })
       .from(memberships)
-      .where(eq(memberships.studioId, m.studioId));
-    const [tr] = await deps.db.select({ n: count() }).from(tracks).where(inStudio(tracks, m.studioId));
+      .where(
+        scopeIds === null
+          ? eq(memberships.studioId, m.studioId)
+          : and(eq(memberships.studioId, m.studioId), arrayOverlaps(memberships.venueIds, scopeIds)),
+      );
+    const runsAtVenues = scopeIds === null ? undefined : inArray(cueRuns.venueId, scopeIds);
+    const [tr] =
+      scopeIds === null
+        ? await deps.db.select({ n: count() }).from(tracks).where(inStudio(tracks, m.studioId))
+        : await deps.db
+            .select({ n: countDistinct(cueRuns.trackId) })
+            .from(cueRuns)
+            .where(inStudio(cueRuns, m.studioId, runsAtVenues));
     const byState = await deps.db
       .select({ state: cueRuns.state, n: count() })
       .from(cueRuns)
-      .where(inStudio(cueRuns, m.studioId))
+      .where(inStudio(cueRuns, m.studioId, runsAtVenues))
       .groupBy(cueRuns.state);
     const runs = (s: string) => byState.filter((b) => b.state === s).reduce((a, b) => a + b.n, 0);
     res.json({
