@@ -336,11 +336,26 @@ export function bandLimitedDerivativeInto(
   const taps = order === 1 ? diff.d1 : diff.d2;
   const M = (taps.length - 1) / 2;
   const ext = extendByPrediction(src, M);
-  const L = taps.length;
-  for (let i = 0; i < n; i++) {
-    let s = 0;
-    for (let k = 0; k < L; k++) s += (taps[k] as number) * (ext[i + k] as number);
-    out[i * stride + offset] = s;
+  // The first-derivative taps are odd (c[-k] = -c[k], c[0] = 0) and the second's even, exactly (see
+  // derivativeTaps): fold them, half the multiplications.
+  const half = taps.slice(M);
+  const centre = half[0] as number;
+  if (order === 1) {
+    for (let i = 0; i < n; i++) {
+      const c = i + M;
+      let s = 0;
+      for (let k = 1; k <= M; k++)
+        s += (half[k] as number) * ((ext[c + k] as number) - (ext[c - k] as number));
+      out[i * stride + offset] = s;
+    }
+  } else {
+    for (let i = 0; i < n; i++) {
+      const c = i + M;
+      let s = centre * (ext[c] as number);
+      for (let k = 1; k <= M; k++)
+        s += (half[k] as number) * ((ext[c + k] as number) + (ext[c - k] as number));
+      out[i * stride + offset] = s;
+    }
   }
 }
 

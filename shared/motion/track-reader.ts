@@ -219,16 +219,21 @@ const POW10 = [
   1e20, 1e21, 1e22,
 ];
 
+// Where the last scanDecimal stopped: the index of the first character after the number.
+let scanStop = 0;
+
 /**
- * The value of text[from, to) when it is a plain decimal (sign, digits, a point, digits, an exponent:
- * a subset of NUMBER_RE) of at most 15 significant digits whose scale is within 10^22; NaN for
- * anything else, which the caller then reads the slow way. The result equals Number() of the text:
- * the digits make an integer below 2^53, exactly a double, and one multiplication or division by an
+ * Reads the plain decimal at text[from, ...) (sign, digits, a point, digits, an exponent: a subset of
+ * NUMBER_RE) up to the first character that cannot continue it or `to`, and sets scanStop there.
+ * Returns its value when it has at most 15 significant digits and its scale is within 10^22, else
+ * NaN (the caller then reads the field the slow way). The value equals Number() of the text: the
+ * digits make an integer below 2^53, exactly a double, and one multiplication or division by an
  * exact power of ten rounds correctly (Clinger, "How to read floating point numbers accurately",
  * PLDI 1990, the fast path).
  */
-export function parseDecimal(text: string, from: number, to: number): number {
+function scanDecimal(text: string, from: number, to: number): number {
   let i = from;
+  scanStop = from;
   if (i >= to) return NaN;
   let c = text.charCodeAt(i);
   let neg = false;
@@ -280,7 +285,7 @@ export function parseDecimal(text: string, from: number, to: number): number {
     let edigits = 0;
     while (i < to) {
       const d = text.charCodeAt(i) - 48;
-      if (d < 0 || d > 9) return NaN;
+      if (d < 0 || d > 9) break;
       if (++edigits > 4) return NaN;
       e = e * 10 + d;
       i++;
@@ -288,7 +293,7 @@ export function parseDecimal(text: string, from: number, to: number): number {
     if (edigits === 0) return NaN;
     scale += eneg ? -e : e;
   }
-  if (i !== to) return NaN;
+  scanStop = i;
   let v: number;
   if (mant === 0) v = 0;
   else if (scale >= 0) {
@@ -299,6 +304,15 @@ export function parseDecimal(text: string, from: number, to: number): number {
     v = mant / (POW10[-scale] as number);
   }
   return neg ? -v : v;
+}
+
+/**
+ * The value of text[from, to) when it is all one plain decimal that scanDecimal reads, else NaN: the
+ * value Number() gives, or NaN where only the slow way can tell.
+ */
+export function parseDecimal(text: string, from: number, to: number): number {
+  const v = scanDecimal(text, from, to);
+  return scanStop === to ? v : NaN;
 }
 
 function showField(raw: string): string {
@@ -654,15 +668,22 @@ export class TrackReader {
     const scale = this.scale;
     let pos = from;
     for (let c = 0; c < n; c++) {
-      let comma = text.indexOf(',', pos);
-      if (comma < 0 || comma > end) comma = -1;
-      if ((c < n - 1 && comma < 0) || (c === n - 1 && comma >= 0)) {
-        const got = text.slice(from, end).split(',').length;
-        this.fail(ln, null, null, 'fieldCount', `wrong field count: expected ${n} fields, got ${got}`);
+      // One pass reads the number and finds its end, which must be the comma (or the line's end for
+      // the last field); anything else is read again the slow way.
+      let x = scanDecimal(text, pos, end);
+      let stop = scanStop;
+      const last = c === n - 1;
+      if (x !== x || (last ? stop !== end : stop === end || text.charCodeAt(stop) !== 44)) {
+        let comma = text.indexOf(',', pos);
+        if (comma < 0 || comma > end) comma = -1;
+        if ((!last && comma < 0) || (last && comma >= 0)) {
+          const got = text.slice(from, end).split(',').length;
+          this.fail(ln, null, null, 'fieldCount', `wrong field count: expected ${n} fields, got ${got}`);
+        }
+        stop = comma < 0 ? end : comma;
+        x = parseDecimal(text, pos, stop);
+        if (x !== x) x = this.slowField(text, pos, stop, c);
       }
-      const stop = comma < 0 ? end : comma;
-      let x = parseDecimal(text, pos, stop);
-      if (x !== x) x = this.slowField(text, pos, stop, c);
       pos = stop + 1;
       // Finite: a plain decimal is below 1e37, and slowField refuses what is not.
       const v = x * (scale[c] as number);

@@ -68,6 +68,36 @@ describe('band-limited derivatives', () => {
     }
   });
 
+  it('the first-derivative taps are odd and the second-derivative taps even, exactly (as the derivatives of the sinc are)', () => {
+    // Source: sinc is even, so its first derivative is odd and its second even (calculus); the
+    // filters fold each pair of taps on this.
+    const { d1, d2 } = derivativeTaps();
+    const M = (d1.length - 1) / 2;
+    expect(d1[M]).toBe(0);
+    for (let k = 1; k <= M; k++) {
+      expect(d1[M - k]).toBe(-d1[M + k]!);
+      expect(d2[M - k]).toBe(d2[M + k]);
+    }
+  });
+
+  it('the folded filters equal the plain 49-tap convolution of the extended track', () => {
+    // Independent computation: the convolution written out directly over every tap.
+    const rate = 100;
+    const x = Float64Array.from({ length: 500 }, (_, i) => Math.sin(i * 0.07) + 0.2 * Math.cos(i * 0.9) + 3);
+    const D = differentiator(rate);
+    for (const order of [1, 2] as const) {
+      const taps = order === 1 ? D.d1 : D.d2;
+      const M = (taps.length - 1) / 2;
+      const ext = extendByPrediction(x, M);
+      const got = bandLimitedDerivative(D, order, x);
+      for (let i = 0; i < x.length; i++) {
+        let s = 0;
+        for (let k = 0; k < taps.length; k++) s += taps[k]! * ext[i + k]!;
+        expect(Math.abs(got[i]! - s)).toBeLessThan(1e-12 * rate ** order);
+      }
+    }
+  });
+
   it('continues a track at rest as a track at rest', () => {
     const x = new Float64Array(50).fill(0.25);
     const e = extendByPrediction(x, 30);
