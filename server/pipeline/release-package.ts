@@ -226,6 +226,15 @@ function fmtNum(v: number): string {
   return Math.abs(v) >= 100 ? v.toFixed(0) : Math.abs(v) >= 1 ? v.toFixed(2) : v.toPrecision(3);
 }
 
+/** The report's film sync row (the picture's rate, first timecode, the motion's offset), or nothing. */
+function filmSyncRow(sync: ReleasePackageInput['filmSync']): string {
+  if (!sync) return '';
+  const label = String(sync.frameRateLabel ?? sync.frameRate ?? '');
+  const offset = Number(sync.offset_frames ?? 0);
+  return `<tr><th>Film sync</th><td>${escapeHtml(label)}, picture starts ${escapeHtml(String(sync.startTimecode ?? ''))}, motion ${offset >= 0 ? '+' : ''}${offset} frame(s) against the picture</td></tr>
+`;
+}
+
 /** The printable, self-contained safety report: inline CSS and SVG, no external resources. */
 export function buildReportHtml(
   input: ReleasePackageInput,
@@ -274,7 +283,7 @@ svg text{font-size:10px;fill:#333}.grid{stroke:#ccc}.leg{fill:none;stroke-width:
 <tr><th>Motion base</th><td>${e(input.motionBase.name)} (geometry SHA-256 ${e(input.motionBase.sha256)})</td></tr>
 <tr><th>Cueing profile</th><td>${input.cueing ? `${e(input.cueing.name)} v${input.cueing.version}` : 'none (the take is a pose or legs track)'}</td></tr>
 <tr><th>Budget</th><td>${e(input.budget.name)} v${input.budget.version}</td></tr>
-<tr><th>Software</th><td>Legwork ${e(input.softwareVersion)}</td></tr>
+${filmSyncRow(input.filmSync)}<tr><th>Software</th><td>Legwork ${e(input.softwareVersion)}</td></tr>
 <tr><th>Verdict</th><td>${s.within ? 'Within budget' : 'Over budget'}, ${s.samples} samples at ${s.rate_hz} Hz, ${s.duration_s.toFixed(1)} s</td></tr></table>
 <h2>Leg stroke use over time</h2>
 ${strokeChart(time_s, positions_mm, stroke_mm, s.findings)}

@@ -11,6 +11,12 @@ import { createStorage } from '../../server/storage';
 import { testEnv } from './support/services';
 import { QUEUES } from '../../server/queue';
 import { createHandler } from '../../worker/jobs/cue-run';
+import { createBuildReleaseHandler } from '../../worker/jobs/build-release';
+import { packageManifestSchema } from '../../shared/schemas/package-manifest';
+import { releaseCreatedSchema } from '../../shared/schemas/release';
+import { releases } from '../../server/db/schema';
+import yauzl from 'yauzl';
+import { makePoseTrackFrom, poseTrackCsv, smoothStep } from '../unit/budget/track-builders';
 import type { JobMeta } from '../../worker/jobs/cue-run';
 import { makeVehicleCsv } from '../factories/takes';
 import {
@@ -23,6 +29,7 @@ import {
 let t: TestApp;
 let producer: Client;
 let engineer: Client;
+let reviewer: Client;
 let storage: ReturnType<typeof createStorage>;
 
 beforeAll(async () => {
@@ -43,6 +50,8 @@ beforeAll(async () => {
   await producer.signIn('pia.producer@lanternfish.example');
   engineer = new Client(t.app);
   await engineer.signIn('eli.engineer@lanternfish.example');
+  reviewer = new Client(t.app);
+  await reviewer.signIn('rosa.reviewer@lanternfish.example');
 }, 60_000);
 afterAll(async () => {
   storage.close();
@@ -211,5 +220,90 @@ describe('nudging the film offset of a run', () => {
     expect((await engineer.send('post', path, { offset_frames: 1 })).status).toBe(403);
     const runsNow = await t.tdb.db.select({ n: count() }).from(cueRuns).where(eq(cueRuns.takeId, take.id));
     expect(runsNow[0]!.n).toBe(1);
+  });
+});
+
+/** A general-purpose zip reader: one entry's bytes by name. */
+function zipEntry(zip: Buffer, name: string): Promise<Buffer> {
+  return new Promise((resolve, reject) => {
+    yauzl.fromBuffer(zip, { lazyEntries: true }, (err, zf) => {
+      if (err || !zf) return reject(err ?? new Error('no zip'));
+      zf.on('entry', (entry: yauzl.Entry) => {
+        if (entry.fileName !== name) return zf.readEntry();
+        zf.openReadStream(entry, (e, s) => {
+          if (e || !s) return reject(e ?? new Error('no stream'));
+          const chunks: Buffer[] = [];
+          s.on('data', (c: Buffer) => chunks.push(c));
+          s.on('end', () => resolve(Buffer.concat(chunks)));
+        });
+      });
+      zf.on('end', () => reject(new Error(`${name} is not in the zip`)));
+      zf.readEntry();
+    });
+  });
+}
+
+describe('film sync in the release package', () => {
+  it("carries the take's frame rate and start timecode with the released run's own (nudged) offset", async () => {
+    const track = await newTrack('Glasswing Release');
+    // A gentle pose take (a 5 mm heave, at rest at both ends), well inside any budget.
+    const gentle = poseTrackCsv(
+      makePoseTrackFrom(100, 8, (t) => [0, 0, 0.005 * (smoothStep(t, 1, 3) - smoothStep(t, 5, 7)), 0, 0, 0]),
+    );
+    const take = uploadedTakeSchema.parse(
+      (
+        await upload(
+          track.id,
+          `&frameRate=29.97df&startTimecode=${encodeURIComponent('00:59:50;00')}&offset_frames=-2`,
+          gentle,
+        )
+      ).body,
+    );
+    const asked = await producer.send('post', `${base()}/takes/${take.id}/runs`, {
+      venueIds: [t.seed.venueIds.dome],
+    });
+    const first = runSummarySchema.array().parse(asked.body)[0]!;
+    await waitForRun(first.id);
+    const nudged = runSummarySchema.parse(
+      (await producer.send('post', `${base()}/runs/${first.id}/film-offset`, { offset_frames: 4 })).body,
+    );
+    const row = await waitForRun(nudged.id);
+    expect(row.state, 'the take must be clean for this test to release it').toBe('awaiting_review');
+    const cleared = await reviewer.send('post', `${base()}/runs/${nudged.id}/review`, {
+      decision: 'clear',
+      reason: 'Checked against the venue budget; accepted.',
+    });
+    expect(cleared.status, JSON.stringify(cleared.body)).toBe(200);
+    const rel = await producer.send('post', `${base()}/runs/${nudged.id}/release`, {});
+    expect(rel.status, JSON.stringify(rel.body)).toBe(201);
+    const releaseId = releaseCreatedSchema.parse(rel.body).id;
+    const build = createBuildReleaseHandler({
+      db: t.tdb.db,
+      storage,
+      log: () => undefined,
+      now: () => new Date(),
+    });
+    await build({ id: releaseId, data: { releaseId, studioId: t.seed.studioId } });
+    const [built] = await t.tdb.db.select().from(releases).where(eq(releases.id, releaseId));
+    expect(built!.state, built!.failureReason ?? '').toBe('ready');
+    const o = await storage.client.send(
+      new GetObjectCommand({ Bucket: storage.bucket, Key: built!.packageKey! }),
+    );
+    const zip = Buffer.from(await o.Body!.transformToByteArray());
+    const manifest = packageManifestSchema.parse(
+      JSON.parse((await zipEntry(zip, 'manifest.json')).toString('utf8')),
+    );
+    expect(manifest.filmSync).toMatchObject({
+      frameRate: '29.97df',
+      dropFrame: true,
+      startTimecode: '00:59:50;00',
+      offset_frames: 4,
+      frameRate_num: 30_000,
+      frameRate_den: 1001,
+    });
+    // 4 frames at 30000/1001 fps are 4 x 1001 / 30000 s (SMPTE ST 12-1 rate of 29.97 fps).
+    expect(manifest.filmSync!.offset_s).toBeCloseTo((4 * 1001) / 30_000, 12);
+    const report = (await zipEntry(zip, 'report.html')).toString('utf8');
+    expect(report).toContain('29.97 fps drop-frame, picture starts 00:59:50;00, motion +4 frame(s)');
   });
 });

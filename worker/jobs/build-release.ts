@@ -11,7 +11,7 @@ import { and, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../../server/db/client';
 import { cueRuns, releases, takes, tracks, users, venues } from '../../server/db/schema';
-import type { ReleaseRow } from '../../server/db/schema';
+import type { CueRunRow, ReleaseRow, TakeRow } from '../../server/db/schema';
 import { inStudio } from '../../server/db/scope';
 import type { Storage } from '../../server/storage';
 import { isMissingObject } from '../../server/storage';
@@ -20,6 +20,9 @@ import { versionRef } from '../../server/pipeline/views';
 import { reviewsOf } from '../../server/pipeline/review';
 import { auditSubject, mailAboutRelease, packageKeyOf, supersedeOlder } from '../../server/pipeline/releases';
 import { PackageInputError, buildReleasePackage } from '../../server/pipeline/release-package';
+import { takeFilmSync } from '../../server/pipeline/views';
+import { filmSyncManifest } from '../../shared/motion/run-outputs';
+import { runFilmSync, runParamsSchema } from '../../shared/schemas/run-params';
 import type { BuiltPackage, ReleasePackageInput } from '../../server/pipeline/release-package';
 import { softwareVersion } from '../../server/lib/version';
 import { parseMotionBase, MotionBaseError } from '../../shared/schemas/motion-base';
@@ -56,6 +59,12 @@ async function readObject(storage: Storage, key: string): Promise<Buffer> {
     if (isMissingObject(e)) throw new ReleaseInputError(`${key.split('/').pop()} is missing from storage`);
     throw e;
   }
+}
+
+/** The manifest's film sync of a run (frame rate, start timecode, offset), or null without one. */
+function filmSyncOfRun(take: TakeRow, run: CueRunRow): Record<string, unknown> | null {
+  const sync = runFilmSync(takeFilmSync(take), runParamsSchema.parse(run.params));
+  return sync ? filmSyncManifest(sync) : null;
 }
 
 /** Gathers the package's input from the database and the run's stored files. */
@@ -100,7 +109,8 @@ async function packageInput(deps: BuildReleaseDeps, release: ReleaseRow): Promis
     cueing: await versionRef(db, studioId, run.cueingVersionId),
     budget,
     softwareVersion: softwareVersion(),
-    filmSync: null,
+    // The picture the run plays against: the take's film sync with the run's own offset.
+    filmSync: filmSyncOfRun(take, run),
     readRunFile: (name) => readObject(storage, `${prefix}${name}`),
   };
 }
