@@ -8,5 +8,7 @@ export const appPaths = {
   track: (studioId: string, trackId: string) => `/s/${studioId}/tracks/${trackId}`,
   home: (studioId: string) => `/s/${studioId}`,
   audit: (studioId: string) => `/s/${studioId}/audit`,
-  notificationSettings: () => '/settings/notifications',
+  account: () => '/account',
+  /** The mail settings live on the account page. */
+  notificationSettings: () => '/account',
 } as const;

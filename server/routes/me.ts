@@ -44,14 +44,13 @@ export async function loadNotificationSettings(db: Db, userId: string): Promise<
 /** /api/me: the signed-in user's own settings (the mail they receive). */
 export function meRouter(deps: AppDeps): Router {
   const r = Router();
-  r.use(requireUser);
 
-  r.get('/notifications', async (req, res) => {
+  r.get('/notifications', requireUser, async (req, res) => {
     res.json(await loadNotificationSettings(deps.db, req.user!.id));
   });
 
   // Every kind or some of them; kinds left out keep their setting. Answers the whole settings.
-  r.put('/notifications', async (req, res) => {
+  r.put('/notifications', requireUser, async (req, res) => {
     const body = parseBody(notificationSettingsBody, req.body, 'The notification settings');
     const seen = new Set<string>();
     body.kinds.forEach((k, i) => {

@@ -10,6 +10,7 @@ import { getTrackQueryOptions } from '../features/tracks/api/get-track';
 import { Loading } from '../components/ui/status';
 import { allows } from '../../shared/permissions';
 import type { Permission } from '../../shared/permissions';
+import { AccountRoute } from './routes/account';
 import { MailboxRoute } from './routes/mailbox';
 import {
   AcceptInvitationRoute,
@@ -80,6 +81,7 @@ export function createAppRouter(queryClient: QueryClient) {
         { path: '/reset-password', element: <ResetPasswordRoute /> },
         { path: '/invitations/:token', element: <AcceptInvitationRoute /> },
         { path: '/mailbox', element: <MailboxRoute /> },
+        { path: '/account', element: <AccountRoute /> },
         {
           path: '/s/:studioId',
           element: <StudioLayout />,

@@ -1,4 +1,12 @@
-import { Navigate, Outlet, useLocation, useNavigate, useOutletContext, useParams } from 'react-router-dom';
+import {
+  Link,
+  Navigate,
+  Outlet,
+  useLocation,
+  useNavigate,
+  useOutletContext,
+  useParams,
+} from 'react-router-dom';
 import type { Me, Membership } from '../../../shared/schemas/api';
 import { AppShell } from '../../components/layout/app-shell';
 import type { NavItem } from '../../components/layout/app-shell';
@@ -11,6 +19,7 @@ import { StudioSwitcher } from '../../features/studios/components/studio-switche
 import { firstStudio } from '../../lib/landing';
 import { MembershipProvider } from '../../lib/membership';
 import { allows } from '../../../shared/permissions';
+import { appPaths } from '../../../shared/app-paths';
 
 export interface StudioContext {
   me: Me;
@@ -57,6 +66,16 @@ function Account({ me, onDark = true }: { me: Me; onDark?: boolean }) {
       <span className={onDark ? 'text-ink-100' : 'text-ink-800'} title={me.user.email}>
         {me.user.name}
       </span>
+      <Link
+        to={appPaths.account()}
+        className={`rounded border px-2 py-0.5 text-xs font-medium ${
+          onDark
+            ? 'border-ink-600 text-ink-100 hover:bg-ink-800'
+            : 'border-ink-200 text-ink-800 hover:bg-ink-100'
+        }`}
+      >
+        Account
+      </Link>
       {logout.error ? <span className="text-xs text-signal-400">{logout.error.message}</span> : null}
       <Button
         size="sm"
