@@ -25,7 +25,10 @@ export function MailboxRoute() {
     );
   else if (mailbox.data.messages.length === 0)
     body = (
-      <Empty>No mail captured yet. Invitations and password resets sent by this install appear here.</Empty>
+      <Empty>
+        No mail captured yet. Invitations, password resets and the mails about runs and releases sent by this
+        install appear here.
+      </Empty>
     );
   else
     body = (
