@@ -1,12 +1,12 @@
 // The release chain through the real built client in Chromium, with four demo users: a producer
 // uploads a take and cues it for the operator's venue, the run page refuses its release until it is
-// cleared, a safety reviewer opens it from their queue and clears it with a reason, the producer
-// releases it from the run page and follows the link to the release page, which updates itself until
-// the package is ready; the venue operator reads the "package ready" mail from the local mailbox,
-// follows its link, finds the release on their home, downloads the package (its SHA-256, computed
-// here by node:crypto, must equal the one the page shows) and marks it installed; a problem they then
-// report reaches the producer by mail, whose link opens the release with the problem on it. No error
-// in any browser console on the way.
+// cleared, a safety reviewer mailed about it opens it from the mail (it is on their queue too) and
+// clears it with a reason, the producer releases it from the run page and follows the link to the
+// release page, which updates itself until the package is ready; the venue operator reads the
+// "package ready" mail from the local mailbox, follows its link, finds the release on their home,
+// downloads the package (its SHA-256, computed here by node:crypto, must equal the one the page
+// shows) and marks it installed; a problem they then report reaches the producer by mail, whose link
+// opens the release with the problem on it. No error in any browser console on the way.
 import { createHash } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
 import type { Browser, BrowserContext, ConsoleMessage, Page } from 'playwright-core';
@@ -143,12 +143,23 @@ describe('the release chain', () => {
       }
     }
 
-    // 2. The reviewer finds it in their queue and clears it with a reason.
+    // 2. The reviewer is mailed that the run awaits review and finds it in their queue; the mail's
+    // link and the queue's both open the run page, where they clear it with a reason.
+    const reviewMail = await mailTo(
+      reviewer.email,
+      new RegExp(`^Legwork: ${title} take 1 at .* awaits review$`),
+    );
+    expect(reviewMail.subject).toBe(`Legwork: ${title} take 1 at ${operatorVenue} awaits review`);
+    const reviewLink = appLinkIn(reviewMail);
+    expect(reviewLink.pathname).toBe(runPath);
     {
       const { context, page } = await signedIn(reviewer.email);
       try {
         const queue = page.getByRole('table', { name: 'Review queue' });
-        await queue.getByRole('link', { name: `${title}, take 1` }).click();
+        await queue.getByRole('link', { name: `${title}, take 1` }).waitFor({ timeout: 15_000 });
+        await page.goto(new URL(`/mailbox?id=${encodeURIComponent(reviewMail.id)}`, baseUrl).href);
+        await page.getByRole('link', { name: reviewLink.href }).click();
+        await page.getByTestId('decision-panel').waitFor({ timeout: 15_000 });
         expect(new URL(page.url()).pathname).toBe(runPath);
         const panel = page.getByTestId('decision-panel');
         await panel.getByLabel(/^Reason/).fill('Within the venue budget; seat forces gentle throughout.');
