@@ -45,9 +45,11 @@ describe('each demo role signs in and sees its own home', () => {
         await expect(page.getByRole('note', { name: 'Safety caution' }).textContent()).resolves.toContain(
           'Motion can injure riders and staff.',
         );
-        // Wait for the section's own data (venue tables, counts) before taking the picture.
+        // Wait for the section's own data (venue tables, counts, the role's lists) before taking the
+        // picture: the page's load state settled on the sign-in page already, so every loading line
+        // must go within the deadline.
         await page.waitForLoadState('networkidle');
-        await expect(page.getByRole('status').count()).resolves.toBe(0);
+        await expect.poll(() => page.getByRole('status').count(), { timeout: 15_000 }).toBe(0);
         await page.screenshot({ path: `${screenshotDir}/home-${role}.png`, fullPage: true });
 
         await page.getByRole('button', { name: 'Sign out', exact: true }).click();
