@@ -226,9 +226,11 @@ export function extendByPrediction(x: Float64Array, pad: number): Float64Array {
   const tail = new Float64Array(pad);
   predictForward(x, n, pad, tail);
   out.set(tail, pad + n);
-  const rev = new Float64Array(n);
-  for (let i = 0; i < n; i++) rev[i] = x[n - 1 - i] as number;
-  predictForward(rev, n, pad, tail);
+  // Backwards: the model is fitted to the first samples, reversed; only those the fit reads are copied.
+  const fit = Math.min(n, Math.max(PREDICTION_MIN_FIT, 4 * pad));
+  const rev = new Float64Array(fit);
+  for (let i = 0; i < fit; i++) rev[i] = x[fit - 1 - i] as number;
+  predictForward(rev, fit, pad, tail);
   for (let i = 0; i < pad; i++) out[pad - 1 - i] = tail[i] as number;
   return out;
 }

@@ -179,7 +179,7 @@ export function resampleAntiAlias(
   const scale = Math.min(1, 1 / (spacing * rate_hz));
   const taps = antiAliasTaps(m, scale);
   const linear = track.kind === 'vehicle';
-  const slope = new Float64Array(n);
+  const slope = linear ? new Float64Array(0) : new Float64Array(n);
   const fine = new Float64Array(nf);
   const removed: RemovedContent[] = [];
   const columns = track.columns.map((col, c) => {
