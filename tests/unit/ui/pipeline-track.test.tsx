@@ -168,4 +168,41 @@ describe('track page', () => {
     // A motion engineer queues runs but does not upload takes (producers do).
     expect(screen.queryByRole('form', { name: 'Upload a take' })).not.toBeInTheDocument();
   });
+
+  it('sends the touch-up typed in the cue form with the request, and refuses a bad one before sending', async () => {
+    const { calls } = fakeApi({
+      [`GET /api/studios/${STUDIO}/tracks/${TRACK}`]: () => json(track([])),
+      [`GET /api/studios/${STUDIO}/venues`]: () => json(VENUES),
+      [`POST /api/studios/${STUDIO}/takes/${TAKE}/runs`]: () => json([], 201),
+    });
+    renderTrackPage(['producer']);
+    fireEvent.click(await screen.findByRole('button', { name: 'Cue for venues' }));
+    const form = await screen.findByRole('form', { name: 'Cue take 1 for venues' });
+    fireEvent.click(within(form).getByRole('checkbox', { name: 'Harbour Lights Dome' }));
+    // A trim out before the trim in is refused by the shared schema, with the field named.
+    fireEvent.change(within(form).getByLabelText('Trim in (s)'), { target: { value: '5' } });
+    fireEvent.change(within(form).getByLabelText('Trim out (s)'), { target: { value: '2' } });
+    fireEvent.click(within(form).getByRole('button', { name: 'Queue cue runs' }));
+    expect(
+      await within(form).findByText(/trimOut_s: trimOut_s must be later than trimIn_s/),
+    ).toBeInTheDocument();
+    expect(calls.some((c) => c.method === 'POST')).toBe(false);
+    fireEvent.change(within(form).getByLabelText('Trim out (s)'), { target: { value: '20' } });
+    fireEvent.change(within(form).getByLabelText('fx gain'), { target: { value: '0.5' } });
+    fireEvent.change(within(form).getByLabelText('wz smoothing (Hz)'), { target: { value: '2' } });
+    fireEvent.click(within(form).getByRole('button', { name: 'Queue cue runs' }));
+    await waitFor(() => expect(calls.some((c) => c.method === 'POST')).toBe(true));
+    expect(calls.find((c) => c.method === 'POST')?.body).toEqual({
+      venueIds: [DOME],
+      touchup: {
+        offset_s: 0,
+        trimIn_s: 5,
+        trimOut_s: 20,
+        gain: { fx: 0.5 },
+        smoothing_hz: { wz: 2 },
+        fadeIn_s: 0,
+        fadeOut_s: 0,
+      },
+    });
+  });
 });
