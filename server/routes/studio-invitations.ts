@@ -88,12 +88,20 @@ export function studioInvitationsRouter(deps: AppDeps): Router {
       return row!;
     });
     const link = `${publicUrl(deps.env)}/invitations/${encodeURIComponent(token)}`;
-    await deps.mailer.send({
-      to: body.email,
-      subject: `Legwork: ${req.user!.name} invites you to ${studio?.name ?? 'a studio'}`,
-      text: `Hello,\n\n${req.user!.name} invites you to join ${studio?.name ?? 'a studio'} on Legwork as ${body.roles.map((x) => ROLE_LABELS[x]).join(', ')}.\n\nAccept within seven days:\n\n${link}\n`,
-    });
-    res.status(201).json(toInvitation(inv));
+    // Sent directly, not through the outbox, so the one-time link is never stored. The invitation is
+    // kept whatever the mail server does; the answer says whether its mail went.
+    let mailSent = true;
+    try {
+      await deps.mailer.send({
+        to: body.email,
+        subject: `Legwork: ${req.user!.name} invites you to ${studio?.name ?? 'a studio'}`,
+        text: `Hello,\n\n${req.user!.name} invites you to join ${studio?.name ?? 'a studio'} on Legwork as ${body.roles.map((x) => ROLE_LABELS[x]).join(', ')}.\n\nAccept within seven days:\n\n${link}\n`,
+      });
+    } catch (e) {
+      mailSent = false;
+      deps.log(`invitation ${inv.id} mail not sent: ${e instanceof Error ? e.message : String(e)}`);
+    }
+    res.status(201).json({ ...toInvitation(inv), mailSent });
   });
 
   r.delete('/:id', admin, async (req, res) => {

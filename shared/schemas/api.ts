@@ -54,6 +54,8 @@ export const invitationSchema = z.object({
   venueIds: z.array(z.string().uuid()),
   expiresAt: z.string(),
   acceptedAt: z.string().nullable(),
+  /** Only in the answer to sending one: false when the mail server could not take the invitation mail. */
+  mailSent: z.boolean().optional(),
 });
 export type Invitation = z.infer<typeof invitationSchema>;
 

@@ -176,7 +176,7 @@ describe('when a reviewer holds a run', () => {
 });
 
 describe('mail down', () => {
-  it('a hold succeeds when the app cannot reach SMTP: the mail waits in the outbox', async () => {
+  it('a hold and an invitation succeed when the app cannot reach SMTP', async () => {
     // The same database behind an app whose SMTP relay is a closed port.
     const env = testEnv(t.tdb.url, {
       SMTP_PORT: String(testEnv(t.tdb.url).SMTP_PORT + 6),
@@ -207,6 +207,29 @@ describe('mail down', () => {
       const rows = await outbox();
       expect(rows.map((r) => r.toEmail).sort()).toEqual([ENGINEER, PRODUCER]);
       expect(rows.every((r) => r.sentAt === null)).toBe(true);
+
+      // An invitation is mailed directly (its one-time link is never stored): with the relay down it
+      // is still made, and the answer says its mail did not go.
+      const admin = new Client(other.app);
+      expect((await admin.signIn(ADMIN)).status).toBe(200);
+      const inv = await admin.send('post', `${base()}/invitations`, {
+        email: 'new.hire@lanternfish.example',
+        roles: ['producer'],
+      });
+      expect(inv.status, JSON.stringify(inv.body)).toBe(201);
+      expect(inv.body.mailSent).toBe(false);
+      const list = await admin.get(`${base()}/invitations`);
+      expect(list.body.map((i: { email: string }) => i.email)).toContain('new.hire@lanternfish.example');
+      // With the relay working the same route says the mail went.
+      const working = new Client(t.app);
+      expect((await working.signIn(ADMIN)).status).toBe(200);
+      const sent = await working.send('post', `${base()}/invitations`, {
+        email: 'second.hire@lanternfish.example',
+        roles: ['producer'],
+      });
+      expect(sent.status).toBe(201);
+      expect(sent.body.mailSent).toBe(true);
+      await waitForMail('second.hire@lanternfish.example', /invites you/);
     } finally {
       other.close();
       down.close();

@@ -119,6 +119,35 @@ describe('invite form', () => {
   });
 });
 
+describe('invite form with the mail server down', () => {
+  it('says the invitation is saved but its mail did not go (mailSent false), not "sent"', async () => {
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/invitations`]: () => json([]),
+      [`POST /api/studios/${STUDIO}/invitations`]: (call) => {
+        const body = call.body as { email: string; roles: Invitation['roles']; venueIds: string[] };
+        return json(
+          {
+            id: '0a1b2c3d-4e5f-4a6b-8c7d-8e9f0a1b2c3e',
+            email: body.email,
+            roles: body.roles,
+            venueIds: body.venueIds,
+            expiresAt: '2099-01-08T00:00:00.000Z',
+            acceptedAt: null,
+            mailSent: false,
+          },
+          201,
+        );
+      },
+    });
+    renderWithApp(<InviteForm studioId={STUDIO} venues={VENUES} />);
+    fireEvent.change(fieldByLabel('E-mail'), { target: { value: 'new.producer@lanternfish.example' } });
+    fireEvent.click(screen.getByRole('checkbox', { name: 'Producer' }));
+    fireEvent.click(screen.getByRole('button', { name: 'Send invitation' }));
+    expect(await screen.findByText(/its mail could not be sent now/)).toBeInTheDocument();
+    expect(screen.queryByText(/Invitation sent to/)).not.toBeInTheDocument();
+  });
+});
+
 describe('members table', () => {
   const members: Member[] = [
     {

@@ -17,11 +17,13 @@ export function InviteForm({ studioId, venues }: { studioId: string; venues: rea
   const [venueIds, setVenueIds] = useState<string[]>([]);
   const [clientErrors, setClientErrors] = useState<Record<string, string>>({});
   const [sentTo, setSentTo] = useState<string | null>(null);
+  const [unmailed, setUnmailed] = useState<string | null>(null);
   const create = useCreateInvitation(studioId);
 
   const submit = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();
     setSentTo(null);
+    setUnmailed(null);
     // The same schema the server applies, so most mistakes show before a round trip.
     const parsed = inviteBody.safeParse({
       email,
@@ -41,7 +43,8 @@ export function InviteForm({ studioId, venues }: { studioId: string; venues: rea
       { studioId, ...parsed.data },
       {
         onSuccess: (invitation) => {
-          setSentTo(invitation.email);
+          if (invitation.mailSent === false) setUnmailed(invitation.email);
+          else setSentTo(invitation.email);
           setEmail('');
           setRoles([]);
           setVenueIds([]);
@@ -56,6 +59,12 @@ export function InviteForm({ studioId, venues }: { studioId: string; venues: rea
   return (
     <form onSubmit={submit} noValidate aria-label="Invite a member" className="flex flex-col gap-3">
       {sentTo ? <Notice>Invitation sent to {sentTo}.</Notice> : null}
+      {unmailed ? (
+        <Notice>
+          The invitation for {unmailed} is saved, but its mail could not be sent now (the mail server did not
+          take it). Revoke it and invite again once mail works.
+        </Notice>
+      ) : null}
       {create.error ? <ErrorNotice error={create.error} /> : null}
       <TextField
         label="E-mail"
