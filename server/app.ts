@@ -6,6 +6,7 @@ import { join, resolve } from 'node:path';
 import { ZodError } from 'zod';
 import type { AppDeps } from './deps';
 import { HttpError } from './lib/http-error';
+import { errorForLog } from './lib/error-text';
 import { clientErrorAnswer, jsonBody, refuseUnstorableText } from './lib/client-errors';
 import { chooseCredentials, createPassport, requireCsrf, sessionMiddleware } from './auth/session';
 import { createPasswordThrottle, trustProxySetting } from './auth/throttle';
@@ -75,7 +76,7 @@ export function createApp(deps: AppDeps): LegworkApp {
       res.status(answer.status).json({ error: answer.error });
       return;
     }
-    deps.log(`error: ${(err as Error).stack ?? String(err)}`);
+    deps.log(`error: ${errorForLog(err)}`);
     res.status(500).json({ error: 'Something went wrong on the server; it has been logged.' });
   };
   app.use(onError);

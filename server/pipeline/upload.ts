@@ -1,7 +1,9 @@
 // Receives an uploaded take as a stream: each chunk goes to object storage, into the SHA-256 and
 // through the track stream reader at once, so the server never holds the whole file. A file the
 // reader refuses is removed from storage again before the error answer; nothing stored earlier is
-// touched, because every upload gets a new key.
+// touched, because every upload gets a new key. A take over one part (8 MiB) goes up as an S3
+// multipart upload; a refused or interrupted one is aborted (AbortMultipartUpload) before the answer,
+// so its parts do not linger in the bucket (README, Operations: a lifecycle rule catches the rest).
 //
 // A refusal usually comes before the whole body has arrived. The rest of the body is then read and
 // thrown away (up to a bound), so the connection is free for the browser's next request; beyond the
@@ -10,7 +12,12 @@ import { once } from 'node:events';
 import type { IncomingMessage, ServerResponse } from 'node:http';
 import { PassThrough } from 'node:stream';
 import type { Readable } from 'node:stream';
-import { DeleteObjectCommand } from '@aws-sdk/client-s3';
+import {
+  AbortMultipartUploadCommand,
+  CreateMultipartUploadCommand,
+  DeleteObjectCommand,
+} from '@aws-sdk/client-s3';
+import type { S3Client } from '@aws-sdk/client-s3';
 import { Upload } from '@aws-sdk/lib-storage';
 import type { Storage } from '../storage';
 import { TrackFileError } from '../../shared/motion/track-reader';
@@ -67,8 +74,34 @@ export async function receiveTake(
   },
 ): Promise<ReceivedTake> {
   const toStorage = new PassThrough();
+  const { bucket } = opts.storage;
+  // Every multipart upload this take starts, so a refusal can abort each one itself: the library's
+  // abort() only stops its own loop, and a create still in flight has no id to abort yet.
+  const created: string[] = [];
+  let refused = false;
+  const abortMultipart = (uploadId: string) =>
+    opts.storage.client
+      .send(new AbortMultipartUploadCommand({ Bucket: bucket, Key: opts.key, UploadId: uploadId }))
+      .then(
+        () => undefined,
+        () => undefined,
+      );
+  const client = new Proxy(opts.storage.client, {
+    get(target, prop, receiver) {
+      if (prop !== 'send') return Reflect.get(target, prop, receiver) as unknown;
+      return async (...args: Parameters<S3Client['send']>) => {
+        const out = (await target.send(...args)) as unknown as { UploadId?: string } | undefined;
+        if (args[0] instanceof CreateMultipartUploadCommand && out?.UploadId) {
+          created.push(out.UploadId);
+          // Created after the refusal: abort it at once.
+          if (refused) await abortMultipart(out.UploadId);
+        }
+        return out;
+      };
+    },
+  });
   const upload = new Upload({
-    client: opts.storage.client,
+    client,
     params: {
       Bucket: opts.storage.bucket,
       Key: opts.key,
@@ -97,8 +130,10 @@ export async function receiveTake(
     return got;
   } catch (e) {
     if (opts.res) discardRestOfBody(body as IncomingMessage, opts.res);
-    toStorage.destroy();
+    refused = true;
     await upload.abort().catch(() => undefined);
+    toStorage.destroy();
+    await Promise.all(created.map(abortMultipart));
     await opts.storage.client
       .send(new DeleteObjectCommand({ Bucket: opts.storage.bucket, Key: opts.key }))
       .catch(() => undefined);

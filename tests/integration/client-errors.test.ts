@@ -8,7 +8,8 @@
 // of them (a 500 is logged; these are not server faults).
 import { gzipSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { count } from 'drizzle-orm';
+import { count, sql } from 'drizzle-orm';
+import { errorForLog, errorText } from '../../server/lib/error-text';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { auditEvents, tracks, venueSettings } from '../../server/db/schema';
@@ -221,5 +222,31 @@ describe('client errors answer 4xx with what was wrong', () => {
 
   it('logged no server error for any of these', () => {
     expect(logs.filter((l) => l.startsWith('error'))).toEqual([]);
+  });
+});
+
+describe('failed queries in the log', () => {
+  it('name the SQL and the database reason, never the bound parameters', async () => {
+    const secret = '$argon2id$v=19$m=65536,t=3,p=4$c2VjcmV0$secret-hash-value';
+    let caught: unknown;
+    try {
+      // A value PostgreSQL refuses as a uuid: the query fails with the secret as its parameter.
+      await t.tdb.db.execute(sql`select ${secret}::uuid`);
+    } catch (e) {
+      caught = e;
+    }
+    expect(caught).toBeInstanceOf(Error);
+    // drizzle's own message carries the parameter; that is what must not reach the log.
+    expect((caught as Error).message).toContain('secret-hash-value');
+    const logged = errorForLog(caught);
+    const stored = errorText(caught);
+    for (const text of [logged, stored]) {
+      expect(text).toContain('Failed query: select $1::uuid');
+      expect(text).toMatch(/invalid input syntax for type uuid/);
+      expect(text).toContain('SQLSTATE 22P02'); // invalid_text_representation (PostgreSQL Appendix A)
+      expect(text).not.toContain('params');
+      expect(text).not.toContain('secret-hash-value');
+      expect(text).not.toContain('argon2');
+    }
   });
 });

@@ -29,6 +29,7 @@ import { parseMotionBase, MotionBaseError } from '../../shared/schemas/motion-ba
 import { buildReleaseJobSchema } from '../../shared/schemas/release';
 import { MANIFEST_NAME } from '../../shared/schemas/package-manifest';
 import type { JobMeta } from './cue-run';
+import { errorText } from '../../server/lib/error-text';
 
 export interface BuildReleaseDeps {
   db: Db;
@@ -215,7 +216,7 @@ export function createBuildReleaseHandler(deps: BuildReleaseDeps) {
         `release ${release.id}: ready (${built.sizeBytes} bytes, SHA-256 ${built.sha256.slice(0, 12)})`,
       );
     } catch (e) {
-      const message = (e as Error).message || String(e);
+      const message = errorText(e);
       if (isInputError(e)) {
         await fail(deps, release, `The package could not be built: ${message}`);
         return;

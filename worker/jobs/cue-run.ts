@@ -36,6 +36,7 @@ import { loadRun } from '../../server/pipeline/run-detail';
 import { queueRunFinishedMails } from '../../server/notifications/run-mails';
 import { takeFilmSync } from '../../server/pipeline/views';
 import { runFilmSync, runParamsSchema } from '../../shared/schemas/run-params';
+import { errorText } from '../../server/lib/error-text';
 
 export { cueRunJobSchema };
 
@@ -258,7 +259,7 @@ async function fail(deps: CueRunDeps, run: CueRunRow, reason: string): Promise<v
 
 /** Input errors fail the run at once; others put it back in the queue, or fail it on the last attempt. */
 async function handleError(deps: CueRunDeps, run: CueRunRow, job: JobMeta, e: unknown): Promise<void> {
-  const message = (e as Error).message || String(e);
+  const message = errorText(e);
   if (isInputError(e)) {
     await fail(deps, run, `The take could not be processed for this venue: ${message}`);
     return;
