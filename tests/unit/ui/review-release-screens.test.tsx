@@ -515,6 +515,55 @@ describe('release page', () => {
     expect(screen.queryByRole('button', { name: 'Withdraw this release' })).toBeNull();
   });
 
+  for (const outcome of ['ready', 'failed'] as const) {
+    it(`asks again while the package is building and stops once it is ${outcome}`, async () => {
+      let asked = 0;
+      const building = release({ state: 'building', builtAt: null, packageSha256: null, files: [] });
+      const done =
+        outcome === 'ready'
+          ? release()
+          : release({
+              state: 'failed',
+              failureReason: 'Storage did not answer.',
+              packageSha256: null,
+              files: [],
+            });
+      const api = fakeApi({
+        [`GET ${base}/venues`]: () => json(FAKE_VENUES),
+        // The first answer says building, every later one the outcome (both parsed by releaseSchema).
+        [`GET ${base}/releases/${RELEASE}`]: () => json(asked++ === 0 ? building : done),
+      });
+      inStudio(['producer'], <ReleaseView studioId={STUDIO} releaseId={RELEASE} />);
+      expect(
+        await screen.findByText('The package is being built; this page updates when it is ready.'),
+      ).toBeInTheDocument();
+      expect(screen.queryByRole('link', { name: 'Download package' })).toBeNull();
+      if (outcome === 'ready') {
+        expect(await screen.findByTestId('package-sha256', {}, { timeout: 6000 })).toHaveTextContent(
+          'a'.repeat(64),
+        );
+        expect(screen.getByRole('link', { name: 'Download package' })).toBeInTheDocument();
+      } else {
+        expect(
+          await screen.findByText(
+            /The package could not be built: Storage did not answer\./,
+            {},
+            { timeout: 6000 },
+          ),
+        ).toBeInTheDocument();
+        expect(screen.queryByRole('link', { name: 'Download package' })).toBeNull();
+      }
+      expect(
+        screen.queryByText('The package is being built; this page updates when it is ready.'),
+      ).toBeNull();
+      // Settled: no further request in the next poll interval.
+      const detailCalls = () => api.calls.filter((c) => c.path === `${base}/releases/${RELEASE}`).length;
+      const settled = detailCalls();
+      await new Promise((resolve) => setTimeout(resolve, 2500));
+      expect(detailCalls()).toBe(settled);
+    }, 15_000);
+  }
+
   it('banners a withdrawn release, offers no download, and lets a producer withdraw only with a reason', async () => {
     let current = release();
     const api = fakeApi({
