@@ -2,11 +2,10 @@
 // transaction (pg-boss's `db` option runs its insert on our client), so there is never a run without a
 // job nor a job without a run. The job id is the run id: a second send for the same run is a no-op.
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
-import { drizzle } from 'drizzle-orm/node-postgres';
-import type { NodePgDatabase } from 'drizzle-orm/node-postgres';
 import type pg from 'pg';
 import type PgBoss from 'pg-boss';
-import * as schema from '../db/schema';
+import { inClientTransaction } from '../db/client';
+import type { Db, SqlExecutor } from '../db/client';
 import { cueRuns, profileVersions, venueSettings, venues } from '../db/schema';
 import type { CueRunRow, TakeRow } from '../db/schema';
 import { inStudio } from '../db/scope';
@@ -43,8 +42,9 @@ interface RunKey {
 }
 
 interface QueueContext {
-  client: pg.PoolClient;
-  tx: NodePgDatabase<typeof schema>;
+  /** Runs SQL on the transaction's connection: pg-boss's send joins the transaction through it. */
+  sql: SqlExecutor;
+  tx: Db;
   boss: PgBoss;
   actor: { id: string; email: string } | null;
   now: Date;
@@ -103,7 +103,7 @@ async function insertOrFindRun(
   const job = cueRunJobSchema.parse({ runId: inserted.id, studioId: key.studioId });
   await ctx.boss.send(QUEUES.cueRun, job, {
     ...cueRunJobOptions(inserted.id, ctx.retry),
-    db: { executeSql: (text: string, values: unknown[]) => ctx.client.query(text, values) },
+    db: ctx.sql,
   });
   await recordAudit(tx, {
     studioId: key.studioId,
@@ -117,25 +117,13 @@ async function insertOrFindRun(
 }
 
 /** Runs `work` in one transaction on a client of its own (pg-boss's insert joins it). */
-async function inTransaction<T>(
+function inTransaction<T>(
   pool: pg.Pool,
   boss: PgBoss,
   opts: { actor: QueueContext['actor']; now: Date; retry: QueueContext['retry'] },
   work: (ctx: QueueContext) => Promise<T>,
 ): Promise<T> {
-  const client = await pool.connect();
-  const tx = drizzle(client, { schema });
-  try {
-    await client.query('BEGIN');
-    const out = await work({ client, tx, boss, ...opts });
-    await client.query('COMMIT');
-    return out;
-  } catch (e) {
-    await client.query('ROLLBACK').catch(() => undefined);
-    throw e;
-  } finally {
-    client.release();
-  }
+  return inClientTransaction(pool, (tx, sql) => work({ sql, tx, boss, ...opts }));
 }
 
 /**
