@@ -7,6 +7,7 @@
 // section 3.9 D76), and an empty venue settings body. The server's log must hold no error line for any
 // of them (a 500 is logged; these are not server faults).
 import { gzipSync } from 'node:zlib';
+import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { count, sql } from 'drizzle-orm';
 import { errorForLog, errorText } from '../../server/lib/error-text';
@@ -247,6 +248,38 @@ describe('failed queries in the log', () => {
       expect(text).not.toContain('params');
       expect(text).not.toContain('secret-hash-value');
       expect(text).not.toContain('argon2');
+    }
+  });
+});
+
+describe('security headers', () => {
+  // Header meanings: W3C Content Security Policy Level 3; RFC 6797 (HSTS); WHATWG Fetch (nosniff).
+  it('a CSP allowing only this origin, nothing inline, no framing; no HSTS over plain HTTP', async () => {
+    const r = await producer.get('/api/health');
+    const csp = String(r.headers['content-security-policy']);
+    for (const d of [
+      "default-src 'self'",
+      "script-src 'self'",
+      "object-src 'none'",
+      "frame-ancestors 'none'",
+    ]) {
+      expect(csp).toContain(d);
+    }
+    expect(csp).not.toContain('unsafe-inline');
+    expect(csp).not.toContain('unsafe-eval');
+    expect(csp).not.toContain('upgrade-insecure-requests');
+    expect(r.headers['x-content-type-options']).toBe('nosniff');
+    expect(r.headers['strict-transport-security']).toBeUndefined();
+  });
+
+  it('behind HTTPS (COOKIE_SECURE=true) adds HSTS and upgrade-insecure-requests', async () => {
+    const secure = await startTestApp({ env: { COOKIE_SECURE: 'true' } });
+    try {
+      const r = await request(secure.app).get('/api/health');
+      expect(String(r.headers['strict-transport-security'])).toMatch(/max-age=\d+/);
+      expect(String(r.headers['content-security-policy'])).toContain('upgrade-insecure-requests');
+    } finally {
+      await secure.close();
     }
   });
 });
