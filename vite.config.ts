@@ -19,6 +19,9 @@ export default defineConfig({
           name: 'unit',
           include: ['tests/unit/**/*.test.ts', 'tests/unit/**/*.test.tsx'],
           environment: 'node',
+          // Some checks cue whole takes or load the ESLint configuration: seconds each on a busy
+          // 2-core machine. Speed is measured in `npm run bench`, never by these timeouts.
+          testTimeout: 60_000,
         },
       },
       {

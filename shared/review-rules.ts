@@ -9,6 +9,11 @@
 // - A hold always needs a written reason; so does clearing a run with comfort findings (400).
 // - Only a producer releases, and only a cleared run with no release building or ready (403, 409).
 import { allows } from './permissions';
+import { RUN_STATE_LABELS } from './schemas/pipeline';
+
+/** A run state in the words of the screens, lower case for use inside a sentence. */
+const stateWords = (state: string): string =>
+  (RUN_STATE_LABELS[state as keyof typeof RUN_STATE_LABELS] ?? state.replace(/_/g, ' ')).toLowerCase();
 
 export const CLEARABLE_STATES: readonly string[] = ['awaiting_review', 'held_by_budget', 'held'];
 export const HOLDABLE_STATES: readonly string[] = ['awaiting_review', 'held_by_budget', 'cleared'];
@@ -93,13 +98,12 @@ export const RELEASABLE_STATES: readonly string[] = ['cleared'];
 export function releaseRule(run: ReviewSubject, viewer: ReviewViewer): RuleAnswer {
   if (!allows(viewer.roles, 'releases.create'))
     return refuse(403, 'Releasing a run to its venue is the work of a producer.');
-  if (run.activeRelease)
-    return refuse(409, 'This run already has a release that is building or ready.');
+  if (run.activeRelease) return refuse(409, 'This run already has a release that is building or ready.');
   if (!RELEASABLE_STATES.includes(run.state))
     return refuse(
       409,
       run.state === 'released' || run.state === 'superseded' || run.state === 'withdrawn'
-        ? `This run was already released (now ${run.state}); a new release comes from a new run.`
+        ? `This run was already released (now ${stateWords(run.state)}); a new release comes from a new run.`
         : 'Only a run a safety reviewer has cleared can be released.',
     );
   if (run.hardFindings > 0)
@@ -119,7 +123,7 @@ function stateWhy(state: string, verb: 'cleared' | 'held'): string {
     case 'held':
       return 'The run is already held.';
     default:
-      return `A run in this state (${state.replace(/_/g, ' ')}) cannot be ${verb}.`;
+      return `A run in this state (${stateWords(state)}) cannot be ${verb}.`;
   }
 }
 
