@@ -15,7 +15,7 @@ import { createBuildReleaseHandler } from '../../worker/jobs/build-release';
 import { packageManifestSchema } from '../../shared/schemas/package-manifest';
 import { releaseCreatedSchema } from '../../shared/schemas/release';
 import { releases } from '../../server/db/schema';
-import yauzl from 'yauzl';
+import { unzip } from '../factories/zip';
 import { makePoseTrackFrom, poseTrackCsv, smoothStep } from '../unit/budget/track-builders';
 import type { JobMeta } from '../../worker/jobs/cue-run';
 import { makeVehicleCsv } from '../factories/takes';
@@ -223,24 +223,11 @@ describe('nudging the film offset of a run', () => {
   });
 });
 
-/** A general-purpose zip reader: one entry's bytes by name. */
-function zipEntry(zip: Buffer, name: string): Promise<Buffer> {
-  return new Promise((resolve, reject) => {
-    yauzl.fromBuffer(zip, { lazyEntries: true }, (err, zf) => {
-      if (err || !zf) return reject(err ?? new Error('no zip'));
-      zf.on('entry', (entry: yauzl.Entry) => {
-        if (entry.fileName !== name) return zf.readEntry();
-        zf.openReadStream(entry, (e, s) => {
-          if (e || !s) return reject(e ?? new Error('no stream'));
-          const chunks: Buffer[] = [];
-          s.on('data', (c: Buffer) => chunks.push(c));
-          s.on('end', () => resolve(Buffer.concat(chunks)));
-        });
-      });
-      zf.on('end', () => reject(new Error(`${name} is not in the zip`)));
-      zf.readEntry();
-    });
-  });
+/** One entry's bytes by name, read with a general-purpose zip library. */
+async function zipEntry(zip: Buffer, name: string): Promise<Buffer> {
+  const found = (await unzip(zip)).get(name);
+  if (!found) throw new Error(`${name} is not in the zip`);
+  return found;
 }
 
 describe('film sync in the release package', () => {

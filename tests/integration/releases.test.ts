@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
 import { DeleteObjectCommand } from '@aws-sdk/client-s3';
 import { and, eq, sql } from 'drizzle-orm';
-import yauzl from 'yauzl';
+import { unzip } from '../factories/zip';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { testEnv } from './support/services';
@@ -79,28 +79,6 @@ const mailedTo = async (kind: string, releaseId: string) =>
     .map((m) => m.toEmail)
     .sort();
 
-/** A general-purpose zip reader: every entry's bytes by name. */
-function unzip(zip: Buffer): Promise<Map<string, Buffer>> {
-  return new Promise((resolve, reject) => {
-    yauzl.fromBuffer(zip, { lazyEntries: true }, (err, zf) => {
-      if (err || !zf) return reject(err ?? new Error('no zip'));
-      const out = new Map<string, Buffer>();
-      zf.on('entry', (entry: yauzl.Entry) => {
-        zf.openReadStream(entry, (e, s) => {
-          if (e || !s) return reject(e ?? new Error('no stream'));
-          const chunks: Buffer[] = [];
-          s.on('data', (c: Buffer) => chunks.push(c));
-          s.on('end', () => {
-            out.set(entry.fileName, Buffer.concat(chunks));
-            zf.readEntry();
-          });
-        });
-      });
-      zf.on('end', () => resolve(out));
-      zf.readEntry();
-    });
-  });
-}
 const binary = (
   res: { on: (ev: string, cb: (x?: Buffer) => void) => void },
   cb: (e: null, b: Buffer) => void,

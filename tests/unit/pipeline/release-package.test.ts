@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import yauzl from 'yauzl';
+import { unzip } from '../../factories/zip';
 import {
   buildReleasePackage,
   escapeHtml,
@@ -49,29 +49,6 @@ function input(title = 'Canyon Glide'): ReleasePackageInput {
     softwareVersion: '0.0.0-test',
     readRunFile: async (name) => (name === 'legs.csv' ? legsCsv : Buffer.from(`${name}\n`)),
   };
-}
-
-/** Independent reader: yauzl entries into a map of name -> bytes. */
-function unzip(zip: Buffer): Promise<Map<string, Buffer>> {
-  return new Promise((resolve, reject) => {
-    yauzl.fromBuffer(zip, { lazyEntries: true }, (err, zf) => {
-      if (err || !zf) return reject(err);
-      const out = new Map<string, Buffer>();
-      zf.on('entry', (entry: yauzl.Entry) => {
-        zf.openReadStream(entry, (e2, s) => {
-          if (e2 || !s) return reject(e2);
-          const chunks: Buffer[] = [];
-          s.on('data', (c: Buffer) => chunks.push(c));
-          s.on('end', () => {
-            out.set(entry.fileName, Buffer.concat(chunks));
-            zf.readEntry();
-          });
-        });
-      });
-      zf.on('end', () => resolve(out));
-      zf.readEntry();
-    });
-  });
 }
 
 describe('release package', () => {

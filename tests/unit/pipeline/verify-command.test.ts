@@ -8,7 +8,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
-import yauzl from 'yauzl';
+import { zipEntries as unzip } from '../../factories/zip';
 import yazl from 'yazl';
 import { cliSandbox } from '../../factories/cli';
 import { buildReleasePackage, type ReleasePackageInput } from '../../../server/pipeline/release-package';
@@ -54,29 +54,6 @@ function input(): ReleasePackageInput {
     softwareVersion: '0.0.0-test',
     readRunFile: async (name) => (name === 'legs.csv' ? legsCsv : Buffer.from(`${name}\n`)),
   };
-}
-
-/** yauzl: the zip's entries in order, name and bytes. */
-function unzip(zip: Buffer): Promise<{ name: string; data: Buffer }[]> {
-  return new Promise((resolve, reject) => {
-    yauzl.fromBuffer(zip, { lazyEntries: true }, (err, zf) => {
-      if (err || !zf) return reject(err);
-      const out: { name: string; data: Buffer }[] = [];
-      zf.on('entry', (entry: yauzl.Entry) => {
-        zf.openReadStream(entry, (e2, s) => {
-          if (e2 || !s) return reject(e2);
-          const chunks: Buffer[] = [];
-          s.on('data', (c: Buffer) => chunks.push(c));
-          s.on('end', () => {
-            out.push({ name: entry.fileName, data: Buffer.concat(chunks) });
-            zf.readEntry();
-          });
-        });
-      });
-      zf.on('end', () => resolve(out));
-      zf.readEntry();
-    });
-  });
 }
 
 /** yazl: a zip of the given entries, deflated unless named in `stored`. */
