@@ -510,7 +510,7 @@ describe('release page', () => {
     const files = screen.getByRole('table', { name: 'Files in the package' });
     expect(within(files).getByText('legs.csv').closest('tr')).toHaveTextContent(`1.2 MB${'b'.repeat(64)}`);
     expect(
-      screen.getByText(/legwork verify lantern-reef-dive-take3-tidewater-arcade\.zip/),
+      screen.getByText(/legwork verify --sha256 [0-9a-f]{64} lantern-reef-dive-take3-tidewater-arcade\.zip/),
     ).toBeInTheDocument();
     expect(screen.queryByRole('button', { name: 'Withdraw this release' })).toBeNull();
   });

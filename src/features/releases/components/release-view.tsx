@@ -238,8 +238,10 @@ export function ReleaseView({ studioId, releaseId }: { studioId: string; release
         )}
         <p className="text-xs text-ink-600">
           Before loading, check the package against its manifest:{' '}
-          <code className="font-mono">legwork verify {r.packageName}</code> answers 0 when every file matches
-          and names the first one that does not. Compare the package&apos;s own SHA-256 with the one above.
+          <code className="font-mono">
+            legwork verify --sha256 {r.packageSha256 ?? '...'} {r.packageName}
+          </code>{' '}
+          exits 0 when the zip and every file in it match, and names each file that does not (exit 5).
         </p>
       </Section>
 
