@@ -1,8 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
-import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import { unzip } from '../../factories/zip';
+import { legsCsv, releasePackageInput } from '../../factories/release-package';
 import {
   buildReleasePackage,
   escapeHtml,
@@ -11,45 +10,8 @@ import {
 import { packageManifestSchema } from '../../../shared/schemas/package-manifest';
 import { demoHexapodBase } from '../../../shared/schemas/motion-base';
 
-const legsCsv = readFileSync(fileURLToPath(new URL('../../fixtures/legs-hexapod.csv', import.meta.url)));
-const person = { id: 'u1', name: 'Ada Reviewer', email: 'ada@example.test' };
-
-function input(title = 'Canyon Glide'): ReleasePackageInput {
-  const base = { ...demoHexapodBase, controllerRate_hz: 50 } as ReleasePackageInput['motionBase']['base'];
-  return {
-    release: {
-      id: '0b7f3a9e-1111-4222-8333-444455556666',
-      releasedBy: person,
-      releasedAt: '2026-01-02T03:04:05Z',
-    },
-    reviews: [],
-    run: {
-      id: 'r1',
-      state: 'released',
-      summary: {
-        within: true,
-        exitCode: 0,
-        uses: [],
-        findings: [],
-        comfort: null,
-        notes: [],
-        rate_hz: 50,
-        samples: 3,
-        duration_s: 1,
-        budgetIsDemo: true,
-        files: [],
-      },
-    },
-    track: { id: 't1', title },
-    take: { id: 'k1', number: 2, sha256: 'a'.repeat(64), filename: 'take2.csv' },
-    venue: { id: 'v1', name: 'North Hall', timeZone: 'UTC' },
-    motionBase: { id: 'm1', name: 'Base', sha256: 'b'.repeat(64), base },
-    cueing: { id: 'c1', name: 'Soft', version: 3 },
-    budget: { id: 'b1', name: 'Family', version: 4 },
-    softwareVersion: '0.0.0-test',
-    readRunFile: async (name) => (name === 'legs.csv' ? legsCsv : Buffer.from(`${name}\n`)),
-  };
-}
+const input = (title = 'Canyon Glide'): ReleasePackageInput =>
+  releasePackageInput({ track: { id: 't1', title } });
 
 describe('release package', () => {
   it('lists every other file with its SHA-256 and size, checked by yauzl and node:crypto', async () => {

@@ -4,57 +4,28 @@
 // Tampered packages are rewritten with yauzl and yazl (general-purpose zip libraries) and the expected
 // SHA-256 values come from node:crypto, not from the command.
 import { createHash } from 'node:crypto';
-import { readFileSync, writeFileSync } from 'node:fs';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { zipEntries as unzip } from '../../factories/zip';
 import yazl from 'yazl';
 import { cliSandbox } from '../../factories/cli';
+import { legsCsv, releasePackageInput } from '../../factories/release-package';
 import { buildReleasePackage, type ReleasePackageInput } from '../../../server/pipeline/release-package';
-import { demoHexapodBase } from '../../../shared/schemas/motion-base';
 
 const { dir, file, run } = cliSandbox('legwork-verify-');
 
-const legsCsv = readFileSync(fileURLToPath(new URL('../../fixtures/legs-hexapod.csv', import.meta.url)));
-const person = { id: 'u1', name: 'Noor Producer', email: 'noor@example.test' };
-
-function input(): ReleasePackageInput {
-  const base = { ...demoHexapodBase, controllerRate_hz: 50 } as ReleasePackageInput['motionBase']['base'];
-  return {
+const input = (): ReleasePackageInput =>
+  releasePackageInput({
     release: {
       id: '5c1d2e3f-1111-4222-8333-444455556666',
-      releasedBy: person,
+      releasedBy: { id: 'u1', name: 'Noor Producer', email: 'noor@example.test' },
       releasedAt: '2026-11-30T09:00:00Z',
-    },
-    reviews: [],
-    run: {
-      id: 'r1',
-      state: 'released',
-      summary: {
-        within: true,
-        exitCode: 0,
-        uses: [],
-        findings: [],
-        comfort: null,
-        notes: [],
-        rate_hz: 50,
-        samples: 101,
-        duration_s: 2,
-        budgetIsDemo: true,
-        files: [],
-      },
     },
     track: { id: 't1', title: 'Lantern Falls' },
     take: { id: 'k1', number: 3, sha256: 'b'.repeat(64), filename: 'lantern-falls-take3.csv' },
     venue: { id: 'v1', name: 'Harbour Lights Dome', timeZone: 'Europe/Lisbon' },
-    motionBase: { id: 'm1', name: 'Dome base', sha256: 'c'.repeat(64), base },
-    cueing: { id: 'c1', name: 'Gentle', version: 1 },
-    budget: { id: 'b1', name: 'Family', version: 1 },
-    softwareVersion: '0.0.0-test',
-    readRunFile: async (name) => (name === 'legs.csv' ? legsCsv : Buffer.from(`${name}\n`)),
-  };
-}
+  });
 
 /** yazl: a zip of the given entries, deflated unless named in `stored`. */
 function zipOf(entries: { name: string; data: Buffer }[], stored: string[] = []): Promise<Buffer> {
