@@ -2,22 +2,18 @@
 // 400 naming it, with nothing stored), and the producer's nudge of a run's offset, which makes a new
 // run and leaves the old one as it was. The worker handler runs for real, so the manifest is read back.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { GetObjectCommand } from '@aws-sdk/client-s3';
 import { count, eq } from 'drizzle-orm';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { cueRuns, takes } from '../../server/db/schema';
-import { createStorage } from '../../server/storage';
-import { testEnv } from './support/services';
-import { QUEUES } from '../../server/queue';
-import { createHandler } from '../../worker/jobs/cue-run';
 import { createBuildReleaseHandler } from '../../worker/jobs/build-release';
 import { packageManifestSchema } from '../../shared/schemas/package-manifest';
 import { releaseCreatedSchema } from '../../shared/schemas/release';
 import { releases } from '../../server/db/schema';
 import { unzip } from '../factories/zip';
 import { makePoseTrackFrom, poseTrackCsv, smoothStep } from '../unit/budget/track-builders';
-import type { JobMeta } from '../../worker/jobs/cue-run';
+import { startCueWorker } from './support/cue-worker';
+import type { CueWorker } from './support/cue-worker';
 import { makeVehicleCsv } from '../factories/takes';
 import {
   runDetailSchema,
@@ -30,22 +26,14 @@ let t: TestApp;
 let producer: Client;
 let engineer: Client;
 let reviewer: Client;
-let storage: ReturnType<typeof createStorage>;
+let worker: CueWorker;
 
 beforeAll(async () => {
   t = await startTestApp({
     queue: true,
     env: { CUE_RUN_RETRY_LIMIT: '1', CUE_RUN_RETRY_DELAY_S: '1', LOGIN_RATE_LIMIT: '1000' },
   });
-  storage = createStorage(testEnv(t.tdb.url));
-  const handle = createHandler({ db: t.tdb.db, storage, log: () => undefined, now: () => new Date() });
-  await t.boss!.work(
-    QUEUES.cueRun,
-    { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: 0.5 },
-    async (jobs) => {
-      for (const job of jobs) await handle(job as unknown as JobMeta);
-    },
-  );
+  worker = await startCueWorker(t);
   producer = new Client(t.app);
   await producer.signIn('pia.producer@lanternfish.example');
   engineer = new Client(t.app);
@@ -54,7 +42,7 @@ beforeAll(async () => {
   await reviewer.signIn('rosa.reviewer@lanternfish.example');
 }, 60_000);
 afterAll(async () => {
-  storage.close();
+  worker.close();
   await t.close();
 });
 
@@ -71,24 +59,6 @@ function upload(trackId: string, query: string, csv = makeVehicleCsv({ duration_
     .raw('post', `${base()}/tracks/${trackId}/takes?fileName=glasswing.csv${query}`)
     .set('content-type', 'application/octet-stream')
     .send(Buffer.from(csv));
-}
-
-async function waitForRun(runId: string, timeout_ms = 60_000) {
-  const until = Date.now() + timeout_ms;
-  for (;;) {
-    const [row] = await t.tdb.db.select().from(cueRuns).where(eq(cueRuns.id, runId));
-    if (row && row.state !== 'queued' && row.state !== 'cueing') return row;
-    if (Date.now() > until) throw new Error(`run ${runId} still ${row?.state} after ${timeout_ms} ms`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
-
-async function storedJson(key: string): Promise<Record<string, unknown>> {
-  const o = await storage.client.send(new GetObjectCommand({ Bucket: storage.bucket, Key: key }));
-  return JSON.parse(Buffer.from(await o.Body!.transformToByteArray()).toString('utf8')) as Record<
-    string,
-    unknown
-  >;
 }
 
 describe('film sync at upload', () => {
@@ -151,7 +121,7 @@ describe('nudging the film offset of a run', () => {
     });
     expect(asked.status, JSON.stringify(asked.body)).toBe(201);
     const first = runSummarySchema.array().parse(asked.body)[0]!;
-    const firstRow = await waitForRun(first.id);
+    const firstRow = await worker.waitForRun(first.id);
     const firstDetail = runDetailSchema.parse((await producer.get(`${base()}/runs/${first.id}`)).body);
     expect(firstDetail.params).toEqual({ filmOffset_frames: 3 });
     expect(firstDetail.filmSync).toEqual({ frameRate: '25', startTimecode: '10:00:00:00', offset_frames: 3 });
@@ -163,7 +133,7 @@ describe('nudging the film offset of a run', () => {
     const second = runSummarySchema.parse(nudged.body);
     expect(second.id).not.toBe(first.id);
     expect(second).toMatchObject({ takeId: take.id, venueId: t.seed.venueIds.dome, state: 'queued' });
-    const secondRow = await waitForRun(second.id);
+    const secondRow = await worker.waitForRun(second.id);
     // The same profile versions as the run it came from; only the offset differs.
     expect(secondRow.cueingVersionId).toBe(firstRow.cueingVersionId);
     expect(secondRow.budgetVersionId).toBe(firstRow.budgetVersionId);
@@ -176,8 +146,8 @@ describe('nudging the film offset of a run', () => {
     expect(oldNow!.summary).toEqual(firstRow.summary);
 
     // Each run's manifest carries its own offset; the motion itself is the same.
-    const m1 = await storedJson(`${firstRow.artifactPrefix}manifest.json`);
-    const m2 = await storedJson(`${secondRow.artifactPrefix}manifest.json`);
+    const m1 = await worker.storedJson(`${firstRow.artifactPrefix}manifest.json`);
+    const m2 = await worker.storedJson(`${secondRow.artifactPrefix}manifest.json`);
     expect(m1.filmSync).toMatchObject({ frameRate: '25', startTimecode: '10:00:00:00', offset_frames: 3 });
     // 5 frames at 25 fps are 0.2 s (frames x den / num).
     expect(m2.filmSync).toMatchObject({ offset_frames: 5, frameRate_num: 25, frameRate_den: 1 });
@@ -207,7 +177,7 @@ describe('nudging the film offset of a run', () => {
       venueIds: [t.seed.venueIds.dome],
     });
     const run = runSummarySchema.array().parse(asked.body)[0]!;
-    await waitForRun(run.id);
+    await worker.waitForRun(run.id);
     const path = `${base()}/runs/${run.id}/film-offset`;
     for (const body of [{ offset_frames: 1.5 }, { offset_frames: 'two' }, {}, { offset_frames: 1e9 }]) {
       const r = await producer.send('post', path, body);
@@ -250,11 +220,11 @@ describe('film sync in the release package', () => {
       venueIds: [t.seed.venueIds.dome],
     });
     const first = runSummarySchema.array().parse(asked.body)[0]!;
-    await waitForRun(first.id);
+    await worker.waitForRun(first.id);
     const nudged = runSummarySchema.parse(
       (await producer.send('post', `${base()}/runs/${first.id}/film-offset`, { offset_frames: 4 })).body,
     );
-    const row = await waitForRun(nudged.id);
+    const row = await worker.waitForRun(nudged.id);
     expect(row.state, 'the take must be clean for this test to release it').toBe('awaiting_review');
     const cleared = await reviewer.send('post', `${base()}/runs/${nudged.id}/review`, {
       decision: 'clear',
@@ -266,17 +236,14 @@ describe('film sync in the release package', () => {
     const releaseId = releaseCreatedSchema.parse(rel.body).id;
     const build = createBuildReleaseHandler({
       db: t.tdb.db,
-      storage,
+      storage: worker.storage,
       log: () => undefined,
       now: () => new Date(),
     });
     await build({ id: releaseId, data: { releaseId, studioId: t.seed.studioId } });
     const [built] = await t.tdb.db.select().from(releases).where(eq(releases.id, releaseId));
     expect(built!.state, built!.failureReason ?? '').toBe('ready');
-    const o = await storage.client.send(
-      new GetObjectCommand({ Bucket: storage.bucket, Key: built!.packageKey! }),
-    );
-    const zip = Buffer.from(await o.Body!.transformToByteArray());
+    const zip = await worker.stored(built!.packageKey!);
     const manifest = packageManifestSchema.parse(
       JSON.parse((await zipEntry(zip, 'manifest.json')).toString('utf8')),
     );

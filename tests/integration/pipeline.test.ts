@@ -3,16 +3,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
-import { DeleteObjectCommand, GetObjectCommand, ListObjectsV2Command } from '@aws-sdk/client-s3';
+import { DeleteObjectCommand, ListObjectsV2Command } from '@aws-sdk/client-s3';
 import { count, eq } from 'drizzle-orm';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { cueRuns, takes } from '../../server/db/schema';
-import { createStorage } from '../../server/storage';
-import { testEnv } from './support/services';
-import { QUEUES } from '../../server/queue';
-import { createHandler } from '../../worker/jobs/cue-run';
-import type { JobMeta } from '../../worker/jobs/cue-run';
+import { startCueWorker } from './support/cue-worker';
+import type { CueWorker } from './support/cue-worker';
 import { makeVehicleCsv } from '../factories/takes';
 import { demoHexapodInput } from '../../shared/schemas/motion-base';
 import {
@@ -30,8 +27,7 @@ const runSummaryList = runSummarySchema.array();
 
 let t: TestApp;
 let producer: Client;
-let storage: ReturnType<typeof createStorage>;
-let handle: ReturnType<typeof createHandler>;
+let worker: CueWorker;
 const sha = (b: string | Buffer) => createHash('sha256').update(b).digest('hex');
 
 beforeAll(async () => {
@@ -39,20 +35,12 @@ beforeAll(async () => {
     queue: true,
     env: { CUE_RUN_RETRY_LIMIT: '2', CUE_RUN_RETRY_DELAY_S: '1', LOGIN_RATE_LIMIT: '1000' },
   });
-  storage = createStorage(testEnv(t.tdb.url));
-  handle = createHandler({ db: t.tdb.db, storage, log: () => undefined, now: () => new Date() });
-  await t.boss!.work(
-    QUEUES.cueRun,
-    { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: 0.5 },
-    async (jobs) => {
-      for (const job of jobs) await handle(job as unknown as JobMeta);
-    },
-  );
+  worker = await startCueWorker(t);
   producer = new Client(t.app);
   await producer.signIn('pia.producer@lanternfish.example');
 }, 60_000);
 afterAll(async () => {
-  storage.close();
+  worker.close();
   await t.close();
 });
 
@@ -71,21 +59,6 @@ async function upload(trackId: string, fileName: string, body: string | Buffer, 
     .send(Buffer.isBuffer(body) ? body : Buffer.from(body));
 }
 
-async function storedObject(key: string): Promise<Buffer> {
-  const o = await storage.client.send(new GetObjectCommand({ Bucket: storage.bucket, Key: key }));
-  return Buffer.from(await o.Body!.transformToByteArray());
-}
-
-async function waitForRun(runId: string, done: (s: string) => boolean, timeout_ms = 60_000) {
-  const until = Date.now() + timeout_ms;
-  for (;;) {
-    const [row] = await t.tdb.db.select().from(cueRuns).where(eq(cueRuns.id, runId));
-    if (row && done(row.state)) return row;
-    if (Date.now() > until) throw new Error(`run ${runId} still ${row?.state} after ${timeout_ms} ms`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
-
 describe('takes', () => {
   it('streams an upload to storage, records size and SHA-256, and the stored bytes match', async () => {
     const track = await newTrack();
@@ -102,7 +75,7 @@ describe('takes', () => {
     });
     const [row] = await t.tdb.db.select().from(takes).where(eq(takes.id, take.id));
     // The stored object is byte for byte what was sent (the S3 fake corrupts streamed bodies under some SDK settings).
-    expect(sha(await storedObject(row!.storageKey))).toBe(sha(csv));
+    expect(sha(await worker.stored(row!.storageKey))).toBe(sha(csv));
   });
 
   it('accepts a gzipped take', async () => {
@@ -118,8 +91,11 @@ describe('takes', () => {
     const good = await upload(track.id, 'reef.csv', makeVehicleCsv({ duration_s: 2 }));
     expect(good.status).toBe(201);
     const before = await t.tdb.db.select({ n: count() }).from(takes);
-    const list = await storage.client.send(
-      new ListObjectsV2Command({ Bucket: storage.bucket, Prefix: `studios/${t.seed.studioId}/takes/` }),
+    const list = await worker.storage.client.send(
+      new ListObjectsV2Command({
+        Bucket: worker.storage.bucket,
+        Prefix: `studios/${t.seed.studioId}/takes/`,
+      }),
     );
     const bad = makeVehicleCsv({ duration_s: 2 }).replace(/\n0\.0300,[^,]*,/, '\n0.0300,abc,');
     const r = await upload(track.id, 'reef-bad.csv', bad);
@@ -127,8 +103,11 @@ describe('takes', () => {
     expect(r.body.error).toBe('reef-bad.csv line 5, column 2 (fx_mps2): not a number: "abc"');
     const after = await t.tdb.db.select({ n: count() }).from(takes);
     expect(after[0]!.n).toBe(before[0]!.n);
-    const list2 = await storage.client.send(
-      new ListObjectsV2Command({ Bucket: storage.bucket, Prefix: `studios/${t.seed.studioId}/takes/` }),
+    const list2 = await worker.storage.client.send(
+      new ListObjectsV2Command({
+        Bucket: worker.storage.bucket,
+        Prefix: `studios/${t.seed.studioId}/takes/`,
+      }),
     );
     expect(list2.KeyCount).toBe(list.KeyCount);
     // The good take is still there, unchanged.
@@ -208,16 +187,16 @@ describe('cue runs', () => {
     const runs = runSummaryList.parse(q.body);
     expect(runs.map((r) => r.venueName).sort()).toEqual(['Harbour Lights Dome', 'Tidewater Arcade']);
     for (const run of runs) {
-      const row = await waitForRun(run.id, (s) => s !== 'queued' && s !== 'cueing');
+      const row = await worker.waitForRun(run.id, (s) => s !== 'queued' && s !== 'cueing');
       expect(['awaiting_review', 'held_by_budget']).toContain(row.state);
       expect(row.progress).toBe(100);
-      const manifest = JSON.parse((await storedObject(`${row.artifactPrefix}manifest.json`)).toString()) as {
+      const manifest = JSON.parse((await worker.stored(`${row.artifactPrefix}manifest.json`)).toString()) as {
         files: { name: string; sha256: string }[];
         input: { sha256: string };
       };
       expect(manifest.input.sha256).toBe(take.sha256);
       for (const f of manifest.files)
-        expect(sha(await storedObject(`${row.artifactPrefix}${f.name}`)), f.name).toBe(f.sha256);
+        expect(sha(await worker.stored(`${row.artifactPrefix}${f.name}`)), f.name).toBe(f.sha256);
       expect(manifest.files.map((f) => f.name).sort()).toEqual([
         'findings.json',
         'legs.csv',
@@ -230,7 +209,7 @@ describe('cue runs', () => {
       expect(d.result?.uses.length).toBeGreaterThan(0);
       expect(d.state).toBe(row.state);
       // The package report names the cueing profile as the run page does (name and version).
-      const report = (await storedObject(`${row.artifactPrefix}report.txt`)).toString();
+      const report = (await worker.stored(`${row.artifactPrefix}report.txt`)).toString();
       if (d.cueingVersion) {
         expect(report).toContain(`profile "${d.cueingVersion.name} v${d.cueingVersion.version}"`);
       }
@@ -271,13 +250,13 @@ describe('cue runs', () => {
       (await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] }))
         .body,
     );
-    const done = await waitForRun(first[0]!.id, (s) => s !== 'queued' && s !== 'cueing');
+    const done = await worker.waitForRun(first[0]!.id, (s) => s !== 'queued' && s !== 'cueing');
     const again = runSummaryList.parse(
       (await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] }))
         .body,
     );
     expect(again[0]!.id).toBe(first[0]!.id);
-    await handle({
+    await worker.handle({
       id: first[0]!.id,
       data: { runId: first[0]!.id, studioId: t.seed.studioId },
       retryCount: 0,
@@ -299,13 +278,13 @@ describe('cue runs', () => {
       (await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.arcade] }))
         .body,
     );
-    await waitForRun(run!.id, (s) => s !== 'queued' && s !== 'cueing');
+    await worker.waitForRun(run!.id, (s) => s !== 'queued' && s !== 'cueing');
     // What a killed worker leaves: state cueing, partial progress, no summary.
     await t.tdb.db
       .update(cueRuns)
       .set({ state: 'cueing', progress: 40, summary: null, finishedAt: null })
       .where(eq(cueRuns.id, run!.id));
-    await handle({
+    await worker.handle({
       id: run!.id,
       data: { runId: run!.id, studioId: t.seed.studioId },
       retryCount: 1,
@@ -323,12 +302,14 @@ describe('cue runs', () => {
       (await upload(track.id, 'vanish.csv', makeVehicleCsv({ duration_s: 3 }))).body,
     );
     const [row] = await t.tdb.db.select().from(takes).where(eq(takes.id, take.id));
-    await storage.client.send(new DeleteObjectCommand({ Bucket: storage.bucket, Key: row!.storageKey }));
+    await worker.storage.client.send(
+      new DeleteObjectCommand({ Bucket: worker.storage.bucket, Key: row!.storageKey }),
+    );
     const [run] = runSummaryList.parse(
       (await producer.send('post', `${base()}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] }))
         .body,
     );
-    const failed = await waitForRun(run!.id, (s) => s === 'failed', 90_000);
+    const failed = await worker.waitForRun(run!.id, (s) => s === 'failed', 90_000);
     // Retry limit 2 in this file: three attempts in all.
     expect(failed.attempts).toBe(3);
     expect(failed.failureReason).toMatch(/^Gave up after 3 attempt\(s\): /);

@@ -2,7 +2,6 @@
 // field), recorded in the run's parameters as part of its identity, applied by the worker exactly as
 // `legwork process --touchup` applies it (same package bytes), and charted before and after.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { GetObjectCommand } from '@aws-sdk/client-s3';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createHash } from 'node:crypto';
@@ -10,11 +9,8 @@ import { eq } from 'drizzle-orm';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { cueRuns, profileVersions, venues } from '../../server/db/schema';
-import { createStorage } from '../../server/storage';
-import { testEnv } from './support/services';
-import { QUEUES } from '../../server/queue';
-import { createHandler } from '../../worker/jobs/cue-run';
-import type { JobMeta } from '../../worker/jobs/cue-run';
+import { startCueWorker } from './support/cue-worker';
+import type { CueWorker } from './support/cue-worker';
 import { makeVehicleCsv } from '../factories/takes';
 import { cliSandbox } from '../factories/cli';
 import {
@@ -27,7 +23,7 @@ import { runSeriesSchema } from '../../shared/schemas/run-series';
 
 let t: TestApp;
 let producer: Client;
-let storage: ReturnType<typeof createStorage>;
+let worker: CueWorker;
 const cli = cliSandbox('legwork-touchup-run-');
 const sha = (b: string | Buffer) => createHash('sha256').update(b).digest('hex');
 
@@ -36,20 +32,12 @@ beforeAll(async () => {
     queue: true,
     env: { CUE_RUN_RETRY_LIMIT: '1', CUE_RUN_RETRY_DELAY_S: '1', LOGIN_RATE_LIMIT: '1000' },
   });
-  storage = createStorage(testEnv(t.tdb.url));
-  const handle = createHandler({ db: t.tdb.db, storage, log: () => undefined, now: () => new Date() });
-  await t.boss!.work(
-    QUEUES.cueRun,
-    { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: 0.5 },
-    async (jobs) => {
-      for (const job of jobs) await handle(job as unknown as JobMeta);
-    },
-  );
+  worker = await startCueWorker(t);
   producer = new Client(t.app);
   await producer.signIn('pia.producer@lanternfish.example');
 }, 60_000);
 afterAll(async () => {
-  storage.close();
+  worker.close();
   await t.close();
 });
 
@@ -75,21 +63,6 @@ async function ask(takeId: string, body: object) {
     ...body,
   });
   return r;
-}
-
-async function waitForRun(runId: string, timeout_ms = 60_000) {
-  const until = Date.now() + timeout_ms;
-  for (;;) {
-    const [row] = await t.tdb.db.select().from(cueRuns).where(eq(cueRuns.id, runId));
-    if (row && row.state !== 'queued' && row.state !== 'cueing') return row;
-    if (Date.now() > until) throw new Error(`run ${runId} still ${row?.state} after ${timeout_ms} ms`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
-
-async function stored(key: string): Promise<Buffer> {
-  const o = await storage.client.send(new GetObjectCommand({ Bucket: storage.bucket, Key: key }));
-  return Buffer.from(await o.Body!.transformToByteArray());
 }
 
 describe('touch-up on a run request', () => {
@@ -148,7 +121,7 @@ describe('touch-up on a run request', () => {
   it('the worker applies it as `legwork process --touchup` does: the same package files', async () => {
     const take = await newTake('Reed Bed Landing');
     const run = runSummarySchema.array().parse((await ask(take.id, { touchup: TOUCHUP })).body)[0]!;
-    const row = await waitForRun(run.id);
+    const row = await worker.waitForRun(run.id);
     expect(['awaiting_review', 'held_by_budget']).toContain(row.state);
 
     // The same inputs through the command: the venue's base, cueing and budget versions, the take.
@@ -173,11 +146,11 @@ describe('touch-up on a run request', () => {
     );
     expect(r.err).toBe('');
     for (const name of ['legs.csv', 'pose.csv', 'findings.json', 'spectra.json']) {
-      expect(sha(await stored(`${row.artifactPrefix}${name}`)), name).toBe(
+      expect(sha(await worker.stored(`${row.artifactPrefix}${name}`)), name).toBe(
         sha(readFileSync(join(out, name))),
       );
     }
-    const manifest = JSON.parse((await stored(`${row.artifactPrefix}manifest.json`)).toString()) as {
+    const manifest = JSON.parse((await worker.stored(`${row.artifactPrefix}manifest.json`)).toString()) as {
       touchup: { parameters: { gain: Record<string, number> } } | null;
     };
     expect(manifest.touchup?.parameters.gain).toEqual({ fx: 0.5 });
