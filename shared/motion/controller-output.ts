@@ -9,14 +9,14 @@ import type { PoseColumns } from './hexapod';
 /** The binary file's layout, written into the manifest so any reader can decode it. */
 export interface FrameLayout {
   file: string;
-  format: 'float32';
+  format: 'float32' | 'int32';
   byteOrder: 'little-endian';
   valuesPerFrame: number;
   bytesPerFrame: number;
   frames: number;
   rate_hz: number;
   columns: string[];
-  unit: 'mm';
+  unit: 'mm' | 'counts';
   zero: string;
   header: 'none';
 }
@@ -56,19 +56,57 @@ export function float32Frames(columns: readonly Float64Array[]): Uint8Array {
   return bytes;
 }
 
-/** The manifest's description of a float32 frame file. */
-export function frameLayout(file: string, columns: string[], frames: number, rate_hz: number): FrameLayout {
+/** Thrown when encoder counts do not fit the controller's signed 32-bit integers. */
+export class ControllerOutputError extends Error {
+  override name = 'ControllerOutputError';
+}
+
+/**
+ * Little-endian signed 32-bit integer frames of encoder counts, laid out as float32Frames. A count
+ * outside the int32 range is refused, naming the leg and frame, rather than wrapped.
+ */
+export function int32Frames(columns: readonly Float64Array[]): Uint8Array {
+  const n = columns[0]?.length ?? 0;
+  const c = columns.length;
+  const bytes = new Uint8Array(n * c * 4);
+  const view = new DataView(bytes.buffer);
+  for (let k = 0; k < n; k++) {
+    for (let j = 0; j < c; j++) {
+      const v = (columns[j] as Float64Array)[k] as number;
+      if (!Number.isInteger(v) || v < -2_147_483_648 || v > 2_147_483_647) {
+        throw new ControllerOutputError(
+          `leg${j + 1} frame ${k}: ${v} encoder counts do not fit a signed 32-bit integer; ` +
+            'lower counts per mm or move the zero offset',
+        );
+      }
+      view.setInt32((k * c + j) * 4, v, true);
+    }
+  }
+  return bytes;
+}
+
+/** The manifest's description of a frame file: float32 millimetres or int32 encoder counts. */
+export function frameLayout(
+  file: string,
+  columns: string[],
+  frames: number,
+  rate_hz: number,
+  kind: 'mm' | 'counts' = 'mm',
+): FrameLayout {
   return {
     file,
-    format: 'float32',
+    format: kind === 'mm' ? 'float32' : 'int32',
     byteOrder: 'little-endian',
     valuesPerFrame: columns.length,
     bytesPerFrame: columns.length * 4,
     frames,
     rate_hz,
     columns,
-    unit: 'mm',
-    zero: 'fully retracted actuator length (leg.min_m of the motion base)',
+    unit: kind,
+    zero:
+      kind === 'mm'
+        ? 'fully retracted actuator length (leg.min_m of the motion base)'
+        : 'counts = round(mm x countsPerMm + zeroOffset_counts), mm from the fully retracted length',
     header: 'none',
   };
 }
@@ -115,13 +153,20 @@ function rampValue(profile: RampProfile, u: number, P: number, V: number, A: num
   return profile === 'quintic' ? quinticFromRest(u, P, V, A) : raisedCosine(u, P);
 }
 
-/** The show's pose with its ramps; time 0 is the start of the ramp in, the show starts at rampIn_s. */
+/**
+ * The show's pose with its ramps. The show keeps its own times: the ramp in plays at the rampIn_s
+ * seconds before the show's first sample (negative times for a show starting at 0), the ramp out in
+ * the rampOut_s seconds after its last.
+ */
 export interface RampedPose {
   time_s: Float64Array;
   pose: PoseColumns;
-  /** Length of the ramp into the show (s): the show's first sample plays at this time. */
+  /** Length of the ramp into the show (s). */
   rampIn_s: number;
   rampOut_s: number;
+  /** Index of the show's first and last frame in the ramped columns. */
+  showStartFrame: number;
+  showEndFrame: number;
 }
 
 const POSE_KEYS = ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const;
@@ -139,12 +184,20 @@ export function withNeutralRamps(
 ): RampedPose {
   const n = time_s.length;
   const r = Math.round(ramp.duration_s * rate_hz);
-  if (r === 0 || n < 3) return { time_s, pose, rampIn_s: 0, rampOut_s: 0 };
+  if (r === 0 || n < 3) {
+    return { time_s, pose, rampIn_s: 0, rampOut_s: 0, showStartFrame: 0, showEndFrame: n - 1 };
+  }
   const dt = 1 / rate_hz;
   const d = r * dt;
   const m = n + 2 * r;
   const out = new Float64Array(m);
-  for (let k = 0; k < m; k++) out[k] = k * dt;
+  const t0 = time_s[0] as number;
+  const t1 = time_s[n - 1] as number;
+  out.set(time_s, r);
+  for (let k = 0; k < r; k++) {
+    out[k] = t0 - (r - k) * dt;
+    out[n + r + k] = t1 + (k + 1) * dt;
+  }
   const ramped = {} as Record<(typeof POSE_KEYS)[number], Float64Array>;
   for (const key of POSE_KEYS) {
     const src = pose[key];
@@ -165,5 +218,12 @@ export function withNeutralRamps(
     }
     ramped[key] = col;
   }
-  return { time_s: out, pose: ramped, rampIn_s: d, rampOut_s: d };
+  return {
+    time_s: out,
+    pose: ramped,
+    rampIn_s: d,
+    rampOut_s: d,
+    showStartFrame: r,
+    showEndFrame: r + n - 1,
+  };
 }

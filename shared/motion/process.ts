@@ -35,6 +35,8 @@ import { hexapodLegForces } from './leg-force';
 import { applyTouchup, TouchupError } from './touchup';
 import { isIdentityTouchup } from '../schemas/touchup';
 import type { Touchup } from '../schemas/touchup';
+import type { ControllerOutput } from '../schemas/controller-output';
+import { withNeutralRamps } from './controller-output';
 
 /** Inputs of the pipeline; the track is parsed (SI) but not yet resampled. */
 export interface ProcessInput {
@@ -46,6 +48,18 @@ export interface ProcessInput {
   budget?: Budget;
   /** Touch-up applied to the take before anything else (resampling, cueing, kinematics, checks). */
   touchup?: Touchup;
+  /**
+   * The venue controller's ramps from neutral at rest into the show and back out of it, added after
+   * cueing and before kinematics, so they are solved and checked like the rest; none when absent.
+   */
+  ramp?: ControllerOutput['ramp'];
+}
+
+/** The ramps a run carries (s) and their profile. */
+export interface RampSummary {
+  in_s: number;
+  out_s: number;
+  profile: ControllerOutput['ramp']['profile'];
 }
 
 /** Spectra as written to spectra.json: one-sided Welch PSD per axis of the rider's specific force. */
@@ -88,6 +102,8 @@ export interface ProcessResult {
   touchup: Touchup | null;
   /** The profile used when the input was a vehicle track. */
   profile: CueingProfile | null;
+  /** The ramps from and to neutral added around the show, or null when none. */
+  ramp: RampSummary | null;
   notes: string[];
   exitCode: 0 | 3 | 4;
   /** Gaps in the input (spacing over 5 x the median), each bridged by interpolation; shaded on the charts. */
@@ -162,16 +178,16 @@ export function processTrack(input: ProcessInput): ProcessResult {
   }
   const decimated = resampleAntiAlias(track, rate_hz);
   const rs = decimated.track;
-  const n = rs.length;
+  let n = rs.length;
   if (n < 4) {
     throw new ProcessInputError(
       `the track spans ${n} sample(s) at the controller rate ${rate_hz} Hz; at least 4 are needed`,
     );
   }
-  const time_s = rs.time_s;
+  let time_s = rs.time_s;
   const zeros = () => new Float64Array(n);
   let pose: PoseColumns;
-  let legs: Float64Array[];
+  let legs: Float64Array[] | undefined;
   let profile: CueingProfile | null = null;
 
   if (rs.kind === 'vehicle') {
@@ -228,6 +244,25 @@ export function processTrack(input: ProcessInput): ProcessResult {
         pitch_rad: zeros(),
         yaw_rad: p.yaw_rad,
       };
+    }
+  }
+
+  // Ramps from neutral at rest into the show and back out of it, in the show's own time axis (the ramp
+  // in before its first sample). Legs of a legs take are solved again from the ramped pose.
+  let ramp: RampSummary | null = null;
+  if (input.ramp && input.ramp.duration_s > 0) {
+    const r = withNeutralRamps(time_s, pose, rate_hz, input.ramp);
+    if (r.rampIn_s > 0) {
+      time_s = r.time_s;
+      pose = r.pose;
+      n = time_s.length;
+      legs = undefined;
+      ramp = { in_s: r.rampIn_s, out_s: r.rampOut_s, profile: input.ramp.profile };
+      notes.push(
+        `Ramps of ${sig(r.rampIn_s)} s (${input.ramp.profile === 'quintic' ? 'quintic, from rest' : 'raised cosine'}) ` +
+          'from neutral into the first pose and from the last pose back to neutral were added, as the venue controller ' +
+          'plays them; they are solved and checked with the show.',
+      );
     }
   }
 
@@ -351,6 +386,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
     budgetIsDemo,
     touchup: input.touchup && !isIdentityTouchup(input.touchup) ? input.touchup : null,
     profile,
+    ramp,
     notes,
     exitCode: exitCodeFor(check),
     gaps: gaps.map((g) => ({ start_s: g.start_s, end_s: g.end_s })),

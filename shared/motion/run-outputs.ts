@@ -16,6 +16,7 @@ import { buildRunSeries } from './run-series';
 import { fixedColumnsCsv } from './fixed-csv';
 import type { Track } from './track-reader';
 import type { FilmSync } from '../schemas/film-sync';
+import type { ControllerOutput } from '../schemas/controller-output';
 import { FRAME_RATES } from './timecode';
 
 /**
@@ -98,6 +99,8 @@ export interface PackageSource {
   budget?: SourceFile;
   /** The touch-up file (`legwork process --touchup`); absent when none or when it came with the run. */
   touchup?: SourceFile;
+  /** The venue controller settings the run was made for (ramps, encoder), when given. */
+  controller?: ControllerOutput;
   softwareVersion: string;
   /** The picture the run plays against (the take's film sync with the run's offset); null or absent: none. */
   filmSync?: FilmSync | null;
@@ -195,6 +198,8 @@ export function buildRunOutputs(
       : null,
     budget: { ...(source.budget ?? {}), demo: result.budgetIsDemo, parameters: result.budget },
     touchup: result.touchup ? { ...(source.touchup ?? {}), parameters: result.touchup } : null,
+    ramp: result.ramp,
+    ...(source.controller ? { controller: source.controller } : {}),
     filmSync: source.filmSync ? filmSyncManifest(source.filmSync) : null,
     notes: result.notes,
     ...(source.run ? { run: source.run } : {}),
@@ -216,6 +221,7 @@ export function buildRunOutputs(
     samples: n_out,
     duration_s: n_out > 0 ? (result.time_s[n_out - 1] as number) - (result.time_s[0] as number) : 0,
     budgetIsDemo: result.budgetIsDemo,
+    ...(result.ramp ? { ramp: result.ramp } : {}),
   };
   // The chart series are built when first read: `legwork process` writes no series.json.
   let series: RunSeries | undefined;

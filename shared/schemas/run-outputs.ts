@@ -79,6 +79,14 @@ export const cueingSummarySchema = z.object({
 });
 export type CueingSummary = z.infer<typeof cueingSummarySchema>;
 
+/** The ramps from and to neutral a run carries (venue controller settings), in seconds. */
+export const rampSummarySchema = z.object({
+  in_s: z.number().nonnegative(),
+  out_s: z.number().nonnegative(),
+  profile: z.enum(['quintic', 'raisedCosine']),
+});
+export type RampSummaryStored = z.infer<typeof rampSummarySchema>;
+
 /** The summary stored with a finished run (`cue_runs.summary`): what lists, the run page and reviews need. */
 export const storedRunSummarySchema = z.object({
   within: z.boolean(),
@@ -93,6 +101,8 @@ export const storedRunSummarySchema = z.object({
   budgetIsDemo: z.boolean(),
   /** Vehicle takes only; absent for pose and legs takes and for runs stored before it was recorded. */
   cueing: cueingSummarySchema.nullable().optional(),
+  /** Ramps from and to neutral around the show; absent for runs with none or stored before they existed. */
+  ramp: rampSummarySchema.optional(),
   /** Every file the run wrote, the manifest and the chart series included. */
   files: z.array(manifestFileSchema),
 });

@@ -9,6 +9,7 @@ import {
   encoderCounts,
   float32Frames,
   frameLayout,
+  int32Frames,
   withNeutralRamps,
 } from '../../../shared/motion/controller-output';
 import { controllerOutputSchema } from '../../../shared/schemas/controller-output';
@@ -55,6 +56,26 @@ describe('controller files', () => {
   });
 });
 
+describe('encoder count frames', () => {
+  it('int32 frames decoded with readInt32LE equal the counts, and the layout says int32 counts', () => {
+    const pos = actuatorPositions_mm(legs, 1.5);
+    const counts = encoderCounts(pos, { countsPerMm: 409.6, zeroOffset_counts: -1000 });
+    const bytes = Buffer.from(int32Frames(counts));
+    const layout = frameLayout('c.i32', ['a', 'b', 'c', 'd', 'e', 'f'], n, rate, 'counts');
+    expect([layout.format, layout.unit, layout.bytesPerFrame]).toEqual(['int32', 'counts', 24]);
+    for (let k = 0; k < n; k += 37) {
+      for (let j = 0; j < 6; j++) {
+        const expected = Math.round(((legs[j] as Float64Array)[k] as number) * 409600 - 1.5 * 409600 - 1000);
+        expect(bytes.readInt32LE(k * 24 + 4 * j)).toBe(expected);
+      }
+    }
+  });
+
+  it('refuses counts outside the signed 32-bit range, naming the leg and frame', () => {
+    expect(() => int32Frames([Float64Array.of(0, 2 ** 31)])).toThrow(/leg1 frame 1/);
+  });
+});
+
 describe('ramps from and to neutral', () => {
   const showPose = (): PoseColumns => ({
     // A show that starts and ends away from neutral and moving.
@@ -71,6 +92,11 @@ describe('ramps from and to neutral', () => {
     const r = withNeutralRamps(time, showPose(), rate, ramp);
     expect(r.rampIn_s).toBe(2);
     expect(r.time_s.length).toBe(n + 400);
+    // The show keeps its own times: the ramp in plays before 0 s, the ramp out after the last sample.
+    expect(r.time_s[0]).toBeCloseTo(-2, 12);
+    expect(r.time_s[200]).toBe(0);
+    expect(r.time_s[r.time_s.length - 1]).toBeCloseTo((n - 1) / rate + 2, 9);
+    expect([r.showStartFrame, r.showEndFrame]).toEqual([200, 200 + n - 1]);
     for (const key of ['x_m', 'z_m', 'pitch_rad'] as const) {
       const c = r.pose[key];
       expect(c[0]).toBe(0);
