@@ -13,7 +13,7 @@ export interface DemoRideOptions {
   rate_hz?: number;
   /**
    * How hard the ride is driven: 1 is the gentle house cut; it scales the launch, the turn angles, the
-   * drop and the bumps, so 1.6 is a hot cut.
+   * drop and the bumps, so 4 is the demo's hot cut.
    */
   intensity?: number;
   /** How sharp the three bumps are, on top of the intensity: 1 is a soft rumble, 3 a rattle. Default 1. */

@@ -49,7 +49,7 @@ export interface DemoTake {
  * The demo studio's track: a fictional dark-ride coaster film (station, launch, banked left turn, hill,
  * drop, banked right turn, three bumps, brake run). Four cuts of it show every stage of the chain: the
  * first cut at both venues, a recut, a rattly cut whose bumps break the comfort limit on jerk, and a hot
- * cut driven so hard that the washout leaves the dome's platform off neutral at the end (a hard limit).
+ * cut driven so hard that the dome's legs run out of stroke in the drop (a hard limit).
  */
 export const DEMO_TRACK = {
   title: 'Breakwater Chase',
@@ -87,7 +87,7 @@ export const DEMO_TRACK = {
       note: 'hot cut',
       duration_s: 60,
       rate_hz: 100,
-      intensity: 1.6,
+      intensity: 4,
       bumps: 1,
       venues: ['dome'],
     },

@@ -16,6 +16,9 @@ import { parseCueingProfileJson } from '../../shared/schemas/cueing-profile';
 import type { CueingProfile } from '../../shared/schemas/cueing-profile';
 import { touchupSchema } from '../../shared/schemas/touchup';
 import type { Touchup } from '../../shared/schemas/touchup';
+import { controllerOutputSchema } from '../../shared/schemas/controller-output';
+import type { ControllerOutput } from '../../shared/schemas/controller-output';
+import type { z } from 'zod';
 import {
   JsonInputError,
   formatJsonPath,
@@ -186,8 +189,12 @@ export async function readProfileFile(path: string): Promise<{ profile: CueingPr
   throw new CliInputError(`invalid cueing profile:\n${lines.join('\n')}`);
 }
 
-/** Reads and validates a touch-up JSON file; every problem names the field (`gain.z: ...`). */
-export async function readTouchupFile(path: string): Promise<{ touchup: Touchup; text: string }> {
+/** Reads a JSON settings file and validates it with `schema`; every problem names the field. */
+async function readSettingsFile<S extends z.ZodType>(
+  path: string,
+  schema: S,
+  what: string,
+): Promise<{ value: z.infer<S>; text: string }> {
   const text = await readTextFile(path);
   let json: unknown;
   try {
@@ -195,12 +202,26 @@ export async function readTouchupFile(path: string): Promise<{ touchup: Touchup;
   } catch (e) {
     throw new CliInputError(`${path}: not JSON: ${(e as Error).message}`);
   }
-  const r = touchupSchema.safeParse(json);
-  if (r.success) return { touchup: r.data, text };
+  const r = schema.safeParse(json);
+  if (r.success) return { value: r.data, text };
   const lines = r.error.issues.map((i) =>
     formatProblem({ file: path, path: formatJsonPath(i.path), reason: i.message }),
   );
-  throw new CliInputError(`invalid touch-up:\n${lines.join('\n')}`);
+  throw new CliInputError(`invalid ${what}:\n${lines.join('\n')}`);
+}
+
+/** Reads and validates a touch-up JSON file; every problem names the field (`gain.z: ...`). */
+export async function readTouchupFile(path: string): Promise<{ touchup: Touchup; text: string }> {
+  const { value, text } = await readSettingsFile(path, touchupSchema, 'touch-up');
+  return { touchup: value, text };
+}
+
+/** Reads and validates a venue controller settings file (ramp, encoder); problems name the field. */
+export async function readControllerFile(
+  path: string,
+): Promise<{ controller: ControllerOutput; text: string }> {
+  const { value, text } = await readSettingsFile(path, controllerOutputSchema, 'controller settings');
+  return { controller: value, text };
 }
 
 /**

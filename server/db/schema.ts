@@ -21,6 +21,7 @@ import {
 import type { StoredRunSummary } from '../../shared/schemas/run-outputs';
 import type { FrameRateId } from '../../shared/motion/timecode';
 import type { RunParams } from '../../shared/schemas/run-params';
+import type { ControllerOutput } from '../../shared/schemas/controller-output';
 
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
 
@@ -123,6 +124,14 @@ export const venues = pgTable(
     timeZone: text('time_zone').notNull(),
     /** The motion base as validated JSON (shared/schemas/motion-base.ts). */
     base: jsonb('base').notNull(),
+    /**
+     * How the venue's motion controller takes its track (shared/schemas/controller-output.ts): ramps
+     * from and to neutral, optional encoder counts. Copied into each run's parameters when it is queued.
+     */
+    controller: jsonb('controller')
+      .$type<ControllerOutput>()
+      .notNull()
+      .default({ ramp: { duration_s: 3, profile: 'quintic' } }),
     createdAt: createdAt(),
   },
   (t) => [index('venues_studio_idx').on(t.studioId)],

@@ -48,7 +48,16 @@ export async function seedDemo(db: Db) {
     const [second] = await tx.insert(studios).values(DEMO_SECOND_STUDIO).returning();
     const [dome] = await tx
       .insert(venues)
-      .values({ studioId: studio!.id, ...DEMO_VENUES.dome, base: demoHexapodBase })
+      .values({
+        studioId: studio!.id,
+        ...DEMO_VENUES.dome,
+        base: demoHexapodBase,
+        // Demo numbers: an encoder of 409.6 counts per mm (4096 counts per 10 mm of stroke).
+        controller: {
+          encoder: { countsPerMm: 409.6, zeroOffset_counts: 0 },
+          ramp: { duration_s: 3, profile: 'quintic' },
+        },
+      })
       .returning();
     const [arcade] = await tx
       .insert(venues)

@@ -16,6 +16,7 @@ import { trackName } from '../../shared/motion/track-names';
 import { cueRunJobSchema } from '../../shared/schemas/run-outputs';
 import { normalRunParams } from '../../shared/schemas/run-params';
 import type { RunParams } from '../../shared/schemas/run-params';
+import { controllerOutputSchema } from '../../shared/schemas/controller-output';
 import type { Touchup, TouchupAxis } from '../../shared/schemas/touchup';
 import { touchupAxesOf } from '../../shared/motion/touchup';
 import { takeFilmSync } from './views';
@@ -188,6 +189,7 @@ export async function queueRuns(
         id: venues.id,
         name: venues.name,
         base: venues.base,
+        controller: venues.controller,
         cueing: venueSettings.cueingVersionId,
         budget: venueSettings.budgetVersionId,
       })
@@ -225,7 +227,8 @@ export async function queueRuns(
           venue: v,
           cueingVersionId: opts.take.kind === 'vehicle' ? v.cueing : null,
           budgetVersionId: v.budget,
-          params,
+          // The venue's controller settings as they are now: part of the run's identity.
+          params: normalRunParams({ ...params, controller: controllerOutputSchema.parse(v.controller) }),
         }),
       );
     }

@@ -7,10 +7,15 @@ import yazl from 'yazl';
 import { CHECK_LABELS, TIER_LABELS, checkUnit, subjectLabel } from '../../shared/labels';
 import {
   actuatorPositions_mm,
+  ControllerOutputError,
   controllerCsv,
+  encoderCounts,
   float32Frames,
   frameLayout,
+  int32Frames,
 } from '../../shared/motion/controller-output';
+import type { ControllerOutput } from '../../shared/schemas/controller-output';
+import type { Touchup } from '../../shared/schemas/touchup';
 import { REPORT_CAUTION } from '../../shared/motion/report';
 import type { Finding } from '../../shared/schemas/findings';
 import type { MotionBase } from '../../shared/schemas/motion-base';
@@ -43,6 +48,10 @@ export interface ReleasePackageInput {
   softwareVersion: string;
   /** The take's film sync settings, when it has them. */
   filmSync?: Record<string, unknown> | null;
+  /** The venue controller settings the run was made with (its parameters); absent: millimetres only. */
+  controller?: ControllerOutput | null;
+  /** The touch-up applied to the take before cueing (the run's parameters), when there was one. */
+  touchup?: Touchup | null;
   /** Reads one of the run's stored files (legs.csv, pose.csv, findings.json, spectra.json, report.txt). */
   readRunFile(name: string): Promise<Buffer>;
 }
@@ -65,6 +74,8 @@ export const COPIED_RUN_FILES = [
 ] as const;
 export const CONTROLLER_CSV = 'controller/positions_mm.csv';
 export const CONTROLLER_BIN = 'controller/positions_f32le.bin';
+export const COUNTS_CSV = 'controller/counts.csv';
+export const COUNTS_BIN = 'controller/counts_i32le.bin';
 export const LEG_SPEED_CSV = 'series/leg_speed.csv';
 export const LEG_ACCEL_CSV = 'series/leg_accel.csv';
 export const SEAT_FORCE_CSV = 'series/seat_force.csv';
@@ -259,6 +270,31 @@ export function buildReportHtml(
     )
     .join('');
   const budget = budgetRows.map((b) => `<tr><td>${e(b.key)}</td><td>${e(b.value)}</td></tr>`).join('');
+  const ramp = s.ramp
+    ? `${s.ramp.in_s} s in and ${s.ramp.out_s} s out, ${s.ramp.profile === 'quintic' ? 'quintic from rest (position, speed and acceleration meet the show)' : 'raised cosine (position meets the show)'}; the files start and end at neutral at rest, and the ramps were checked with the show`
+    : "none: the files start and end at the show's own first and last positions";
+  const enc = input.controller?.encoder;
+  const encoderRow = enc
+    ? `${e(COUNTS_CSV)} and ${e(COUNTS_BIN)}: round(mm x ${enc.countsPerMm} + ${enc.zeroOffset_counts})`
+    : 'none (millimetres only)';
+  const tu = input.touchup;
+  const touchupSection = tu
+    ? `<h2>Touch-up of the take</h2>
+<p>Applied to the take before cueing, by the worker and by <code>legwork process --touchup</code> alike.</p>
+<table><tr><th>Time offset</th><td>${tu.offset_s} s</td></tr><tr><th>Trim</th><td>in ${tu.trimIn_s === undefined ? 'none' : `${tu.trimIn_s} s`}, out ${tu.trimOut_s === undefined ? 'none' : `${tu.trimOut_s} s`}</td></tr>
+<tr><th>Fades</th><td>in ${tu.fadeIn_s} s, out ${tu.fadeOut_s} s</td></tr>
+<tr><th>Gain</th><td>${e(
+        Object.entries(tu.gain)
+          .map(([k, v]) => `${k} x ${v}`)
+          .join(', ') || 'none',
+      )}</td></tr>
+<tr><th>Smoothing</th><td>${e(
+        Object.entries(tu.smoothing_hz)
+          .map(([k, v]) => `${k} ${v} Hz`)
+          .join(', ') || 'none',
+      )}</td></tr></table>
+`
+    : '';
   const park = base.park
     ? `<p>The motion base's park sequence as given: ${e(base.park)}</p>`
     : '<p><strong>No park or emergency-stop sequence is given for this motion base.</strong> Obtain it from the ride maker before running this track.</p>';
@@ -283,9 +319,11 @@ svg text{font-size:10px;fill:#333}.grid{stroke:#ccc}.leg{fill:none;stroke-width:
 <tr><th>Motion base</th><td>${e(input.motionBase.name)} (geometry SHA-256 ${e(input.motionBase.sha256)})</td></tr>
 <tr><th>Cueing profile</th><td>${input.cueing ? `${e(input.cueing.name)} v${input.cueing.version}` : 'none (the take is a pose or legs track)'}</td></tr>
 <tr><th>Budget</th><td>${e(input.budget.name)} v${input.budget.version}</td></tr>
-${filmSyncRow(input.filmSync)}<tr><th>Software</th><td>Legwork ${e(input.softwareVersion)}</td></tr>
+${filmSyncRow(input.filmSync)}<tr><th>Ramps</th><td>${e(ramp)}</td></tr>
+<tr><th>Encoder counts</th><td>${encoderRow}</td></tr>
+<tr><th>Software</th><td>Legwork ${e(input.softwareVersion)}</td></tr>
 <tr><th>Verdict</th><td>${s.within ? 'Within budget' : 'Over budget'}, ${s.samples} samples at ${s.rate_hz} Hz, ${s.duration_s.toFixed(1)} s</td></tr></table>
-<h2>Leg stroke use over time</h2>
+${touchupSection}<h2>Leg stroke use over time</h2>
 ${strokeChart(time_s, positions_mm, stroke_mm, s.findings)}
 <h2>Findings</h2>
 ${findings ? `<table><tr><th>Check</th><th>Tier</th><th>Where</th><th>When</th><th>Value / limit</th></tr>${findings}</table>` : '<p>No findings: every check is under its limit.</p>'}
@@ -294,7 +332,7 @@ ${findings ? `<table><tr><th>Check</th><th>Tier</th><th>Where</th><th>When</th><
 <h2>Reviews</h2>
 ${reviews ? `<table><tr><th>Decision</th><th>Reviewer</th><th>When</th><th>Budget</th><th>Reason</th></tr>${reviews}</table>` : '<p>No reviews.</p>'}
 <h2>Park and emergency stop</h2>
-<p>What the controller does on an abort or emergency stop is the ride maker's responsibility; this package carries the show only. The controller files start and end at the positions in them.</p>
+<p>What the controller does on an abort or emergency stop is the ride maker's responsibility; this package carries the show and its ramps only. ${s.ramp ? 'The controller files start and end at neutral at rest: the park sequence below runs before the first frame and after the last.' : 'The controller files start and end at the positions in them; the run was made without ramps from neutral.'}</p>
 ${park}
 </body></html>
 `;
@@ -315,6 +353,34 @@ export async function buildReleasePackage(
   const accel = speed.map((v) => derivative(v, dt));
   const columns = positions.map((_, i) => `leg${i + 1}_mm`);
   const layout = frameLayout(CONTROLLER_BIN, columns, time_s.length, rate);
+  const enc = input.controller?.encoder;
+  const counts = enc ? encoderCounts(positions, enc) : null;
+  let countsBin: Uint8Array | null = null;
+  if (counts) {
+    try {
+      countsBin = int32Frames(counts);
+    } catch (err) {
+      if (err instanceof ControllerOutputError) throw new PackageInputError(err.message);
+      throw err;
+    }
+  }
+  const countsLayout = counts
+    ? frameLayout(
+        COUNTS_BIN,
+        columns.map((_, i) => `leg${i + 1}_counts`),
+        time_s.length,
+        rate,
+        'counts',
+      )
+    : null;
+  const rampSummary = input.run.summary.ramp;
+  const rampFrames = rampSummary
+    ? {
+        ...rampSummary,
+        showStartFrame: Math.round(rampSummary.in_s * rate),
+        showEndFrame: time_s.length - 1 - Math.round(rampSummary.out_s * rate),
+      }
+    : null;
   const series: PackageManifest['series'] = [
     {
       file: LEG_SPEED_CSV,
@@ -353,6 +419,12 @@ export async function buildReleasePackage(
     },
     { name: CONTROLLER_CSV, data: Buffer.from(controllerCsv(time_s, positions), 'utf8') },
     { name: CONTROLLER_BIN, data: Buffer.from(float32Frames(positions)) },
+    ...(counts && countsBin
+      ? [
+          { name: COUNTS_CSV, data: Buffer.from(controllerCsv(time_s, positions, counts), 'utf8') },
+          { name: COUNTS_BIN, data: Buffer.from(countsBin) },
+        ]
+      : []),
     { name: LEG_SPEED_CSV, data: Buffer.from(seriesCsv(time_s, speed, 'mps', 6), 'utf8') },
     { name: LEG_ACCEL_CSV, data: Buffer.from(seriesCsv(time_s, accel, 'mps2', 5), 'utf8') },
     ...copiedSeries,
@@ -376,7 +448,21 @@ export async function buildReleasePackage(
     budget: input.budget,
     filmSync: input.filmSync ?? null,
     reviews: input.reviews,
-    controller: { csv: CONTROLLER_CSV, binary: layout },
+    controller: {
+      csv: CONTROLLER_CSV,
+      binary: layout,
+      ...(enc && countsLayout
+        ? {
+            counts: {
+              csv: COUNTS_CSV,
+              binary: countsLayout,
+              countsPerMm: enc.countsPerMm,
+              zeroOffset_counts: enc.zeroOffset_counts,
+            },
+          }
+        : {}),
+      ...(rampFrames ? { ramp: rampFrames } : {}),
+    },
     series,
     files,
   });

@@ -62,5 +62,6 @@ export async function runDetail(db: Db | Tx, studioId: string, loaded: LoadedRun
     files: s?.files.filter((f) => f.name !== SERIES_FILE.name) ?? [],
     params: run.params,
     filmSync: runFilmSync(takeFilmSync(take), run.params),
+    ramp: s?.ramp ?? null,
   };
 }

@@ -10,14 +10,14 @@ export const MANIFEST_NAME = 'manifest.json';
 
 export const frameLayoutSchema = z.object({
   file: z.string().min(1),
-  format: z.literal('float32'),
+  format: z.enum(['float32', 'int32']),
   byteOrder: z.literal('little-endian'),
   valuesPerFrame: z.number().int().positive(),
   bytesPerFrame: z.number().int().positive(),
   frames: z.number().int().nonnegative(),
   rate_hz: z.number().positive(),
   columns: z.array(z.string()),
-  unit: z.literal('mm'),
+  unit: z.enum(['mm', 'counts']),
   zero: z.string(),
   header: z.literal('none'),
 });
@@ -47,7 +47,32 @@ export const packageManifestSchema = z.object({
   budget: versionRefSchema,
   filmSync: z.record(z.string(), z.unknown()).nullable(),
   reviews: z.array(reviewSchema),
-  controller: z.object({ csv: z.string(), binary: frameLayoutSchema }),
+  controller: z.object({
+    csv: z.string(),
+    binary: frameLayoutSchema,
+    /** Encoder counts, when the venue's controller takes them: round(mm x countsPerMm + zeroOffset_counts). */
+    counts: z
+      .object({
+        csv: z.string(),
+        binary: frameLayoutSchema,
+        countsPerMm: z.number().positive(),
+        zeroOffset_counts: z.number().int(),
+      })
+      .optional(),
+    /**
+     * The ramps from neutral at rest into the show and back out of it, inside the files: the show's
+     * first and last frames (0-based) and the ramp profile. Absent in runs made without ramps.
+     */
+    ramp: z
+      .object({
+        in_s: z.number().nonnegative(),
+        out_s: z.number().nonnegative(),
+        profile: z.string(),
+        showStartFrame: z.number().int().nonnegative(),
+        showEndFrame: z.number().int().nonnegative(),
+      })
+      .optional(),
+  }),
   /** The time series beside the controller files (absent in packages built before they were listed). */
   series: z.array(seriesFileSchema).optional(),
   files: z.array(manifestFileSchema),

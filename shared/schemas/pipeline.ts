@@ -6,6 +6,7 @@ import { filmSyncSchema } from './film-sync';
 import type { FilmSync } from './film-sync';
 import { runParamsSchema } from './run-params';
 import { touchupSchema } from './touchup';
+import { rampSummarySchema } from './run-outputs';
 
 export const TAKE_KINDS = ['vehicle', 'pose', 'legs'] as const;
 
@@ -149,6 +150,8 @@ export const runDetailSchema = runSummarySchema.extend({
   params: runParamsSchema,
   /** The film sync the run plays with (the take's, with the run's offset), or null. */
   filmSync: filmSyncSchema.nullable(),
+  /** The ramps from and to neutral around the show (the venue controller's), or null when none. */
+  ramp: rampSummarySchema.nullable().optional(),
 });
 export type RunDetail = z.infer<typeof runDetailSchema>;
 

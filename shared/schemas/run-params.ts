@@ -5,6 +5,8 @@ import { z } from 'zod';
 import type { FilmSync } from './film-sync';
 import { isIdentityTouchup, touchupSchema } from './touchup';
 import type { Touchup } from './touchup';
+import { controllerOutputSchema } from './controller-output';
+import type { ControllerOutput } from './controller-output';
 
 /** The bound of a film offset in frames (the same as the take's film sync). */
 export const FILM_OFFSET_MAX_FRAMES = 100_000;
@@ -23,6 +25,12 @@ export const runParamsSchema = z.strictObject({
   filmOffset_frames: filmOffsetSchema.optional(),
   /** The take touch-up applied before cueing; absent when none (an identity touch-up counts as none). */
   touchup: touchupSchema.optional(),
+  /**
+   * The venue controller's settings when the run was queued (ramps from and to neutral, encoder
+   * counts), so the run and its package keep them when the venue changes; absent on runs made before
+   * venues had them (no ramps, millimetres only).
+   */
+  controller: controllerOutputSchema.optional(),
 });
 export type RunParams = z.infer<typeof runParamsSchema>;
 
@@ -30,10 +38,12 @@ export type RunParams = z.infer<typeof runParamsSchema>;
 export function normalRunParams(p: {
   filmOffset_frames?: number | undefined;
   touchup?: Touchup | undefined;
+  controller?: ControllerOutput | undefined;
 }): RunParams {
   const out: RunParams = {};
   if (p.filmOffset_frames !== undefined) out.filmOffset_frames = p.filmOffset_frames;
   if (p.touchup && !isIdentityTouchup(p.touchup)) out.touchup = p.touchup;
+  if (p.controller) out.controller = p.controller;
   return out;
 }
 

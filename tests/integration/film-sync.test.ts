@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { count, eq } from 'drizzle-orm';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
-import { cueRuns, takes } from '../../server/db/schema';
+import { cueRuns, takes, venues } from '../../server/db/schema';
 import { createBuildReleaseHandler } from '../../worker/jobs/build-release';
 import { packageManifestSchema } from '../../shared/schemas/package-manifest';
 import { releaseCreatedSchema } from '../../shared/schemas/release';
@@ -123,7 +123,10 @@ describe('nudging the film offset of a run', () => {
     const first = runSummarySchema.array().parse(asked.body)[0]!;
     const firstRow = await worker.waitForRun(first.id);
     const firstDetail = runDetailSchema.parse((await producer.get(`${base()}/runs/${first.id}`)).body);
-    expect(firstDetail.params).toEqual({ filmOffset_frames: 3 });
+    // The venue's controller settings are recorded with the run when it is queued.
+    const [dome] = await t.tdb.db.select().from(venues).where(eq(venues.id, t.seed.venueIds.dome));
+    const controller = dome!.controller;
+    expect(firstDetail.params).toEqual({ filmOffset_frames: 3, controller });
     expect(firstDetail.filmSync).toEqual({ frameRate: '25', startTimecode: '10:00:00:00', offset_frames: 3 });
 
     const nudged = await producer.send('post', `${base()}/runs/${first.id}/film-offset`, {
@@ -137,11 +140,11 @@ describe('nudging the film offset of a run', () => {
     // The same profile versions as the run it came from; only the offset differs.
     expect(secondRow.cueingVersionId).toBe(firstRow.cueingVersionId);
     expect(secondRow.budgetVersionId).toBe(firstRow.budgetVersionId);
-    expect(secondRow.params).toEqual({ filmOffset_frames: 5 });
+    expect(secondRow.params).toEqual({ filmOffset_frames: 5, controller });
 
     // The old run is untouched: same parameters, state, summary and files.
     const [oldNow] = await t.tdb.db.select().from(cueRuns).where(eq(cueRuns.id, first.id));
-    expect(oldNow!.params).toEqual({ filmOffset_frames: 3 });
+    expect(oldNow!.params).toEqual({ filmOffset_frames: 3, controller });
     expect(oldNow!.state).toBe(firstRow.state);
     expect(oldNow!.summary).toEqual(firstRow.summary);
 

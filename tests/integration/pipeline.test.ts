@@ -7,7 +7,7 @@ import { DeleteObjectCommand, ListObjectsV2Command } from '@aws-sdk/client-s3';
 import { count, eq } from 'drizzle-orm';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
-import { cueRuns, takes } from '../../server/db/schema';
+import { cueRuns, takes, venues } from '../../server/db/schema';
 import { startCueWorker } from './support/cue-worker';
 import type { CueWorker } from './support/cue-worker';
 import { makeVehicleCsv } from '../factories/takes';
@@ -230,9 +230,14 @@ describe('cue runs', () => {
         expect(b.min.length).toBe(n);
         expect(b.max.length).toBe(n);
       }
-      // The trace ends at the take's end: 15 s of samples from t = 0 (makeVehicleCsv), at the controller grid.
-      expect(series.time_s[n - 1]).toBeCloseTo(take.duration_s, 6);
-      expect(series.time_s[0]).toBe(0);
+      // The trace keeps the take's own times, 15 s from t = 0 (makeVehicleCsv), with the venue's ramps
+      // from neutral before it and back to neutral after it, at the controller grid.
+      const [venue] = await t.tdb.db.select().from(venues).where(eq(venues.id, row.venueId));
+      const ramp_s = venue!.controller.ramp.duration_s;
+      expect(ramp_s).toBeGreaterThan(0);
+      expect(d.ramp).toEqual({ in_s: ramp_s, out_s: ramp_s, profile: venue!.controller.ramp.profile });
+      expect(series.time_s[n - 1]).toBeCloseTo(take.duration_s + ramp_s, 6);
+      expect(series.time_s[0]).toBeCloseTo(-ramp_s, 6);
       const legs = await producer.get(`${base()}/runs/${run.id}/files/legs.csv`).expect(200);
       expect(legs.text.split('\n')[0]).toMatch(/^time_s,leg1_m/);
     }

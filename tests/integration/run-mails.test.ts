@@ -84,7 +84,7 @@ describe('when the worker finishes a run', () => {
 
   it('queues "a run is held" to the producer and the motion engineer for a budget hold with a hard finding only', async () => {
     const hardHeld = runs.filter((r) => r.state === 'held_by_budget' && hardCount(r) > 0);
-    // The demo's hot cut leaves the dome's platform off neutral at the end (a hard limit).
+    // The demo's hot cut runs the dome's legs out of stroke in the drop (a hard limit).
     expect(hardHeld.length).toBeGreaterThan(0);
     const rows = (await outbox()).filter((r) => r.kind === 'run_held');
     expect(rows.map((r) => `${r.path} ${r.toEmail}`).sort()).toEqual(

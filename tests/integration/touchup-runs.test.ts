@@ -82,7 +82,9 @@ describe('touch-up on a run request', () => {
     const identity = await ask(take.id, { touchup: { gain: { fx: 1 } } });
     expect(runSummarySchema.array().parse(identity.body)[0]!.id).toBe(plain.id);
     const [row] = await t.tdb.db.select().from(cueRuns).where(eq(cueRuns.id, run.id));
+    const [venueRow] = await t.tdb.db.select().from(venues).where(eq(venues.id, row!.venueId));
     expect(row!.params).toEqual({
+      controller: venueRow!.controller,
       touchup: {
         offset_s: 0,
         trimIn_s: 1,
@@ -139,6 +141,8 @@ describe('touch-up on a run request', () => {
       cli.file('budget.json', JSON.stringify(await version(row.budgetVersionId))),
       '--touchup',
       cli.file('touchup.json', JSON.stringify(TOUCHUP)),
+      '--controller',
+      cli.file('controller.json', JSON.stringify(venue!.controller)),
       '--in',
       cli.file('reed.csv', CSV),
       '--out',
@@ -166,8 +170,9 @@ describe('touch-up on a run request', () => {
       'wy_radps',
       'wz_radps',
     ]);
-    // The trim: the run starts at 1 s of the take (touch-up definition, shared/schemas/touchup.ts).
-    expect(series.time_s[0]).toBeCloseTo(1, 6);
+    // The trim: the show starts at 1 s of the take (touch-up definition, shared/schemas/touchup.ts),
+    // after the venue's ramp from neutral.
+    expect(series.time_s[0]).toBeCloseTo(1 - venue!.controller.ramp.duration_s, 6);
     // The fades: the take after the touch-up starts and ends at rest (fx = 0, fz = g0).
     const fx = cols[0]!;
     const last = series.time_s.length - 1;

@@ -112,6 +112,9 @@ async function packageInput(deps: BuildReleaseDeps, release: ReleaseRow): Promis
     softwareVersion: softwareVersion(),
     // The picture the run plays against: the take's film sync with the run's own offset.
     filmSync: filmSyncOfRun(take, run),
+    // The controller settings and touch-up the run was made with (its parameters), not the venue's now.
+    controller: runParamsSchema.parse(run.params).controller ?? null,
+    touchup: runParamsSchema.parse(run.params).touchup ?? null,
     readRunFile: (name) => readObject(storage, `${prefix}${name}`),
   };
 }

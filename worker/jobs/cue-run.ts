@@ -168,6 +168,8 @@ function buildOutputsOf(run: CueRunRow, inputs: RunInputs, track: Track): RunOut
     budget,
     ...(profile ? { profile } : {}),
     ...(params.touchup ? { touchup: params.touchup } : {}),
+    // The venue controller's ramps as recorded when the run was queued (`legwork process --controller`).
+    ...(params.controller ? { ramp: params.controller.ramp } : {}),
   });
   const hashJson = (v: unknown) => sha256Hex(JSON.stringify(v));
   return buildRunOutputs(result, track, base, {
@@ -188,6 +190,7 @@ function buildOutputsOf(run: CueRunRow, inputs: RunInputs, track: Track): RunOut
       sha256: hashJson(budgetVersion.params),
     },
     softwareVersion: softwareVersion(),
+    ...(params.controller ? { controller: params.controller } : {}),
     filmSync,
     run: {
       id: run.id,

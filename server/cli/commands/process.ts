@@ -18,6 +18,7 @@ import {
   readBaseFile,
   readBudgetFile,
   readProfileFile,
+  readControllerFile,
   readTouchupFile,
   readTrackFile,
 } from '../io';
@@ -30,7 +31,7 @@ export const summary =
   'the whole offline pipeline into a package folder (legs, pose, findings, spectra, report)';
 
 export const help = `Usage: legwork process --base BASE.json [--profile PROFILE.json] [--budget BUDGET.json]
-                       [--touchup TOUCHUP.json] --in TRACK.csv[.gz] --out DIR
+                       [--touchup TOUCHUP.json] [--controller CONTROLLER.json] --in TRACK.csv[.gz] --out DIR
 
 Reads a vehicle, pose or legs track, resamples it to the base's controller rate, cues vehicle
 tracks by classical washout (the default profile when none is given), runs the kinematics (inverse;
@@ -46,6 +47,10 @@ Options:
   --touchup FILE   take touch-up JSON applied before everything else: offset_s, trimIn_s,
                    trimOut_s, gain {axis: factor}, smoothing_hz {axis: cut-off}, fadeIn_s,
                    fadeOut_s (docs/motion-conventions.md, take touch-up)
+  --controller FILE  the venue controller's settings: ramp {duration_s, profile quintic or
+                   raisedCosine} from neutral into the show and back, added before the
+                   kinematics and checked with the show; encoder {countsPerMm, zeroOffset_counts}
+                   (recorded; counts are written into release packages). Without it: no ramps
   --in FILE        track CSV, optionally gzipped
   --out DIR        package folder (created if missing; package files in it are replaced)
   -h, --help       this text
@@ -69,11 +74,15 @@ async function fileSha256(path: string): Promise<{ sha256: string; size_bytes: n
 
 /** Runs `legwork process`; resolves to the exit code (0, 3 or 4; bad input throws CliInputError for 2). */
 export async function run(argv: string[], io: CliIo): Promise<number> {
-  const values = parseCommandOptions(argv, ['base', 'profile', 'budget', 'touchup', 'in', 'out'], {
-    base: 'FILE',
-    in: 'FILE',
-    out: 'DIR',
-  });
+  const values = parseCommandOptions(
+    argv,
+    ['base', 'profile', 'budget', 'touchup', 'controller', 'in', 'out'],
+    {
+      base: 'FILE',
+      in: 'FILE',
+      out: 'DIR',
+    },
+  );
   if (!values) {
     io.stdout(help);
     return 0;
@@ -90,6 +99,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   let touchup: Touchup | undefined;
   let touchupText: string | undefined;
   if (values.touchup) ({ touchup, text: touchupText } = await readTouchupFile(values.touchup));
+  const controller = values.controller ? (await readControllerFile(values.controller)).controller : undefined;
   const track = await readTrackFile(inPath);
   if (values.profile && track.kind !== 'vehicle') {
     io.stderr(`warning: ${values.profile}: a ${track.kind} track is not cued; the profile was not used\n`);
@@ -104,6 +114,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
       ...(budget ? { budget } : {}),
       ...(profile ? { profile } : {}),
       ...(touchup ? { touchup } : {}),
+      ...(controller ? { ramp: controller.ramp } : {}),
     });
   } catch (e) {
     describePipelineError(e, {
@@ -126,6 +137,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
     ...(values.touchup && touchupText !== undefined
       ? { touchup: { file: basename(values.touchup), sha256: sha256Hex(touchupText) } }
       : {}),
+    ...(controller ? { controller } : {}),
     softwareVersion: softwareVersion(),
   });
 

@@ -1,0 +1,1 @@
+ALTER TABLE "venues" ADD COLUMN "controller" jsonb DEFAULT '{"ramp":{"duration_s":3,"profile":"quintic"}}'::jsonb NOT NULL;
