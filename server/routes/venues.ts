@@ -11,7 +11,13 @@ import { isUuid, parseBody } from '../lib/validate';
 import { badRequest, forbidden, notFound } from '../lib/http-error';
 import { actorOf } from '../lib/actor';
 import { recordAudit } from '../audit';
-import { createVenueBody, venueBaseBody, venueSettingsBody } from '../../shared/schemas/pipeline';
+import {
+  createVenueBody,
+  venueBaseBody,
+  venueControllerBody,
+  venueSettingsBody,
+} from '../../shared/schemas/pipeline';
+import { controllerOutputSchema } from '../../shared/schemas/controller-output';
 import type { VenueDetail } from '../../shared/schemas/pipeline';
 import type { Venue } from '../../shared/schemas/api';
 import { MotionBaseError, parseMotionBase } from '../../shared/schemas/motion-base';
@@ -40,6 +46,7 @@ export function venuesRouter(deps: AppDeps): Router {
       site: v.venue.site,
       timeZone: v.venue.timeZone,
       base: v.venue.base,
+      controller: controllerOutputSchema.parse(v.venue.controller),
       cueingVersion: await versionRef(deps.db, studioId, v.cueing),
       budgetVersion: await versionRef(deps.db, studioId, v.budget),
     };
@@ -127,6 +134,29 @@ export function venuesRouter(deps: AppDeps): Router {
         subjectType: 'venue',
         subjectId: before.id,
         detail: { kind: base.kind, from: before.base, to: base },
+      });
+    });
+    res.json(await detail(m.studioId, before.id));
+  });
+
+  // The controller settings are copied into each run's parameters when it is queued: runs already
+  // queued or finished keep the ramps and encoder they were made with.
+  r.put('/:venueId/controller', requirePermission('venues.configure'), async (req, res) => {
+    const m = req.member!;
+    const before = await detail(m.studioId, String(req.params.venueId));
+    const controller = parseBody(venueControllerBody, req.body, 'The controller settings');
+    await deps.db.transaction(async (tx) => {
+      await tx
+        .update(venues)
+        .set({ controller })
+        .where(inStudio(venues, m.studioId, eq(venues.id, before.id)));
+      await recordAudit(tx, {
+        studioId: m.studioId,
+        actor: actorOf(req),
+        action: 'venue.controller_changed',
+        subjectType: 'venue',
+        subjectId: before.id,
+        detail: { from: before.controller, to: controller },
       });
     });
     res.json(await detail(m.studioId, before.id));

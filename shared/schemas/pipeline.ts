@@ -7,6 +7,7 @@ import type { FilmSync } from './film-sync';
 import { runParamsSchema } from './run-params';
 import { touchupSchema } from './touchup';
 import { rampSummarySchema } from './run-outputs';
+import { controllerOutputSchema } from './controller-output';
 
 export const TAKE_KINDS = ['vehicle', 'pose', 'legs'] as const;
 
@@ -233,10 +234,15 @@ export const venueDetailSchema = z.object({
   site: z.string(),
   timeZone: z.string(),
   base: z.unknown(),
+  /** How the venue's controller takes its track: ramps from and to neutral, optional encoder counts. */
+  controller: controllerOutputSchema,
   cueingVersion: z.object({ id: z.string(), name: z.string(), version: z.number() }).nullable(),
   budgetVersion: z.object({ id: z.string(), name: z.string(), version: z.number() }).nullable(),
 });
 export type VenueDetail = z.infer<typeof venueDetailSchema>;
+
+/** The body of PUT .../venues/:venue/controller: the whole controller settings (ramp, optional encoder). */
+export const venueControllerBody = controllerOutputSchema;
 
 export const createTokenBody = z.object({ name: text().trim().min(1).max(120) });
 export const apiTokenSchema = z.object({

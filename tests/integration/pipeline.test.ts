@@ -4,10 +4,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
 import { DeleteObjectCommand, ListObjectsV2Command } from '@aws-sdk/client-s3';
-import { count, eq } from 'drizzle-orm';
+import { count, desc, eq } from 'drizzle-orm';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
-import { cueRuns, takes, venues } from '../../server/db/schema';
+import { auditEvents, cueRuns, takes, venues } from '../../server/db/schema';
 import { startCueWorker } from './support/cue-worker';
 import type { CueWorker } from './support/cue-worker';
 import { makeVehicleCsv } from '../factories/takes';
@@ -354,6 +354,48 @@ describe('venues', () => {
     expect(paths.some((p) => p.startsWith('baseJoints_m'))).toBe(true);
     const after = await eng.get(`${base()}/venues/${t.seed.venueIds.dome}`).expect(200);
     expect(after.body.base).toEqual(before.body.base);
+  });
+
+  it('saves controller settings with an audit record, refuses bad ones by field and keeps the old ones', async () => {
+    const eng = new Client(t.app);
+    await eng.signIn('eli.engineer@lanternfish.example');
+    const url = `${base()}/venues/${t.seed.venueIds.arcade}/controller`;
+    const before = await eng.get(`${base()}/venues/${t.seed.venueIds.arcade}`).expect(200);
+    const cases: [object, string][] = [
+      [{ ramp: { duration_s: -1 } }, 'ramp.duration_s'],
+      [{ ramp: { duration_s: 2, profile: 'linear' } }, 'ramp.profile'],
+      [{ encoder: { countsPerMm: 0 } }, 'encoder.countsPerMm'],
+      [{ encoder: { countsPerMm: 10, zeroOffset_counts: 0.5 } }, 'encoder.zeroOffset_counts'],
+      // An unknown key is a problem of the whole body, named in the message.
+      [{ rampe: { duration_s: 2 } }, '(body)'],
+    ];
+    for (const [body, path] of cases) {
+      const r = await eng.send('put', url, body);
+      expect(r.status, JSON.stringify(body)).toBe(400);
+      const paths = (r.body.issues as { path: string }[]).map((i) => i.path);
+      expect(paths, JSON.stringify(body)).toContain(path);
+      if (path === '(body)') expect(JSON.stringify(r.body.issues)).toContain('rampe');
+    }
+    const unchanged = await eng.get(`${base()}/venues/${t.seed.venueIds.arcade}`).expect(200);
+    expect(unchanged.body.controller).toEqual(before.body.controller);
+
+    const next = {
+      ramp: { duration_s: 1.5, profile: 'raisedCosine' },
+      encoder: { countsPerMm: 200, zeroOffset_counts: 12 },
+    };
+    const ok = await eng.send('put', url, next);
+    expect(ok.status, JSON.stringify(ok.body)).toBe(200);
+    expect(ok.body.controller).toEqual(next);
+    const [event] = await t.tdb.db
+      .select()
+      .from(auditEvents)
+      .where(eq(auditEvents.action, 'venue.controller_changed'))
+      .orderBy(desc(auditEvents.id))
+      .limit(1);
+    expect(event?.subjectId).toBe(t.seed.venueIds.arcade);
+    expect(event?.detail).toEqual({ from: before.body.controller, to: next });
+    // Put back the seeded settings for the other tests.
+    await eng.send('put', url, before.body.controller);
   });
 
   it('lets an admin create a venue whose base is given in the parametric form, stored in joint form', async () => {

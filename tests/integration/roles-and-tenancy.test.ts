@@ -181,6 +181,14 @@ const ROUTES: RouteCase[] = [
     ok: 200,
   },
   {
+    name: "edit a venue's controller settings",
+    method: 'put',
+    path: (i) => `/api/studios/${i.studio}/venues/${i.venue}/controller`,
+    body: () => ({ ramp: { duration_s: 3, profile: 'quintic' } }),
+    allowed: ['motion_engineer', 'studio_admin'],
+    ok: 200,
+  },
+  {
     name: 'API tokens list',
     method: 'get',
     path: (i) => `/api/studios/${i.studio}/tokens`,

@@ -3,6 +3,7 @@
 // POST /profiles/:id/versions answers 400 `{ error, issues: [{ path, message }] }` naming the field,
 // PUT /venues/:id/settings answers 403 with the server's reason, POST /tokens shows its secret once,
 // and the navigation follows the product's roles table.
+import { DEFAULT_CONTROLLER_OUTPUT } from '../../../shared/schemas/controller-output';
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
@@ -138,6 +139,7 @@ describe('venue profile versions', () => {
     name: 'Harbour Lights Dome',
     site: 'Port Meridian pier',
     timeZone: 'Europe/Lisbon',
+    controller: DEFAULT_CONTROLLER_OUTPUT,
     base: {},
     cueingVersion: { id: PROFILE.versions[0]!.id, name: PROFILE.name, version: 1 },
     budgetVersion: null,
@@ -170,6 +172,7 @@ describe('venue settings page', () => {
       name: 'Harbour Lights Dome',
       site: 'Port Meridian pier',
       timeZone: 'Europe/Lisbon',
+      controller: DEFAULT_CONTROLLER_OUTPUT,
       base: demoHexapodInput,
       cueingVersion: { id: PROFILE.versions[0]!.id, name: PROFILE.name, version: 1 },
       budgetVersion: null,

@@ -2,6 +2,7 @@
 // The venue forms against the API contract: PUT /venues/:id/base and POST /venues answer 400
 // `{ error, issues: [{ path, message }] }` with one issue per JSON path inside the base; JSON that
 // does not parse is reported in the form and never sent.
+import { DEFAULT_CONTROLLER_OUTPUT } from '../../../shared/schemas/controller-output';
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import type { ReactElement } from 'react';
@@ -75,6 +76,7 @@ const venueDetail: VenueDetail = {
   name: 'Harbour Lights Dome',
   site: 'Port Meridian pier',
   timeZone: 'Europe/Lisbon',
+  controller: DEFAULT_CONTROLLER_OUTPUT,
   base: demoHexapodBase,
   cueingVersion: null,
   budgetVersion: null,
@@ -178,6 +180,7 @@ describe('new venue form', () => {
             ...body,
             id: NEW_VENUE,
             base,
+            controller: DEFAULT_CONTROLLER_OUTPUT,
             cueingVersion: null,
             budgetVersion: null,
           };
