@@ -7,6 +7,7 @@ import { useCan } from '../../lib/membership';
 import { useVenue } from '../../lib/queries/venues';
 import { BaseForm } from '../../features/venue-settings/components/base-form';
 import { BaseSummary } from '../../features/venue-settings/components/base-summary';
+import { ControllerForm, describeController } from '../../features/venue-settings/components/controller-form';
 import { ProfileVersionSelect } from '../../features/venue-settings/components/profile-version-select';
 import { useStudioContext } from './studio-layout';
 
@@ -46,6 +47,13 @@ export function VenueSettingsRoute() {
           <BaseSummary base={detail.base} />
           {canConfigure ? <BaseForm studioId={studioId} venue={detail} /> : null}
         </div>
+      </Section>
+      <Section title="Controller output">
+        {canConfigure ? (
+          <ControllerForm studioId={studioId} venue={detail} />
+        ) : (
+          <p className="text-sm text-ink-800">{describeController(detail.controller)}</p>
+        )}
       </Section>
       <Section title="Cueing profile">
         {canChooseCueing ? (

@@ -2,7 +2,7 @@
 // The venue forms against the API contract: PUT /venues/:id/base and POST /venues answer 400
 // `{ error, issues: [{ path, message }] }` with one issue per JSON path inside the base; JSON that
 // does not parse is reported in the form and never sent.
-import { DEFAULT_CONTROLLER_OUTPUT } from '../../../shared/schemas/controller-output';
+import { DEFAULT_CONTROLLER_OUTPUT, controllerOutputSchema } from '../../../shared/schemas/controller-output';
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import type { ReactElement } from 'react';
@@ -285,5 +285,81 @@ describe('what a venue operator sees', () => {
     );
     expect(screen.queryByRole('alert')).not.toBeInTheDocument();
     expect(calls.filter((c) => c.path.includes('/tracks'))).toEqual([]);
+  });
+});
+
+describe('controller output form', () => {
+  /** Answers like the server route: the body through the shared schema, zod issues as path + message. */
+  const answerController = (call: RecordedCall) => {
+    const r = controllerOutputSchema.safeParse(call.body);
+    if (!r.success) {
+      return json(
+        {
+          error: 'The controller settings have problems.',
+          issues: r.error.issues.map((i) => ({ path: i.path.join('.'), message: i.message })),
+        },
+        400,
+      );
+    }
+    return json({ ...venueDetail, controller: r.data });
+  };
+
+  it('sends the ramp and encoder as numbers, shows a refused field under it, and confirms a save', async () => {
+    const { calls } = fakeApi({
+      [`GET /api/studios/${STUDIO}/venues/${VENUE}`]: () => json(venueDetail),
+      [`GET /api/studios/${STUDIO}/profiles`]: () => json([]),
+      [`PUT /api/studios/${STUDIO}/venues/${VENUE}/controller`]: answerController,
+    });
+    renderInStudio(['motion_engineer'], `/s/${STUDIO}/venues/${VENUE}`, {
+      path: 'venues/:venueId',
+      element: <VenueSettingsRoute />,
+    });
+    const form = await screen.findByRole('form', { name: 'Controller output of Harbour Lights Dome' });
+    // Prefilled with the defaults: 3 s quintic, no encoder.
+    expect(within(form).getByLabelText('Ramp length (s)')).toHaveValue('3');
+    fireEvent.click(within(form).getByRole('checkbox'));
+    fireEvent.change(within(form).getByLabelText('Counts per mm'), { target: { value: '0' } });
+    fireEvent.click(within(form).getByRole('button', { name: 'Save controller settings' }));
+    await waitFor(() => expect(calls.some((c) => c.method === 'PUT')).toBe(true));
+    const put = calls.find((c) => c.method === 'PUT')!;
+    expect(put.body).toEqual({
+      ramp: { duration_s: 3, profile: 'quintic' },
+      encoder: { countsPerMm: 0, zeroOffset_counts: 0 },
+    });
+    // zod's message for a number that must be positive, under the field the server named.
+    const field = within(form).getByLabelText('Counts per mm');
+    await waitFor(() => expect(field).toHaveAttribute('aria-invalid', 'true'));
+
+    fireEvent.change(field, { target: { value: '409.6' } });
+    fireEvent.change(within(form).getByLabelText('Ramp length (s)'), { target: { value: '2.5' } });
+    fireEvent.click(within(form).getByRole('button', { name: 'Save controller settings' }));
+    expect(
+      await within(form).findByText('Controller settings saved; new runs use them.'),
+    ).toBeInTheDocument();
+    expect(calls.filter((c) => c.method === 'PUT').at(-1)!.body).toEqual({
+      ramp: { duration_s: 2.5, profile: 'quintic' },
+      encoder: { countsPerMm: 409.6, zeroOffset_counts: 0 },
+    });
+  });
+
+  it('shows the settings as a sentence to a member who cannot change them', async () => {
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/venues/${VENUE}`]: () =>
+        json({
+          ...venueDetail,
+          controller: { ...DEFAULT_CONTROLLER_OUTPUT, encoder: { countsPerMm: 100, zeroOffset_counts: 5 } },
+        }),
+      [`GET /api/studios/${STUDIO}/profiles`]: () => json([]),
+    });
+    renderInStudio(['producer'], `/s/${STUDIO}/venues/${VENUE}`, {
+      path: 'venues/:venueId',
+      element: <VenueSettingsRoute />,
+    });
+    expect(
+      await screen.findByText(
+        'ramps of 3 s from and to neutral (quintic); encoder counts at 100 per mm, zero offset 5.',
+      ),
+    ).toBeInTheDocument();
+    expect(screen.queryByRole('form', { name: /Controller output/ })).toBeNull();
   });
 });
