@@ -26,6 +26,7 @@ import { releaseCreatedSchema, releaseSchema } from '../../shared/schemas/releas
 import type { Release } from '../../shared/schemas/release';
 import { runDecisionSchema } from '../../shared/schemas/review';
 import { operatorHomeSchema, producerHomeSchema } from '../../shared/schemas/homes';
+import { runParamsSchema } from '../../shared/schemas/run-params';
 import { packageManifestSchema } from '../../shared/schemas/package-manifest';
 
 let t: TestApp;
@@ -192,6 +193,27 @@ describe('releasing a run', () => {
     expect(await mailedTo('release_ready', firstRelease)).toEqual([OPERATOR]);
     // The report carries the caution (common practice: the ride maker and the codes decide).
     expect(entries.get('report.html')!.toString('utf8')).toMatch(/never replaces/i);
+    // The run's controller settings (its parameters) decide the encoder files: counts exactly when the
+    // run was made with an encoder, decoded with readInt32LE and equal to the CSV's counts column.
+    const controller = runParamsSchema.parse(first.params).controller;
+    expect(controller, 'runs record the venue controller settings').toBeDefined();
+    const counts = manifest.controller.counts;
+    expect(!!counts).toBe(!!controller!.encoder);
+    if (counts) {
+      const bin = entries.get(counts.binary.file)!;
+      const rows = entries.get(counts.csv)!.toString('utf8').trim().split('\n').slice(1);
+      expect(bin.length).toBe(counts.binary.frames * counts.binary.bytesPerFrame);
+      for (let k = 0; k < counts.binary.frames; k += 97) {
+        const cells = rows[k]!.split(',').map(Number);
+        for (let j = 0; j < counts.binary.valuesPerFrame; j++) {
+          expect(bin.readInt32LE(k * counts.binary.bytesPerFrame + 4 * j)).toBe(cells[7 + j]);
+        }
+      }
+    }
+    // The ramps: the files start and end at neutral, the show inside them at the frames the manifest gives.
+    const ramp = manifest.controller.ramp;
+    expect(ramp?.in_s).toBe(controller!.ramp.duration_s);
+    expect(ramp!.showStartFrame).toBe(Math.round(ramp!.in_s * manifest.controller.binary.rate_hz));
   });
 
   it('logs every download, and a repeated build job changes nothing', async () => {
