@@ -1,6 +1,7 @@
 // The studio's venues: list (scoped for venue operators), create, and each venue's motion base and
 // the cueing and budget profile versions its new runs use.
 import { Router } from 'express';
+import type { Request } from 'express';
 import { asc, eq } from 'drizzle-orm';
 import type { AppDeps } from '../deps';
 import { profileVersions, profiles, venueSettings, venues } from '../db/schema';
@@ -116,50 +117,57 @@ export function venuesRouter(deps: AppDeps): Router {
     res.status(201).json(await detail(m.studioId, id));
   });
 
-  // Finished runs keep the base they used in their manifest; queued runs use the base as it is when they start.
-  r.put('/:venueId/base', requirePermission('venues.configure'), async (req, res) => {
+  /** Writes one change to a venue and its audit record in one transaction; answers the venue as stored. */
+  const changeVenue = async (
+    req: Request,
+    venueId: string,
+    set: Partial<Pick<typeof venues.$inferInsert, 'base' | 'controller'>>,
+    action: string,
+    detail_: Record<string, unknown>,
+  ): Promise<VenueDetail> => {
     const m = req.member!;
-    const before = await detail(m.studioId, String(req.params.venueId));
-    const body = parseBody(venueBaseBody, req.body, 'The motion base form');
-    const base = validBase(body.base);
     await deps.db.transaction(async (tx) => {
       await tx
         .update(venues)
-        .set({ base })
-        .where(inStudio(venues, m.studioId, eq(venues.id, before.id)));
+        .set(set)
+        .where(inStudio(venues, m.studioId, eq(venues.id, venueId)));
       await recordAudit(tx, {
         studioId: m.studioId,
         actor: actorOf(req),
-        action: 'venue.base_changed',
+        action,
         subjectType: 'venue',
-        subjectId: before.id,
-        detail: { kind: base.kind, from: before.base, to: base },
+        subjectId: venueId,
+        detail: detail_,
       });
     });
-    res.json(await detail(m.studioId, before.id));
+    return detail(m.studioId, venueId);
+  };
+
+  // Finished runs keep the base they used in their manifest; queued runs use the base as it is when they start.
+  r.put('/:venueId/base', requirePermission('venues.configure'), async (req, res) => {
+    const before = await detail(req.member!.studioId, String(req.params.venueId));
+    const body = parseBody(venueBaseBody, req.body, 'The motion base form');
+    const base = validBase(body.base);
+    res.json(
+      await changeVenue(req, before.id, { base }, 'venue.base_changed', {
+        kind: base.kind,
+        from: before.base,
+        to: base,
+      }),
+    );
   });
 
   // The controller settings are copied into each run's parameters when it is queued: runs already
   // queued or finished keep the ramps and encoder they were made with.
   r.put('/:venueId/controller', requirePermission('venues.configure'), async (req, res) => {
-    const m = req.member!;
-    const before = await detail(m.studioId, String(req.params.venueId));
+    const before = await detail(req.member!.studioId, String(req.params.venueId));
     const controller = parseBody(venueControllerBody, req.body, 'The controller settings');
-    await deps.db.transaction(async (tx) => {
-      await tx
-        .update(venues)
-        .set({ controller })
-        .where(inStudio(venues, m.studioId, eq(venues.id, before.id)));
-      await recordAudit(tx, {
-        studioId: m.studioId,
-        actor: actorOf(req),
-        action: 'venue.controller_changed',
-        subjectType: 'venue',
-        subjectId: before.id,
-        detail: { from: before.controller, to: controller },
-      });
-    });
-    res.json(await detail(m.studioId, before.id));
+    res.json(
+      await changeVenue(req, before.id, { controller }, 'venue.controller_changed', {
+        from: before.controller,
+        to: controller,
+      }),
+    );
   });
 
   r.put('/:venueId/settings', async (req, res) => {

@@ -124,14 +124,14 @@ describe('pipeline screens', () => {
       await canvases.nth(5).waitFor({ timeout: 15_000 });
       // Three force charts, two pose charts and the legs chart.
       expect(await page.getByTestId('run-charts').locator('.uplot').count()).toBe(6);
-      // The last cued sample is drawn at the take's end: the chart's last finite sample of each cued
-      // force band and of every leg lies within one bucket of the take's duration (the take starts at
-      // 0 s). The run and its series come from the same API the page reads, parsed with its schemas.
+      // The last cued sample is drawn at the end of the ramp out after the take: the chart's last finite
+      // sample of each cued force band and of every leg lies within one bucket of the take's duration
+      // plus the venue's ramp out (the take starts at 0 s). The run and its series come from the same API the page reads, parsed with its schemas.
       const [, studioId, runId] = /\/s\/([^/]+)\/runs\/([^/?#]+)/.exec(page.url()) ?? [];
       const apiBase = new URL(`/api/studios/${studioId}/runs/${runId}`, baseUrl).href;
       const run = runDetailSchema.parse(await (await page.request.get(apiBase)).json());
       const series = runSeriesSchema.parse(await (await page.request.get(`${apiBase}/series`)).json());
-      const end_s = run.take.duration_s;
+      const end_s = run.take.duration_s + (run.ramp?.out_s ?? 0);
       // Buckets are of equal width from the first sample on.
       const bucket_s = (series.time_s[1] ?? Number.NaN) - (series.time_s[0] ?? Number.NaN);
       expect(bucket_s).toBeGreaterThan(0);
