@@ -28,7 +28,9 @@ export type TrackErrorCode =
   | 'fieldCount'
   | 'tooManyRows'
   | 'tooLarge'
-  | 'lineTooLong';
+  | 'lineTooLong'
+  | 'implausible'
+  | 'tooLong';
 
 /** A bad track file: where (file, 1-based line, 1-based column and its name) and why. */
 export class TrackFileError extends Error {
@@ -92,6 +94,47 @@ export interface TrackReaderOptions {
 export const DEFAULT_MAX_ROWS = 7_500_000;
 /** Default most characters of a track file's text, 1 GiB (7,500,000 rows of seven 17-digit numbers need less). */
 export const DEFAULT_MAX_BYTES = 1024 * 1024 * 1024;
+/**
+ * Largest magnitude a track value may have, per column base, in SI. Beyond these no ride and no motion
+ * base can be (common practice: ride accelerations stay within a few g, spinning rides turn at about
+ * one revolution per second, motion base excursions are a metre or two); such a value is a broken
+ * export or a wrong unit, refused with its line so it is never cued and read as "within budget".
+ */
+export const PLAUSIBLE_LIMITS = {
+  /** Specific force, 20 g. */
+  accel_mps2: 20 * G0_MPS2,
+  /** Angular rate, 20 rad/s (about 3.2 revolutions per second). */
+  rate_radps: 20,
+  /** Pose offset of the platform, 10 m. */
+  offset_m: 10,
+  /** Pose angle offset, one full turn. */
+  angle_rad: 2 * Math.PI,
+  /** Leg length, 50 m (and above 0). */
+  leg_m: 50,
+  /** Longest take, 4 hours (from its first to its last row). */
+  duration_s: 4 * 3600,
+} as const;
+
+/** The plausible SI range [lo, hi] of a column base (lo is the smallest positive double for a leg). */
+function plausibleRange(base: string): [number, number] {
+  const L = PLAUSIBLE_LIMITS;
+  switch (QUANTITY[base]) {
+    case 'accel':
+      return [-L.accel_mps2, L.accel_mps2];
+    case 'rate':
+      return [-L.rate_radps, L.rate_radps];
+    case 'angle':
+      return [-L.angle_rad, L.angle_rad];
+    case 'length':
+      return base.startsWith('leg') ? [Number.MIN_VALUE, L.leg_m] : [-L.offset_m, L.offset_m];
+    default:
+      return [-Infinity, Infinity];
+  }
+}
+
+/** Four significant digits, for limits in messages. */
+const sig = (v: number): string => String(Number(v.toPrecision(4)));
+
 /** Rows per storage block of the reader's columns. */
 const BLOCK_ROWS = 16384;
 /** Default most characters of one line of a track file. */
@@ -339,6 +382,10 @@ export class TrackReader {
   // Per file field: index into the output columns (-1 for time) and the factor to SI.
   private target: Int32Array = new Int32Array(0);
   private scale: Float64Array = new Float64Array(0);
+  // Per output column: the plausible range [lo, hi] in SI (see PLAUSIBLE_LIMITS).
+  private lo: Float64Array = new Float64Array(0);
+  private hi: Float64Array = new Float64Array(0);
+  private firstTime = NaN;
   private spec: LayoutSpec | null = null;
   private rows = 0;
   // Filled blocks, and the block being filled (row `rows` goes to index rows % BLOCK_ROWS).
@@ -633,6 +680,13 @@ export class TrackReader {
     this.fieldCount = n;
     this.target = target;
     this.scale = factors;
+    this.lo = new Float64Array(spec.bases.length);
+    this.hi = new Float64Array(spec.bases.length);
+    spec.bases.forEach((b, j) => {
+      const [lo, hi] = plausibleRange(b);
+      this.lo[j] = lo;
+      this.hi[j] = hi;
+    });
     this.headerDone = true;
     this.colBlocks = spec.bases.map(() => []);
     this.newBlock(64);
@@ -698,15 +752,44 @@ export class TrackReader {
             `time not increasing: ${v} s after ${this.lastTime} s on line ${this.lastTimeLine}`,
           );
         }
+        if (this.rows === 0) this.firstTime = v;
+        else if (v - this.firstTime > PLAUSIBLE_LIMITS.duration_s) {
+          this.fail(
+            ln,
+            c + 1,
+            this.headerNames[c] ?? null,
+            'tooLong',
+            `take too long: ${v} s is more than ${PLAUSIBLE_LIMITS.duration_s / 3600} hours after the first row's ${this.firstTime} s`,
+          );
+        }
         this.lastTime = v;
         this.lastTimeLine = ln;
         this.time[r] = v;
       } else {
+        if (!(v >= (this.lo[j] as number) && v <= (this.hi[j] as number))) this.implausible(ln, c, x, j);
         (cols[j] as Float64Array)[r] = v;
       }
     }
     this.lines[r] = ln;
     this.rows++;
+  }
+
+  /** Refuses a value outside its column's plausible range (see PLAUSIBLE_LIMITS), naming the range. */
+  private implausible(ln: number, c: number, raw: number, j: number): never {
+    const name = this.headerNames[c] ?? '';
+    const base = (this.spec as LayoutSpec).bases[j] as string;
+    const si = siColumnName(base);
+    const unit = si.slice(si.lastIndexOf('_') + 1);
+    const hi = this.hi[j] as number;
+    const range =
+      (this.lo[j] as number) > 0 ? `above 0 and at most ${hi} ${unit}` : `within +/-${sig(hi)} ${unit}`;
+    this.fail(
+      ln,
+      c + 1,
+      name,
+      'implausible',
+      `implausible value ${raw} for ${name}: no ride or motion base goes there (a track's ${base} must be ${range}); check the export and the column's unit`,
+    );
   }
 
   /** A field that is not a plain short decimal: checked against NUMBER_RE (quotes and blanks allowed) and read by Number(). */

@@ -115,6 +115,25 @@ describe('takes', () => {
     expect(trackDetailSchema.parse(detail.body).takes.map((x) => x.fileName)).toEqual(['reef.csv']);
   });
 
+  it('refuses a take no ride can be (1e300 m/s^2, a 5-hour span) with its line, and stores nothing', async () => {
+    // The issue seen before: such a take was cued and read "within budget, 0 findings".
+    const track = await newTrack('Wild Numbers');
+    const before = await t.tdb.db.select({ n: count() }).from(takes);
+    const huge = makeVehicleCsv({ duration_s: 2 }).replace(/\n0\.0300,[^,]*,/, '\n0.0300,1e300,');
+    const r = await upload(track.id, 'wild.csv', huge);
+    expect(r.status).toBe(400);
+    expect(r.body.error).toMatch(
+      /^wild\.csv line 5, column 2 \(fx_mps2\): implausible value 1e\+300 for fx_mps2/,
+    );
+    const header = 'time_s,fx_mps2,fy_mps2,fz_mps2,wx_radps,wy_radps,wz_radps';
+    const span = `${header}\n0,0,0,9.80665,0,0,0\n18000,0,0,9.80665,0,0,0\n`;
+    const r2 = await upload(track.id, 'span.csv', span);
+    expect(r2.status).toBe(400);
+    expect(r2.body.error).toMatch(/^span\.csv line 3, column 1 \(time_s\): take too long/);
+    const after = await t.tdb.db.select({ n: count() }).from(takes);
+    expect(after[0]!.n).toBe(before[0]!.n);
+  });
+
   it('refuses a file over the size limit', async () => {
     const small = await startTestApp({ env: { UPLOAD_MAX_BYTES: '1000' } });
     try {

@@ -102,6 +102,21 @@ describe('track reader errors name file, line, column and reason', () => {
       /^pose\.csv line 1: file too large: more than 10 bytes$/,
       { maxBytes: 10 },
     ],
+    [
+      'implausible',
+      `${POSE_HEADER}\n0,0,0,0,0,0,0\n0.1,0,0,12000,0,0,0\n`,
+      /^pose\.csv line 3, column 4 \(z_mm\): implausible value 12000 for z_mm: .*within \+\/-10 m/,
+    ],
+    [
+      'implausible',
+      `${POSE_HEADER}\n0,0,0,0,0,400,0\n`,
+      /^pose\.csv line 2, column 6 \(pitch_deg\): implausible value 400 for pitch_deg/,
+    ],
+    [
+      'tooLong',
+      `${POSE_HEADER}\n0,0,0,0,0,0,0\n14400.5,0,0,0,0,0,0\n`,
+      /^pose\.csv line 3, column 1 \(time_s\): take too long: 14400\.5 s is more than 4 hours/,
+    ],
     ['empty', '', /^pose\.csv line 1: empty file: no header row$/],
     ['empty', '\n  \n', /^pose\.csv line 1: empty file/],
     ['noRows', `${POSE_HEADER}\n`, /^pose\.csv line 1: no data rows after the header$/],
@@ -120,6 +135,33 @@ describe('track reader errors name file, line, column and reason', () => {
     expect(e.line).toBe(5);
     expect(e.column).toBe(3);
     expect(e.columnName).toBe('y_m');
+  });
+});
+
+describe('values no ride can have are refused at reading', () => {
+  // Limits: common practice (ride specific force within a few g, spinning rides about one turn per
+  // second, platform excursions of a metre or two); the reader's limits sit well beyond them.
+  const vehicle = 'time_s,fx_mps2,fy_g,fz_mps2,wx_radps,wy_degps,wz_radps';
+  it.each([
+    ['1e300 m/s^2 of surge force', `${vehicle}\n0,1e300,0,9.8,0,0,0\n`, 2, 'fx_mps2'],
+    ['25 g of sway force', `${vehicle}\n0,0,0,9.8,0,0,0\n0.01,0,25,9.8,0,0,0\n`, 3, 'fy_g'],
+    ['a roll rate of 30 rad/s', `${vehicle}\n0,0,0,9.8,-30,0,0\n`, 2, 'wx_radps'],
+    ['a leg of zero length', 'time_s,leg1_m,leg2_m,leg3_m\n0,1,0,1\n', 2, 'leg2_m'],
+    ['a leg of 60 m', 'time_s,leg1_mm,leg2_m,leg3_m\n0,60000,1,1\n', 2, 'leg1_mm'],
+  ])('%s', (_what, text, line, column) => {
+    const e = failure(text);
+    expect(e.code).toBe('implausible');
+    expect([e.line, e.columnName]).toEqual([line, column]);
+    expect(e.message).toMatch(/check the export and the column's unit$/);
+  });
+
+  it('accepts the most a ride can be: 19 g, 19 rad/s, 9 m, 350 deg, a two-hour take', () => {
+    const t = parseTrackText(`${vehicle}\n0,186,-19,9.8,19,1000,-19\n7200,0,0,9.8,0,0,0\n`, {
+      file: 'v.csv',
+    });
+    expect(t.length).toBe(2);
+    const p = parseTrackText(`${POSE_HEADER}\n0,9,-9,9000,6.2,350,-6.2\n`, { file: 'p.csv' });
+    expect(trackColumn(p, 'pitch_rad')[0]).toBeCloseTo((350 * Math.PI) / 180, 12);
   });
 });
 
@@ -171,7 +213,7 @@ describe('track reader content', () => {
   });
 
   it('gives the same track however the text is split into chunks', () => {
-    const rows = Array.from({ length: 3000 }, (_, i) => [i / 100, Math.sin(i) * 100, i * 1e-3, -i]);
+    const rows = Array.from({ length: 3000 }, (_, i) => [i / 100, Math.sin(i) * 100, i * 1e-3, -(i % 360)]);
     const text = makeCsv(['time_s', 'x_mm', 'y_m', 'yaw_deg'], rows);
     const whole = parseTrackText(text, { file: 'p.csv' });
     const r = new TrackReader({ file: 'p.csv' });
@@ -279,7 +321,7 @@ describe('reading numbers from their characters', () => {
       i / 1000,
       Math.sin(i) * 1234.5678,
       (i % 97) * 1e-7,
-      -i * 0.3333333333333333,
+      -(i % 1000) * 0.3333333333333333,
     ]);
     const text = makeCsv(['time_s', 'x_mm', 'y_m', 'yaw_deg'], rows);
     const t = parseTrackText(text, { file: 'p.csv' });
