@@ -45,13 +45,20 @@ export function encoderCounts(
 
 /** Little-endian float32 frames: frame k holds value k of every column, in column order. */
 export function float32Frames(columns: readonly Float64Array[]): Uint8Array {
+  return frames(columns, (view, at, v) => view.setFloat32(at, v, true));
+}
+
+/** Frames of four-byte values, frame k holding every column's k-th value; `put` writes one value. */
+function frames(
+  columns: readonly Float64Array[],
+  put: (view: DataView, at: number, v: number, column: number, frame: number) => void,
+): Uint8Array {
   const n = columns[0]?.length ?? 0;
   const c = columns.length;
   const bytes = new Uint8Array(n * c * 4);
   const view = new DataView(bytes.buffer);
   for (let k = 0; k < n; k++) {
-    for (let j = 0; j < c; j++)
-      view.setFloat32((k * c + j) * 4, (columns[j] as Float64Array)[k] as number, true);
+    for (let j = 0; j < c; j++) put(view, (k * c + j) * 4, (columns[j] as Float64Array)[k] as number, j, k);
   }
   return bytes;
 }
@@ -66,23 +73,15 @@ export class ControllerOutputError extends Error {
  * outside the int32 range is refused, naming the leg and frame, rather than wrapped.
  */
 export function int32Frames(columns: readonly Float64Array[]): Uint8Array {
-  const n = columns[0]?.length ?? 0;
-  const c = columns.length;
-  const bytes = new Uint8Array(n * c * 4);
-  const view = new DataView(bytes.buffer);
-  for (let k = 0; k < n; k++) {
-    for (let j = 0; j < c; j++) {
-      const v = (columns[j] as Float64Array)[k] as number;
-      if (!Number.isInteger(v) || v < -2_147_483_648 || v > 2_147_483_647) {
-        throw new ControllerOutputError(
-          `leg${j + 1} frame ${k}: ${v} encoder counts do not fit a signed 32-bit integer; ` +
-            'lower counts per mm or move the zero offset',
-        );
-      }
-      view.setInt32((k * c + j) * 4, v, true);
+  return frames(columns, (view, at, v, j, k) => {
+    if (!Number.isInteger(v) || v < -2_147_483_648 || v > 2_147_483_647) {
+      throw new ControllerOutputError(
+        `leg${j + 1} frame ${k}: ${v} encoder counts do not fit a signed 32-bit integer; ` +
+          'lower counts per mm or move the zero offset',
+      );
     }
-  }
-  return bytes;
+    view.setInt32(at, v, true);
+  });
 }
 
 /** The manifest's description of a frame file: float32 millimetres or int32 encoder counts. */

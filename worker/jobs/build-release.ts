@@ -11,7 +11,7 @@ import { and, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../../server/db/client';
 import { cueRuns, releases, takes, tracks, users, venues } from '../../server/db/schema';
-import type { CueRunRow, ReleaseRow, TakeRow } from '../../server/db/schema';
+import type { ReleaseRow, TakeRow } from '../../server/db/schema';
 import { inStudio } from '../../server/db/scope';
 import type { Storage } from '../../server/storage';
 import { isMissingObject } from '../../server/storage';
@@ -22,7 +22,7 @@ import { auditSubject, mailAboutRelease, packageKeyOf, supersedeOlder } from '..
 import { PackageInputError, buildReleasePackage } from '../../server/pipeline/release-package';
 import { takeFilmSync } from '../../server/pipeline/views';
 import { filmSyncManifest } from '../../shared/motion/run-outputs';
-import { runFilmSync, runParamsSchema } from '../../shared/schemas/run-params';
+import { runFilmSync, runParamsSchema, type RunParams } from '../../shared/schemas/run-params';
 import type { BuiltPackage, ReleasePackageInput } from '../../server/pipeline/release-package';
 import { softwareVersion } from '../../server/lib/version';
 import { parseMotionBase, MotionBaseError } from '../../shared/schemas/motion-base';
@@ -63,8 +63,8 @@ async function readObject(storage: Storage, key: string): Promise<Buffer> {
 }
 
 /** The manifest's film sync of a run (frame rate, start timecode, offset), or null without one. */
-function filmSyncOfRun(take: TakeRow, run: CueRunRow): Record<string, unknown> | null {
-  const sync = runFilmSync(takeFilmSync(take), runParamsSchema.parse(run.params));
+function filmSyncOfRun(take: TakeRow, params: RunParams): Record<string, unknown> | null {
+  const sync = runFilmSync(takeFilmSync(take), params);
   return sync ? filmSyncManifest(sync) : null;
 }
 
@@ -95,6 +95,7 @@ async function packageInput(deps: BuildReleaseDeps, release: ReleaseRow): Promis
     : [];
   const budget = await versionRef(db, studioId, run.budgetVersionId);
   if (!budget) throw new ReleaseInputError('the budget profile version of the run no longer exists');
+  const params = runParamsSchema.parse(run.params);
   return {
     release: {
       id: release.id,
@@ -111,10 +112,10 @@ async function packageInput(deps: BuildReleaseDeps, release: ReleaseRow): Promis
     budget,
     softwareVersion: softwareVersion(),
     // The picture the run plays against: the take's film sync with the run's own offset.
-    filmSync: filmSyncOfRun(take, run),
+    filmSync: filmSyncOfRun(take, params),
     // The controller settings and touch-up the run was made with (its parameters), not the venue's now.
-    controller: runParamsSchema.parse(run.params).controller ?? null,
-    touchup: runParamsSchema.parse(run.params).touchup ?? null,
+    controller: params.controller ?? null,
+    touchup: params.touchup ?? null,
     readRunFile: (name) => readObject(storage, `${prefix}${name}`),
   };
 }

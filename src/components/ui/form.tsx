@@ -100,11 +100,14 @@ export function CheckboxGroup<T extends string>({
   );
 }
 
-/** Turns a list of `{ path, message }` issues into one message per top-level field name. */
-export function issuesByField(issues: readonly { path: string; message: string }[]): Record<string, string> {
+/** Turns a list of `{ path, message }` issues into one message per top-level field name, or per whole path (`keys: 'path'`). */
+export function issuesByField(
+  issues: readonly { path: string; message: string }[],
+  keys: 'top' | 'path' = 'top',
+): Record<string, string> {
   const byField: Record<string, string> = {};
   for (const issue of issues) {
-    const field = issue.path.split(/[.[]/)[0] || '_';
+    const field = (keys === 'path' ? issue.path : issue.path.split(/[.[]/)[0]) || '_';
     byField[field] = byField[field] ? `${byField[field]}; ${issue.message}` : issue.message;
   }
   return byField;

@@ -3,7 +3,7 @@ import type { FormEvent } from 'react';
 import type { ControllerOutput, RampProfile } from '../../../../shared/schemas/controller-output';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
 import { Button } from '../../../components/ui/button';
-import { TextField } from '../../../components/ui/form';
+import { issuesByField, TextField } from '../../../components/ui/form';
 import { ErrorNotice, Notice } from '../../../components/ui/status';
 import { ApiRequestError } from '../../../lib/api-client';
 import { useUpdateVenueController } from '../api/update-venue-controller';
@@ -43,12 +43,8 @@ export function ControllerForm({ studioId, venue }: { studioId: string; venue: V
   const [saved, setSaved] = useState(false);
   const update = useUpdateVenueController(studioId, venue.id);
   // One message per field path the server named (ramp.duration_s, encoder.countsPerMm, ...).
-  const errors: Record<string, string> = {};
-  if (update.error instanceof ApiRequestError) {
-    for (const i of update.error.issues) {
-      errors[i.path] = errors[i.path] ? `${errors[i.path]}; ${i.message}` : i.message;
-    }
-  }
+  const errors: Record<string, string> =
+    update.error instanceof ApiRequestError ? issuesByField(update.error.issues, 'path') : {};
   const edited = () => setSaved(false);
 
   const submit = (event: FormEvent<HTMLFormElement>) => {
