@@ -3,6 +3,7 @@
 // Leg i: L_i = p + R P_i - B_i, length l_i = |L_i|. All loops run on flat Float64Arrays and allocate
 // nothing per sample.
 
+import { FK_MAX_POSE_STEP, FK_SUBSTEP_M, followLegPath, poseStep } from './continuation';
 import { KinematicsError, conditionNumberSquare, flattenJoints, solveInPlace } from './base-geometry';
 import { eulerRateToBaseOmegaInto, rotationInto } from './rotation';
 import { derivative } from './track-derivative';
@@ -430,65 +431,6 @@ export function hexapodForwardPose(
   return -2;
 }
 
-/** Largest change of any leg (m) that forward kinematics takes in one Newton solve; larger changes are sub-stepped. */
-export const FK_SUBSTEP_M = 0.005;
-/** Largest change of any pose coordinate (m or rad) accepted from one Newton solve as the same assembly mode. */
-export const FK_MAX_POSE_STEP = 0.02;
-/** Smallest sub-step, as a fraction of the leg change between two samples, before giving up. */
-const FK_MIN_FRACTION = 1 / (1 << 20);
-
-function poseStep(a: Float64Array, b: Float64Array): number {
-  let d = 0;
-  for (let k = 0; k < 6; k++) d = Math.max(d, Math.abs((a[k] as number) - (b[k] as number)));
-  return d;
-}
-
-/**
- * Follows the leg lengths from `fromLegs` (pose `q`, overwritten with the result) to `toLegs` along
- * the straight line between them in leg space: Newton from sub-step to sub-step, each sub-step
- * changing no leg by more than FK_SUBSTEP_M and moving the pose by at most FK_MAX_POSE_STEP (a larger
- * move is another assembly mode, so the sub-step is halved). This is numerical continuation, the usual
- * way to keep one assembly mode along a path (Merlet, "Parallel Robots", 2nd ed. 2006, ch. 4).
- * Returns false when no continuous path was found (a singular pose or an unreachable stretch between).
- */
-function followLegPath(
-  g: HexapodGeometry,
-  fromLegs: Float64Array,
-  toLegs: Float64Array,
-  q: Float64Array,
-  ws: ForwardWorkspace,
-  scratch: { target: Float64Array; trial: Float64Array },
-  tol: number,
-  maxIt: number,
-): boolean {
-  let dmax = 0;
-  for (let i = 0; i < 6; i++)
-    dmax = Math.max(dmax, Math.abs((toLegs[i] as number) - (fromLegs[i] as number)));
-  const nominal = dmax > 0 ? Math.min(1, FK_SUBSTEP_M / dmax) : 1;
-  let done = 0;
-  let step = nominal;
-  const { target, trial } = scratch;
-  while (done < 1) {
-    const h = Math.min(step, 1 - done);
-    const f = done + h >= 1 - 1e-12 ? 1 : done + h;
-    for (let i = 0; i < 6; i++) {
-      const a = fromLegs[i] as number;
-      target[i] = f === 1 ? (toLegs[i] as number) : a + f * ((toLegs[i] as number) - a);
-    }
-    trial.set(q);
-    const it = hexapodForwardPose(g, target, 0, trial, ws, tol, maxIt);
-    if (it >= 0 && poseStep(trial, q) <= FK_MAX_POSE_STEP) {
-      q.set(trial);
-      done = f;
-      step = Math.min(nominal, 2 * h);
-    } else {
-      step = h / 2;
-      if (step < FK_MIN_FRACTION) return false;
-    }
-  }
-  return true;
-}
-
 /**
  * Forward kinematics of a leg-length track (six columns, m): pose offsets (m, rad). The first sample
  * is reached from the start pose (default neutral) and each later sample from the one before, so the
@@ -579,7 +521,15 @@ export function hexapodForward(
     }
     if (it < 0) {
       q.set(prev);
-      const ok = Number.isFinite(dmax) && followLegPath(g, prevLegs, row, q, ws, scratch, tol, maxIt);
+      const ok =
+        Number.isFinite(dmax) &&
+        followLegPath(
+          prevLegs,
+          row,
+          q,
+          (target, trial) => hexapodForwardPose(g, target, 0, trial, ws, tol, maxIt) >= 0,
+          scratch,
+        );
       if (!ok) {
         const t = time?.[s] ?? null;
         let worst = 0;

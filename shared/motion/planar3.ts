@@ -2,6 +2,7 @@
 // joins base joint B_i to platform joint P_i, L_i = p + R(yaw) P_i - B_i. The neutral pose is the
 // platform origin on the base origin with zero yaw, so pose offsets and poses coincide.
 
+import { FK_MAX_POSE_STEP, FK_SUBSTEP_M, followLegPath, legChange, poseStep } from './continuation';
 import { KinematicsError, conditionNumberSquare, flattenJoints, solveInPlace } from './base-geometry';
 
 /** Joints flattened as [x0, y0, x1, y1, x2, y2] (m): base in the base frame, platform in its own. */
@@ -350,9 +351,11 @@ export interface Planar3ForwardOptions {
 }
 
 /**
- * Forward kinematics of a planar leg track (three columns, m): the first sample takes the assembly
- * mode nearest `start`; each later sample runs Newton from the previous pose (continuity), and only if
- * that fails takes the mode nearest the previous pose. Throws KinematicsError when no mode exists.
+ * Forward kinematics of a planar leg track (three columns, m), following one assembly mode as the
+ * hexapod's does: the first sample is reached from `start` (default neutral) and each later sample
+ * from the one before, one Newton solve for a small leg change (at most FK_SUBSTEP_M) that moves the
+ * pose by at most FK_MAX_POSE_STEP, else by sub-steps along the leg path (followLegPath). Throws
+ * KinematicsError naming the sample when no mode reproduces its legs, or no continuous path reaches it.
  */
 export function planar3Forward(
   g: Planar3Geometry,
@@ -368,53 +371,51 @@ export function planar3Forward(
     y_m: new Float64Array(n),
     yaw_rad: new Float64Array(n),
   };
-  const prev: PlanarPose = {
-    x_m: options.start?.[0] ?? 0,
-    y_m: options.start?.[1] ?? 0,
-    yaw_rad: options.start?.[2] ?? 0,
-  };
+  const q = Float64Array.of(options.start?.[0] ?? 0, options.start?.[1] ?? 0, options.start?.[2] ?? 0);
+  const prev = Float64Array.from(q);
+  const prevLegs = new Float64Array(3);
+  planar3LegLengthsInto(g, q[0] as number, q[1] as number, q[2] as number, prevLegs);
   const row = new Float64Array(3);
-  const q = new Float64Array(3);
   const ws = newPlanarWorkspace();
+  const scratch = { target: new Float64Array(3), trial: new Float64Array(3) };
+  const solve = (target: Float64Array, trial: Float64Array) =>
+    planar3ForwardPose(g, target, 0, trial, ws, tol, 40) >= 0;
   for (let s = 0; s < n; s++) {
     for (let i = 0; i < 3; i++) row[i] = (legs[i] as Float64Array)[s] as number;
+    const dmax = legChange(row, prevLegs);
     let ok = false;
-    if (s > 0) {
-      q[0] = prev.x_m;
-      q[1] = prev.y_m;
-      q[2] = prev.yaw_rad;
-      ok = planar3ForwardPose(g, row, 0, q, ws, tol, 40) >= 0;
+    if (dmax <= FK_SUBSTEP_M) {
+      q.set(prev);
+      ok = solve(row, q) && poseStep(q, prev) <= FK_MAX_POSE_STEP;
     }
     if (!ok) {
-      const modes = planar3AssemblyModes(g, row[0] as number, row[1] as number, row[2] as number);
-      let best: PlanarPose | null = null;
-      let bestD = Infinity;
-      for (const m of modes) {
-        const d = poseDistance(m, prev);
-        if (d < bestD) {
-          bestD = d;
-          best = m;
-        }
-      }
-      if (!best) {
+      q.set(prev);
+      ok = Number.isFinite(dmax) && followLegPath(prevLegs, row, q, solve, scratch);
+    }
+    if (!ok) {
+      const t = options.time_s?.[s] ?? null;
+      if (planar3AssemblyModes(g, row[0] as number, row[1] as number, row[2] as number).length === 0) {
         throw new KinematicsError(
           s,
-          options.time_s?.[s] ?? null,
+          t,
           'noSolution',
           'no assembly mode reproduces these leg lengths (unreachable)',
         );
       }
-      q[0] = best.x_m;
-      q[1] = best.y_m;
-      q[2] = best.yaw_rad;
-      planar3ForwardPose(g, row, 0, q, ws, tol, 40);
+      throw new KinematicsError(
+        s,
+        t,
+        'noPath',
+        `forward kinematics found no continuous path from the ${s === 0 ? 'start pose' : 'previous sample'} ` +
+          `(legs change by up to ${Number.isFinite(dmax) ? dmax.toPrecision(3) : 'an unbounded amount'} m): the leg ` +
+          'lengths in between pass a singular pose or leave the reachable set, or the file is too coarse to follow',
+      );
     }
-    prev.x_m = q[0] as number;
-    prev.y_m = q[1] as number;
-    prev.yaw_rad = q[2] as number;
-    out.x_m[s] = prev.x_m;
-    out.y_m[s] = prev.y_m;
-    out.yaw_rad[s] = prev.yaw_rad;
+    prev.set(q);
+    prevLegs.set(row);
+    out.x_m[s] = q[0] as number;
+    out.y_m[s] = q[1] as number;
+    out.yaw_rad[s] = q[2] as number;
   }
   return out;
 }

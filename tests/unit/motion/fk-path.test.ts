@@ -10,12 +10,8 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../../server/cli/legwork';
 import { KinematicsError } from '../../../shared/motion/base-geometry';
 import type { PoseColumns } from '../../../shared/motion/hexapod';
-import {
-  FK_SUBSTEP_M,
-  hexapodForward,
-  hexapodGeometry,
-  hexapodInverse,
-} from '../../../shared/motion/hexapod';
+import { FK_SUBSTEP_M } from '../../../shared/motion/continuation';
+import { hexapodForward, hexapodGeometry, hexapodInverse } from '../../../shared/motion/hexapod';
 import { parseTrackText } from '../../../shared/motion/track-reader';
 import { demoHexapodBase, demoHexapodInput } from '../../../shared/schemas/motion-base';
 

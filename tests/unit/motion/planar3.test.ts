@@ -4,6 +4,7 @@ import { KinematicsError } from '../../../shared/motion/base-geometry';
 import {
   planar3AssemblyModes,
   planar3Forward,
+  planar3ForwardPose,
   planar3Geometry,
   planar3Inverse,
   planar3LegLengthsInto,
@@ -182,6 +183,42 @@ describe('planar3 kinematics on tracks', () => {
     for (const k of ['x_m', 'y_m', 'yaw_rad'] as const) {
       for (let s = 0; s < n; s++) expect(Math.abs(back[k][s]! - pose[k][s]!)).toBeLessThan(1e-9);
     }
+  });
+
+  it('follows a coarse leg file (2 Hz) by sub-steps to the pose it came from, where one solve per sample is lost', () => {
+    // Source: FK(IK(track)) = track at every sample; the 3-RPR has up to six assembly modes (Gosselin
+    // and Merlet 1994), and a brisk motion sampled at 2 Hz changes the legs by tens of centimetres.
+    const n = 41;
+    const t = Float64Array.from({ length: n }, (_, i) => i / 2);
+    const pose = {
+      x_m: t.map((v) => 0.35 * Math.sin(2 * Math.PI * 0.45 * v)),
+      y_m: t.map((v) => 0.3 * Math.sin(2 * Math.PI * 0.55 * v + 1)),
+      yaw_rad: t.map((v) => 0.9 * Math.sin(2 * Math.PI * 0.5 * v + 0.3)),
+    };
+    const legs = planar3Inverse(g, pose);
+    const back = planar3Forward(g, legs, { time_s: t });
+    for (const k of ['x_m', 'y_m', 'yaw_rad'] as const) {
+      for (let s = 0; s < n; s++)
+        expect(Math.abs(back[k][s]! - pose[k][s]!), `${k} at ${s}`).toBeLessThan(1e-9);
+    }
+    // The naive way, one Newton solve from the previous sample's pose, loses the track somewhere.
+    const q = new Float64Array(3);
+    const row = new Float64Array(3);
+    let lost = false;
+    for (let s = 0; s < n; s++) {
+      for (let i = 0; i < 3; i++) row[i] = legs[i]![s]!;
+      const it = planar3ForwardPose(g, row, 0, q);
+      const err = Math.max(
+        Math.abs(q[0]! - pose.x_m[s]!),
+        Math.abs(q[1]! - pose.y_m[s]!),
+        Math.abs(wrapAngle(q[2]! - pose.yaw_rad[s]!)),
+      );
+      if (it < 0 || err > 1e-6) {
+        lost = true;
+        break;
+      }
+    }
+    expect(lost).toBe(true);
   });
 
   it('throws a KinematicsError naming the sample for unreachable lengths', () => {
