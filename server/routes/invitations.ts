@@ -52,7 +52,8 @@ export function invitationsRouter(deps: AppDeps, throttle: PasswordThrottle): Ro
     const { inv } = await find(String(req.params.token));
     const body = parseBody(acceptInvitationBody, req.body, 'The invitation form');
     const [existing] = await deps.db.select().from(users).where(eq(users.email, inv.email)).limit(1);
-    let user: Express.User;
+    let user: Express.User | null = null;
+    let passwordHash: string | null = null;
     if (existing) {
       const signedInAsInvitee = req.user?.id === existing.id;
       if (
@@ -69,31 +70,51 @@ export function invitationsRouter(deps: AppDeps, throttle: PasswordThrottle): Ro
           ...(body.password ? [] : [{ path: 'password', message: 'required' }]),
         ]);
       }
-      const passwordHash = await hashPassword(body.password);
-      const [created] = await deps.db
-        .insert(users)
-        .values({ email: inv.email, name: body.name, passwordHash })
-        .returning();
-      user = { id: created!.id, email: created!.email, name: created!.name };
+      // Hashed before the transaction, so the invitation's row is locked only briefly.
+      passwordHash = await hashPassword(body.password);
     }
-    await deps.db.transaction(async (tx) => {
+    // One transaction, which first claims the invitation: of two parallel accepts the second waits on
+    // the row, then finds it accepted (410) instead of meeting a unique violation.
+    const accepted = await deps.db.transaction(async (tx) => {
+      const claimed = await tx
+        .update(invitations)
+        .set({ acceptedAt: now() })
+        .where(and(eq(invitations.id, inv.id), isNull(invitations.acceptedAt)))
+        .returning({ id: invitations.id });
+      if (claimed.length === 0) throw new HttpError(410, 'This invitation was already accepted.');
+      let member = user;
+      if (!member) {
+        const [created] = await tx
+          .insert(users)
+          .values({ email: inv.email, name: body.name!, passwordHash: passwordHash! })
+          .onConflictDoNothing({ target: users.email })
+          .returning();
+        if (!created) {
+          throw new HttpError(
+            409,
+            `An account for ${inv.email} was created meanwhile. Sign in with it, then accept the invitation.`,
+          );
+        }
+        member = { id: created.id, email: created.email, name: created.name };
+      }
       await tx
         .insert(memberships)
-        .values({ studioId: inv.studioId, userId: user.id, roles: inv.roles, venueIds: inv.venueIds })
+        .values({ studioId: inv.studioId, userId: member.id, roles: inv.roles, venueIds: inv.venueIds })
         .onConflictDoUpdate({
           target: [memberships.studioId, memberships.userId],
           set: { roles: inv.roles, venueIds: inv.venueIds },
         });
-      await tx.update(invitations).set({ acceptedAt: now() }).where(eq(invitations.id, inv.id));
       await recordAudit(tx, {
         studioId: inv.studioId,
-        actor: user,
+        actor: member,
         action: 'invitation.accepted',
         subjectType: 'invitation',
         subjectId: inv.id,
         detail: { email: inv.email, roles: inv.roles },
       });
+      return member;
     });
+    user = accepted;
     if (req.user?.id !== user.id) await logIn(req, user);
     res.json(await loadMe(deps.db, user));
   });

@@ -168,6 +168,35 @@ describe('invitations by e-mail', () => {
     expect(actions).toContain('invitation.accepted');
   });
 
+  it('accepts one invitation once when three people send it at the same moment: one 200, the rest 410, no 500', async () => {
+    const admin = new Client(t.app);
+    await admin.signIn('ada.admin@lanternfish.example');
+    const email = 'parallel.accept@example.test';
+    const inv = await admin.send('post', `/api/studios/${t.seed.studioId}/invitations`, {
+      email,
+      roles: ['producer'],
+    });
+    expect(inv.status).toBe(201);
+    const mail = await waitForMail(email, /invites you to Lanternfish Studios/);
+    const token = firstLink(mail.text).pathname.split('/').pop()!;
+    const clients = [new Client(t.app), new Client(t.app), new Client(t.app)];
+    for (const c of clients) await c.refreshCsrf();
+    const answers = await Promise.all(
+      clients.map((c) =>
+        c.send('post', `/api/invitations/${token}/accept`, {
+          name: 'Ines Parallel',
+          password: 'long-enough-pass',
+        }),
+      ),
+    );
+    expect(answers.map((a) => a.status).sort()).toEqual([200, 410, 410]);
+    for (const a of answers.filter((x) => x.status === 410)) expect(a.body.error).toMatch(/already accepted/);
+    const rows = await t.tdb.db.execute(
+      sql`select count(*)::int as n from users u join memberships m on m.user_id = u.id where u.email = ${email}`,
+    );
+    expect(rows.rows[0]).toEqual({ n: 1 });
+  });
+
   it('refuses an invitation form with bad fields and says which', async () => {
     const admin = new Client(t.app);
     await admin.signIn('ada.admin@lanternfish.example');
