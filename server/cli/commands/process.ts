@@ -41,19 +41,19 @@ ${PACKAGE_FILES.map((f) => `  ${f.name.padEnd(15)}${f.describes}`).join('\n')}
 Without --budget the DEMO budget is used (invented numbers, not a standard's), and the report says so.
 
 Options:
-  --base FILE      motion base JSON (docs/motion-conventions.md section 7)
-  --profile FILE   cueing profile JSON (vehicle tracks only)
-  --budget FILE    safety budget JSON
-  --touchup FILE   take touch-up JSON applied before everything else: offset_s, trimIn_s,
-                   trimOut_s, gain {axis: factor}, smoothing_hz {axis: cut-off}, fadeIn_s,
-                   fadeOut_s (docs/motion-conventions.md, take touch-up)
+  --base FILE        motion base JSON (docs/motion-conventions.md section 7)
+  --profile FILE     cueing profile JSON (vehicle tracks only)
+  --budget FILE      safety budget JSON
+  --touchup FILE     take touch-up JSON applied before everything else: offset_s, trimIn_s,
+                     trimOut_s, gain {axis: factor}, smoothing_hz {axis: cut-off}, fadeIn_s,
+                     fadeOut_s (docs/motion-conventions.md, take touch-up)
   --controller FILE  the venue controller's settings: ramp {duration_s, profile quintic or
-                   raisedCosine} from neutral into the show and back, added before the
-                   kinematics and checked with the show; encoder {countsPerMm, zeroOffset_counts}
-                   (recorded; counts are written into release packages). Without it: no ramps
-  --in FILE        track CSV, optionally gzipped
-  --out DIR        package folder (created if missing; package files in it are replaced)
-  -h, --help       this text
+                     raisedCosine} from neutral into the show and back, added before the
+                     kinematics and checked with the show; encoder {countsPerMm, zeroOffset_counts}
+                     (recorded; counts are written into release packages). Without it: no ramps
+  --in FILE          track CSV, optionally gzipped
+  --out DIR          package folder (created if missing; package files in it are replaced)
+  -h, --help         this text
 
 Exit codes: 0 within budget, 2 bad input or usage, 3 over a comfort limit only, 4 over a hard limit.
 
