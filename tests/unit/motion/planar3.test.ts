@@ -187,7 +187,8 @@ describe('planar3 kinematics on tracks', () => {
 
   it('follows a coarse leg file (2 Hz) by sub-steps to the pose it came from, where one solve per sample is lost', () => {
     // Source: FK(IK(track)) = track at every sample; the 3-RPR has up to six assembly modes (Gosselin
-    // and Merlet 1994), and a brisk motion sampled at 2 Hz changes the legs by tens of centimetres.
+    // and Merlet 1994, from memory), and a brisk motion sampled at 2 Hz changes the legs by tens of
+    // centimetres.
     const n = 41;
     const t = Float64Array.from({ length: n }, (_, i) => i / 2);
     const pose = {
