@@ -248,12 +248,14 @@ export interface DecimatedColumn {
 // Quasi-random fine offsets (golden-ratio sequence) at which the removed content is sampled, so a tone
 // locked to the controller rate cannot hide in the same phase every sample.
 const GOLDEN = 0.6180339887498949;
+/** Probes of the removed content per column before they are spaced out (see decimateColumn). */
+const PROBES_MAX = 8192;
 
 /**
  * Low-passes a fine-grid column (m fine samples per controller sample, controller instant k at fine
  * index k m) and reads it at `count` controller instants; see the file comment. The removed share is
  * estimated from one quasi-randomly placed fine sample per controller interval (every fine sample when
- * m = 1).
+ * m = 1), on a long column only in every stride-th interval.
  */
 export function decimateColumn(
   fine: Float64Array,
@@ -272,11 +274,15 @@ export function decimateColumn(
   let srr = 0;
   let probes = 0;
   const nf = fine.length;
+  // Every controller interval is probed up to PROBES_MAX intervals; a longer column is probed every
+  // `stride`-th interval (at most 2 x PROBES_MAX probes, plenty for an r.m.s. share).
+  const stride = Math.max(1, Math.floor(count / PROBES_MAX));
   for (let k = 0; k < count; k++) {
     let c = k * m + H;
     let s = centre * (ext[c] as number);
     for (let i = 1; i <= H; i++) s += (half[i] as number) * ((ext[c - i] as number) + (ext[c + i] as number));
     values[k] = s;
+    if (k % stride !== 0) continue;
     const off = m === 1 ? 0 : Math.floor(((k * GOLDEN) % 1) * m);
     const j = Math.min(k * m + off, nf - 1);
     let y = s;
