@@ -1,8 +1,5 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { venueDetailSchema } from '../../../../shared/schemas/pipeline';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
-import { api } from '../../../lib/api-client';
-import { venueKeys } from '../../../lib/queries/venues';
+import { putVenue, useVenueUpdate } from './put-venue';
 
 export interface UpdateVenueBaseInput {
   studioId: string;
@@ -12,23 +9,11 @@ export interface UpdateVenueBaseInput {
 }
 
 /** Replaces the venue's motion base; a bad base comes back as ApiRequestError with one issue per JSON path. */
-export async function updateVenueBase({
-  studioId,
-  venueId,
-  base,
-}: UpdateVenueBaseInput): Promise<VenueDetail> {
-  const path = `/api/studios/${encodeURIComponent(studioId)}/venues/${encodeURIComponent(venueId)}/base`;
-  return api.put(path, { base }, venueDetailSchema);
+export function updateVenueBase({ studioId, venueId, base }: UpdateVenueBaseInput): Promise<VenueDetail> {
+  return putVenue(studioId, venueId, 'base', { base });
 }
 
 export function useUpdateVenueBase(studioId: string, venueId: string) {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: updateVenueBase,
-    onSuccess: (venue) => {
-      queryClient.setQueryData(venueKeys.detail(studioId, venueId), venue);
-      // The venues table shows the base kind, rate and seats, so it is stale too.
-      void queryClient.invalidateQueries({ queryKey: venueKeys.list(studioId), exact: true });
-    },
-  });
+  // The venues table shows the base kind, rate and seats, so it is stale too.
+  return useVenueUpdate(studioId, venueId, updateVenueBase, true);
 }

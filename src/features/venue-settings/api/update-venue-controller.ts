@@ -1,8 +1,5 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { venueDetailSchema } from '../../../../shared/schemas/pipeline';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
-import { api } from '../../../lib/api-client';
-import { venueKeys } from '../../../lib/queries/venues';
+import { putVenue, useVenueUpdate } from './put-venue';
 
 export interface UpdateVenueControllerInput {
   studioId: string;
@@ -12,21 +9,14 @@ export interface UpdateVenueControllerInput {
 }
 
 /** Replaces the venue's controller settings; bad ones come back as ApiRequestError with one issue per field. */
-export async function updateVenueController({
+export function updateVenueController({
   studioId,
   venueId,
   controller,
 }: UpdateVenueControllerInput): Promise<VenueDetail> {
-  const path = `/api/studios/${encodeURIComponent(studioId)}/venues/${encodeURIComponent(venueId)}/controller`;
-  return api.put(path, controller, venueDetailSchema);
+  return putVenue(studioId, venueId, 'controller', controller);
 }
 
 export function useUpdateVenueController(studioId: string, venueId: string) {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: updateVenueController,
-    onSuccess: (venue) => {
-      queryClient.setQueryData(venueKeys.detail(studioId, venueId), venue);
-    },
-  });
+  return useVenueUpdate(studioId, venueId, updateVenueController);
 }

@@ -1,8 +1,5 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { venueDetailSchema } from '../../../../shared/schemas/pipeline';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
-import { api } from '../../../lib/api-client';
-import { venueKeys } from '../../../lib/queries/venues';
+import { putVenue, useVenueUpdate } from './put-venue';
 
 export interface UpdateVenueSettingsInput {
   studioId: string;
@@ -12,19 +9,14 @@ export interface UpdateVenueSettingsInput {
 }
 
 /** Points the venue at other cueing and/or budget profile versions; the server decides who may change which. */
-export async function updateVenueSettings({
+export function updateVenueSettings({
   studioId,
   venueId,
   ...body
 }: UpdateVenueSettingsInput): Promise<VenueDetail> {
-  const path = `/api/studios/${encodeURIComponent(studioId)}/venues/${encodeURIComponent(venueId)}/settings`;
-  return api.put(path, body, venueDetailSchema);
+  return putVenue(studioId, venueId, 'settings', body);
 }
 
 export function useUpdateVenueSettings(studioId: string, venueId: string) {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: updateVenueSettings,
-    onSuccess: (venue) => queryClient.setQueryData(venueKeys.detail(studioId, venueId), venue),
-  });
+  return useVenueUpdate(studioId, venueId, updateVenueSettings);
 }
