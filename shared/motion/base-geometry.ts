@@ -126,46 +126,107 @@ export function solveInPlace(a: Float64Array, b: Float64Array, n: number): boole
   return true;
 }
 
+// Work space of symmetricEigenvaluesInto, kept between calls (it runs once per sample of a track).
+let eigenScratch = new Float64Array(18);
+
 /**
- * Eigenvalues of the symmetric n x n matrix a (row-major, destroyed) by cyclic Jacobi rotations,
- * written unsorted into out[0..n-1]. Accurate to a few ulps of the largest eigenvalue.
+ * Eigenvalues of the symmetric n x n matrix a (row-major, destroyed), written unsorted into
+ * out[0..n-1]: Householder reduction to tridiagonal form, then the implicit QL iteration with
+ * Wilkinson's shift on the tridiagonal (Golub and Van Loan, "Matrix Computations", 8.3; Wilkinson and
+ * Reinsch, "Handbook for Automatic Computation" II, procedure tql1). Backward stable: each eigenvalue
+ * is within a few ulps of the largest in magnitude.
  */
 export function symmetricEigenvaluesInto(a: Float64Array, n: number, out: Float64Array): Float64Array {
-  for (let sweep = 0; sweep < 60; sweep++) {
-    let off = 0;
-    let diag = 0;
-    for (let i = 0; i < n; i++) {
-      diag += (a[i * n + i] as number) ** 2;
-      for (let j = i + 1; j < n; j++) off += (a[i * n + j] as number) ** 2;
+  const d = out;
+  if (eigenScratch.length < 3 * n) eigenScratch = new Float64Array(3 * n);
+  const e = eigenScratch.subarray(0, n); // e[i] couples d[i] and d[i + 1]; e[n - 1] = 0
+  const v = eigenScratch.subarray(n, 2 * n);
+  const p = eigenScratch.subarray(2 * n, 3 * n);
+  for (let k = 0; k < n - 2; k++) {
+    // The reflector that zeroes column k below its subdiagonal, applied to the trailing block.
+    let norm2 = 0;
+    for (let i = k + 1; i < n; i++) norm2 += (a[i * n + k] as number) ** 2;
+    const x0 = a[(k + 1) * n + k] as number;
+    const tail = norm2 - x0 * x0;
+    if (!(tail > 0)) {
+      e[k] = x0;
+      continue;
     }
-    if (off <= 1e-32 * diag || off === 0) break;
-    for (let p = 0; p < n - 1; p++) {
-      for (let q = p + 1; q < n; q++) {
-        const apq = a[p * n + q] as number;
-        if (apq === 0) continue;
-        const app = a[p * n + p] as number;
-        const aqq = a[q * n + q] as number;
-        // Rutishauser's stable form of the rotation that zeroes a[p][q].
-        const theta = (aqq - app) / (2 * apq);
-        const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
-        const c = 1 / Math.sqrt(t * t + 1);
-        const s = t * c;
-        for (let k = 0; k < n; k++) {
-          const akp = a[k * n + p] as number;
-          const akq = a[k * n + q] as number;
-          a[k * n + p] = c * akp - s * akq;
-          a[k * n + q] = s * akp + c * akq;
-        }
-        for (let k = 0; k < n; k++) {
-          const apk = a[p * n + k] as number;
-          const aqk = a[q * n + k] as number;
-          a[p * n + k] = c * apk - s * aqk;
-          a[q * n + k] = s * apk + c * aqk;
-        }
+    const alpha = x0 >= 0 ? -Math.sqrt(norm2) : Math.sqrt(norm2);
+    for (let i = k + 1; i < n; i++) v[i] = a[i * n + k] as number;
+    v[k + 1] = x0 - alpha;
+    const vv = tail + (v[k + 1] as number) ** 2;
+    const beta = 2 / vv;
+    // p = beta A v, K = beta (v . p) / 2, q = p - K v; A <- A - v q^T - q v^T.
+    let vp = 0;
+    for (let i = k + 1; i < n; i++) {
+      let s = 0;
+      for (let j = k + 1; j < n; j++) s += (a[i * n + j] as number) * (v[j] as number);
+      s *= beta;
+      p[i] = s;
+      vp += (v[i] as number) * s;
+    }
+    const K = (beta * vp) / 2;
+    for (let i = k + 1; i < n; i++) p[i] = (p[i] as number) - K * (v[i] as number);
+    for (let i = k + 1; i < n; i++) {
+      const vi = v[i] as number;
+      const qi = p[i] as number;
+      for (let j = k + 1; j <= i; j++) {
+        const x = (a[i * n + j] as number) - vi * (p[j] as number) - qi * (v[j] as number);
+        a[i * n + j] = x;
+        a[j * n + i] = x;
       }
     }
+    e[k] = alpha;
   }
-  for (let i = 0; i < n; i++) out[i] = a[i * n + i] as number;
+  for (let i = 0; i < n; i++) d[i] = a[i * n + i] as number;
+  if (n >= 2) e[n - 2] = a[(n - 1) * n + (n - 2)] as number;
+  e[n - 1] = 0;
+  for (let l = 0; l < n; l++) {
+    for (let iter = 0; ; iter++) {
+      let m = l;
+      for (; m < n - 1; m++) {
+        const dd = Math.abs(d[m] as number) + Math.abs(d[m + 1] as number);
+        if (Math.abs(e[m] as number) <= Number.EPSILON * dd) break;
+      }
+      if (m === l) break;
+      if (iter === 60) {
+        // Only a matrix holding NaN gets here; its eigenvalues are not numbers either.
+        out.fill(NaN);
+        return out;
+      }
+      let g = ((d[l + 1] as number) - (d[l] as number)) / (2 * (e[l] as number));
+      let r = Math.sqrt(g * g + 1);
+      g = (d[m] as number) - (d[l] as number) + (e[l] as number) / (g + (g >= 0 ? r : -r));
+      let s = 1;
+      let c = 1;
+      let shift = 0;
+      let i = m - 1;
+      for (; i >= l; i--) {
+        const f = s * (e[i] as number);
+        const b = c * (e[i] as number);
+        r = Math.sqrt(f * f + g * g);
+        e[i + 1] = r;
+        if (r === 0) {
+          // Deflation inside the sweep: undo the last shift and start again from l.
+          d[i + 1] = (d[i + 1] as number) - shift;
+          e[m] = 0;
+          break;
+        }
+        s = f / r;
+        c = g / r;
+        g = (d[i + 1] as number) - shift;
+        r = ((d[i] as number) - g) * s + 2 * c * b;
+        shift = s * r;
+        d[i + 1] = g + shift;
+        g = c * r - b;
+      }
+      if (r === 0 && i >= l) continue;
+      d[l] = (d[l] as number) - shift;
+      e[l] = g;
+      e[m] = 0;
+    }
+  }
   return out;
 }
 

@@ -6,7 +6,7 @@
 // controller rates, so this matches interpolating the rotation itself far below the tolerances used.
 
 import type { Track } from './track-reader';
-import { antiAliasTaps, decimateColumn } from './band-limit';
+import { antiAliasTaps, decimateColumn, twoStageDecimation } from './band-limit';
 import { derivativeInto } from './track-derivative';
 
 // Grid points within this many periods of the end still count (absorbs floating-point round-off
@@ -178,6 +178,7 @@ export function resampleAntiAlias(
   // the band then ends at 0.4 x the track's own rate.
   const scale = Math.min(1, 1 / (spacing * rate_hz));
   const taps = antiAliasTaps(m, scale);
+  const plan = scale === 1 ? twoStageDecimation(m) : undefined;
   const linear = track.kind === 'vehicle';
   const slope = linear ? new Float64Array(0) : new Float64Array(n);
   const fine = new Float64Array(nf);
@@ -185,7 +186,7 @@ export function resampleAntiAlias(
   const columns = track.columns.map((col, c) => {
     if (linear) linearColumnInto(t, col, fineT, fine);
     else hermiteColumnInto(t, col, slope, fineT, fine);
-    const d = decimateColumn(fine, m, count, taps);
+    const d = decimateColumn(fine, m, count, taps, plan);
     removed.push({
       name: track.names[c] ?? `column${c + 1}`,
       removedRms: d.removedRms,

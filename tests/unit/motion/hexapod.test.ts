@@ -228,6 +228,42 @@ describe('hexapod inverse kinematics', () => {
     for (let i = 0; i < n; i++) expect(ev[i]).toBeCloseTo(evRef[i]!, 12);
     expect(solveInPlace(Float64Array.from([1, 2, 2, 4]), Float64Array.from([1, 1]), 2)).toBe(false);
   });
+
+  it('finds the eigenvalues of diagonal, repeated, tiny and graded symmetric matrices', () => {
+    // Source: a similarity Q D Q^T keeps the eigenvalues D (a fact of linear algebra); Q is the
+    // orthogonal factor of mathjs's own eigendecomposition of an unrelated random matrix.
+    const rng = makeRng(31);
+    const sorted = (a: ArrayLike<number>) => Array.from(a).sort((p, q) => p - q);
+    for (const n of [1, 2, 3, 6]) {
+      const R = Array.from({ length: n }, () => Array.from({ length: n }, () => rng() - 0.5));
+      const sym = R.map((row, i) => row.map((v, j) => v + R[j]![i]!));
+      const Q = matrix(eigs(matrix(sym)).eigenvectors.map((e) => (e.vector as Matrix).toArray() as number[]));
+      const spectra = [
+        Array.from({ length: n }, (_, i) => i + 1),
+        Array.from({ length: n }, () => 2.5), // all equal
+        Array.from({ length: n }, (_, i) => (i < n / 2 ? 1 : 4)), // two clusters
+        Array.from({ length: n }, (_, i) => 10 ** -i), // graded down to 1e-5
+        Array.from({ length: n }, (_, i) => (i === 0 ? 0 : -i)), // singular, negative
+      ];
+      for (const D of spectra) {
+        const A = multiply(
+          multiply(transpose(Q), matrix(D.map((d, i) => D.map((_, j) => (i === j ? d : 0))))),
+          Q,
+        ) as Matrix;
+        const flat = Float64Array.from((A.toArray() as number[][]).flat());
+        const got = sorted(symmetricEigenvaluesInto(flat, n, new Float64Array(n)));
+        const want = sorted(D);
+        for (let i = 0; i < n; i++)
+          expect(Math.abs(got[i]! - want[i]!)).toBeLessThan(1e-13 * Math.max(1, ...want.map(Math.abs)));
+      }
+      // Already diagonal: the values come back untouched.
+      const diag = new Float64Array(n * n);
+      for (let i = 0; i < n; i++) diag[i * n + i] = 3 - i;
+      expect(sorted(symmetricEigenvaluesInto(diag, n, new Float64Array(n)))).toEqual(
+        sorted(Array.from({ length: n }, (_, i) => 3 - i)),
+      );
+    }
+  });
 });
 
 describe('hexapod forward kinematics', () => {
