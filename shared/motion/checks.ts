@@ -93,7 +93,9 @@ type Triple = readonly [Float64Array, Float64Array, Float64Array];
  * Specific force on a rigid platform is affine in the seat position r (docs/motion-conventions.md section 5:
  * f = R^T (a_O - g) + R^T (alpha x R r + w x (w x R r))), so f(r) = origin + sum_j r_j perMetre[j]
  * (m/s^2 and m/s^2 per m, platform frame). The ISO weightings are linear filters, so they then run on
- * these four signals per axis instead of once per seat; seats_m lists each seat's r (m, platform frame).
+ * at most four signals per axis instead of once per seat: the force at the seats' centroid and its
+ * change along each direction the seats spread in (seatLayoutBasis), three when the seats share a
+ * plane. seats_m lists each seat's r (m, platform frame).
  */
 export interface SeatForceModel {
   origin: Triple;
@@ -101,8 +103,48 @@ export interface SeatForceModel {
   seats_m: readonly (readonly [number, number, number])[];
 }
 
-/** Above this many seats the ISO figures come from the SeatForceModel (four weightings per axis). */
-export const DIRECT_WEIGHTING_MAX_SEATS = 4;
+/**
+ * The seats' centroid and orthonormal directions spanning their offsets from it (none for one seat,
+ * one for seats in a row, two for seats in a plane, at most three); offsets under a micrometre are
+ * taken as none.
+ */
+export function seatLayoutBasis(seats_m: readonly (readonly [number, number, number])[]): {
+  centre: [number, number, number];
+  directions: [number, number, number][];
+} {
+  const n = seats_m.length;
+  const centre: [number, number, number] = [0, 0, 0];
+  for (const r of seats_m) {
+    centre[0] += r[0] / n;
+    centre[1] += r[1] / n;
+    centre[2] += r[2] / n;
+  }
+  const directions: [number, number, number][] = [];
+  // Gram-Schmidt on the offsets, largest remainder first, so the basis does not hang on seat order.
+  const rest = seats_m.map(
+    (r) => [r[0] - centre[0], r[1] - centre[1], r[2] - centre[2]] as [number, number, number],
+  );
+  while (directions.length < 3) {
+    let best = -1;
+    let bestNorm = 1e-6;
+    rest.forEach((v, i) => {
+      const norm = Math.hypot(v[0], v[1], v[2]);
+      if (norm > bestNorm) {
+        bestNorm = norm;
+        best = i;
+      }
+    });
+    if (best < 0) break;
+    const b = rest[best] as [number, number, number];
+    const u: [number, number, number] = [b[0] / bestNorm, b[1] / bestNorm, b[2] / bestNorm];
+    directions.push(u);
+    for (const v of rest) {
+      const d = v[0] * u[0] + v[1] * u[1] + v[2] * u[2];
+      for (let a = 0; a < 3; a++) v[a] = (v[a] as number) - d * (u[a] as number);
+    }
+  }
+  return { centre, directions };
+}
 
 /** Intermediate rider signals the pipeline reuses for spectra and charts (m/s^2, m/s^3, rad/s, rad/s^2). */
 export interface RiderSignals {
@@ -497,18 +539,36 @@ function directDose(input: CheckInput, axis: 0 | 1 | 2, w: 'Wk' | 'Wd' | 'Wf', r
   };
 }
 
-/** Weights the four model signals once, then combines them per seat (filters are linear). */
+/** Weights the model's signals along the seat layout once, then combines them per seat (filters are linear). */
 function modelDose(model: SeatForceModel, axis: 0 | 1 | 2, w: 'Wk' | 'Wd' | 'Wf', rate_hz: number): SeatDose {
-  const w0 = weight(model.origin[axis], rate_hz, w);
-  const w1 = weight(model.perMetre[0][axis], rate_hz, w);
-  const w2 = weight(model.perMetre[1][axis], rate_hz, w);
-  const w3 = weight(model.perMetre[2][axis], rate_hz, w);
-  const n = w0.length;
+  const { centre, directions } = seatLayoutBasis(model.seats_m);
+  const o = model.origin[axis];
+  const pm = [model.perMetre[0][axis], model.perMetre[1][axis], model.perMetre[2][axis]] as const;
+  const n = o.length;
+  // f(r) = origin + sum_j r_j perMetre[j]: the force at the centre, and its change per metre along each direction.
+  const along = (r: readonly number[], withOrigin: boolean) => {
+    const out = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      out[i] =
+        (withOrigin ? (o[i] as number) : 0) +
+        (r[0] as number) * (pm[0][i] as number) +
+        (r[1] as number) * (pm[1][i] as number) +
+        (r[2] as number) * (pm[2][i] as number);
+    }
+    return out;
+  };
+  const w0 = weight(along(centre, true), rate_hz, w);
+  const wk = directions.map((d) => weight(along(d, false), rate_hz, w));
   return (s) => {
-    const [rx, ry, rz] = model.seats_m[s] as readonly [number, number, number];
+    const r = model.seats_m[s] as readonly [number, number, number];
+    const coef = directions.map(
+      (d) => (r[0] - centre[0]) * d[0] + (r[1] - centre[1]) * d[1] + (r[2] - centre[2]) * d[2],
+    );
     const acc = new DoseAccumulator(rate_hz);
     for (let i = 0; i < n; i++) {
-      acc.add((w0[i] as number) + rx * (w1[i] as number) + ry * (w2[i] as number) + rz * (w3[i] as number));
+      let v = w0[i] as number;
+      for (let k = 0; k < wk.length; k++) v += (coef[k] as number) * ((wk[k] as Float64Array)[i] as number);
+      acc.add(v);
     }
     return acc.result();
   };
@@ -518,10 +578,11 @@ function modelDose(model: SeatForceModel, axis: 0 | 1 | 2, w: 'Wk' | 'Wd' | 'Wf'
 export function comfortFigures(input: CheckInput, rate_hz: number): ComfortSummary | undefined {
   const seats = input.seatForce_mps2.length;
   if (seats === 0 || input.time_s.length < 2) return undefined;
+  // The model when it needs fewer weightings than the seats would (coplanar seats: three per axis).
   const model =
     input.seatForceModel &&
-    seats > DIRECT_WEIGHTING_MAX_SEATS &&
-    input.seatForceModel.seats_m.length === seats
+    input.seatForceModel.seats_m.length === seats &&
+    1 + seatLayoutBasis(input.seatForceModel.seats_m).directions.length < seats
       ? input.seatForceModel
       : undefined;
   const dose = (axis: 0 | 1 | 2, w: 'Wk' | 'Wd' | 'Wf') =>

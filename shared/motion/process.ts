@@ -10,7 +10,7 @@ import type { CheckResult } from '../schemas/findings';
 import { exitCodeFor } from '../schemas/findings';
 import type { MotionBase } from '../schemas/motion-base';
 import type { BudgetCheck, SeatForceModel } from './checks';
-import { DIRECT_WEIGHTING_MAX_SEATS, runChecks } from './checks';
+import { runChecks } from './checks';
 import type { PoseColumns } from './hexapod';
 import {
   hexapodConditionNumbers,
@@ -306,7 +306,7 @@ export function processTrack(input: ProcessInput): ProcessResult {
     return [f.x, f.y, f.z] as const;
   });
   let seatForceModel: SeatForceModel | undefined;
-  if (base.seats_m.length > DIRECT_WEIGHTING_MAX_SEATS) {
+  if (base.seats_m.length > 1) {
     const at = (r: [number, number, number]) => {
       const f = seatForceFromMotion(motion, r);
       return [f.x, f.y, f.z] as const;
