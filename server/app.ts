@@ -17,6 +17,7 @@ import { invitationsRouter } from './routes/invitations';
 import { studioRouter } from './routes/studio';
 import { devMailboxRouter } from './routes/dev-mailbox';
 import { meRouter } from './routes/me';
+import { setRunStallSeconds } from './pipeline/views';
 
 export interface LegworkApp {
   app: express.Express;
@@ -27,6 +28,7 @@ export interface LegworkApp {
 export function createApp(deps: AppDeps): LegworkApp {
   const app = express();
   app.disable('x-powered-by');
+  setRunStallSeconds(deps.env.RUN_STALL_S);
   // Security headers. The built client is one module script and one stylesheet from this origin, its
   // fonts bundled, its charts drawn on canvas and SVG: nothing inline, nothing from elsewhere. React
   // and the chart library set styles through the CSSOM, which style-src does not govern. Over plain

@@ -57,6 +57,10 @@ export const envSchema = z.object({
   /** Retries of a cue-run job that throws (with exponential backoff from the delay). */
   CUE_RUN_RETRY_LIMIT: z.coerce.number().int().min(0).max(20).default(3),
   CUE_RUN_RETRY_DELAY_S: z.coerce.number().int().min(1).max(600).default(5),
+  /** How often a worker vouches for the run it is cueing (s). */
+  RUN_HEARTBEAT_S: z.coerce.number().min(0.2).max(60).default(10),
+  /** A run cueing with no heartbeat for this long has lost its worker and is queued again (s). */
+  RUN_STALL_S: z.coerce.number().min(1).max(3600).default(60),
   UPLOAD_MAX_BYTES: z.coerce
     .number()
     .int()

@@ -9,13 +9,14 @@ import { createMailer } from '../server/mail';
 import { startMailSender } from '../server/notifications/sender';
 import type { JobMeta } from './jobs/cue-run';
 import { createBuildReleaseHandler } from './jobs/build-release';
+import { startStallSweeper } from '../server/pipeline/stalled-runs';
 
 const env = parseEnv();
 const log = (m: string) => console.log(`[worker] ${m}`);
 const { db, pool } = openDb(env.DATABASE_URL, 4);
 const storage = createStorage(env);
 const boss = await startQueue(env.DATABASE_URL);
-const handle = createHandler({ db, storage, log, now: () => new Date() });
+const handle = createHandler({ db, storage, log, now: () => new Date(), heartbeat_s: env.RUN_HEARTBEAT_S });
 await boss.work<object>(
   QUEUES.cueRun,
   { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: env.WORKER_POLL_S },
@@ -45,12 +46,22 @@ const mail = startMailSender(
   },
   env.MAIL_POLL_S * 1000,
 );
+// Runs whose worker stopped answering (killed, out of memory, machine gone) go back in the queue;
+// every worker sweeps, and the guarded take-over re-queues each run once (server/pipeline/stalled-runs.ts).
+const sweeper = startStallSweeper(
+  pool,
+  boss,
+  { stall_s: env.RUN_STALL_S, retry: { limit: env.CUE_RUN_RETRY_LIMIT, delay_s: env.CUE_RUN_RETRY_DELAY_S } },
+  Math.min(15_000, (env.RUN_STALL_S * 1000) / 4),
+  log,
+);
 log('ready for jobs');
 
 let stopping = false;
 const stop = async () => {
   if (stopping) return;
   stopping = true;
+  await sweeper.stop();
   await boss.stop({ graceful: true, wait: true, timeout: 10_000 }).catch(() => undefined);
   await mail.stop();
   mailer.close();

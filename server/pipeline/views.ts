@@ -43,9 +43,21 @@ export function worstUse(summary: StoredRunSummary | null): { ratio: number; che
   return { ratio: worst.ratio, check: `${worst.check} ${worst.subject}` };
 }
 
+/**
+ * Seconds without a heartbeat after which a run being cued shows as stalled (RUN_STALL_S; the server
+ * sets it from its environment at start, see createApp).
+ */
+let stallAfter_s = 60;
+export function setRunStallSeconds(s: number): void {
+  stallAfter_s = s;
+}
+
 export function toRunSummary(r: CueRunRow, takeNumber: number, venueName: string): RunSummary {
   const w = worstUse(r.summary);
   const findings = r.summary?.findings;
+  const last = r.heartbeatAt ?? r.startedAt ?? r.createdAt;
+  const silent_s =
+    r.state === 'cueing' ? Math.max(0, Math.round((Date.now() - last.getTime()) / 1000)) : null;
   return {
     id: r.id,
     trackId: r.trackId,
@@ -58,6 +70,8 @@ export function toRunSummary(r: CueRunRow, takeNumber: number, venueName: string
     failureReason: r.failureReason,
     lastError: r.lastError,
     attempts: r.attempts,
+    stalled: silent_s !== null && silent_s > stallAfter_s,
+    silent_s,
     worstRatio: w?.ratio ?? null,
     worstCheck: w?.check ?? null,
     findingCount: findings ? findings.length : null,

@@ -10,6 +10,7 @@ import { parseBody } from '../lib/validate';
 import { actorOf } from '../lib/actor';
 import { loadRun, runDetail } from '../pipeline/run-detail';
 import { queueRunWithFilmOffset } from '../pipeline/queue-runs';
+import { requeueRun } from '../pipeline/stalled-runs';
 import { toRunSummary } from '../pipeline/views';
 import { runFileContentType } from '../../shared/schemas/run-outputs';
 import { filmOffsetBody } from '../../shared/schemas/run-params';
@@ -52,6 +53,25 @@ export function runsRouter(deps: AppDeps): Router {
     res.status(made.created ? 201 : 200).json(toRunSummary(made.run, loaded.take.number, loaded.venueName));
   });
 
+  // Asking again for a run that failed (storage was down, a worker kept dying) or whose worker stopped
+  // answering: the same run, queued under a new job; its history stays in the audit log.
+  r.post('/:runId/requeue', requirePermission('runs.request'), async (req, res) => {
+    const studioId = req.member!.studioId;
+    const loaded = await load(studioId, String(req.params.runId));
+    if (!deps.boss) throw new HttpError(503, 'The job queue is not running; try again shortly.');
+    const run = await requeueRun(deps.pool, deps.boss, {
+      studioId,
+      runId: loaded.run.id,
+      actor: actorOf(req),
+      now: (deps.now ?? (() => new Date()))(),
+      policy: {
+        stall_s: deps.env.RUN_STALL_S,
+        retry: { limit: deps.env.CUE_RUN_RETRY_LIMIT, delay_s: deps.env.CUE_RUN_RETRY_DELAY_S },
+      },
+    });
+    res.status(202).json(toRunSummary(run, loaded.take.number, loaded.venueName));
+  });
+
   const streamArtifact = async (
     studioId: string,
     runId: string,
@@ -65,8 +85,12 @@ export function runsRouter(deps: AppDeps): Router {
     if (!contentType) throw notFound('No such file in this run.');
     const obj = await deps.storage.client
       .send(new GetObjectCommand({ Bucket: deps.storage.bucket, Key: `${run.artifactPrefix}${name}` }))
-      .catch(() => {
-        throw notFound(`${name} is missing from storage.`);
+      .catch((e: unknown) => {
+        const code = (e as { name?: string; $metadata?: { httpStatusCode?: number } }) ?? {};
+        if (code.name === 'NoSuchKey' || code.$metadata?.httpStatusCode === 404) {
+          throw notFound(`${name} is missing from storage.`);
+        }
+        throw new HttpError(503, 'Storage is not answering; try again shortly.');
       });
     res.type(contentType);
     if (download) res.attachment(name);

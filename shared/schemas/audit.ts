@@ -209,6 +209,10 @@ export function auditWords(e: RawEvent): string {
       return `${run} finished over its budget and is held (${String(d.findings ?? '?')} finding(s))`;
     case 'run.failed':
       return `${run} failed${reason}`;
+    case 'run.stalled':
+      return `The worker cueing ${run} stopped answering (no heartbeat for ${String(d.silent_s ?? '?')} s); it was queued again`;
+    case 'run.requeued':
+      return `${who} asked again for ${run}${reason}`;
     case 'review.cleared':
       return `${who} cleared ${run}${reason}`;
     case 'review.held':

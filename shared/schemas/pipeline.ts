@@ -130,6 +130,10 @@ export const runSummarySchema = z.object({
   failureReason: z.string().nullable(),
   lastError: z.string().nullable(),
   attempts: z.number().int(),
+  /** Cueing, but its worker has not vouched for it for longer than the server's RUN_STALL_S. */
+  stalled: z.boolean(),
+  /** While cueing: seconds since its worker last vouched for it; null in any other state. */
+  silent_s: z.number().int().nullable(),
   /** Worst use ratio over every check, or null before the run finished. */
   worstRatio: z.number().nullable(),
   worstCheck: z.string().nullable(),

@@ -242,6 +242,13 @@ const ROUTES: RouteCase[] = [
     ok: 404,
   },
   {
+    name: 'ask again for a run',
+    method: 'post',
+    path: (i) => `/api/studios/${i.studio}/runs/00000000-0000-4000-8000-000000000000/requeue`,
+    allowed: ['producer', 'motion_engineer'],
+    ok: 404,
+  },
+  {
     name: 'release a run',
     method: 'post',
     path: (i) => `/api/studios/${i.studio}/runs/00000000-0000-4000-8000-000000000000/release`,

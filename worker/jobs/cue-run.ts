@@ -6,7 +6,12 @@
 // alone; a run left in `cueing` is done again from the start, and since the outputs are deterministic
 // and their keys fixed, the retry overwrites them with the same bytes before the one guarded update
 // that finishes the run.
-import { and, eq } from 'drizzle-orm';
+//
+// While it works, the handler vouches for the run every RUN_HEARTBEAT_S (cue_runs.heartbeat_at); a
+// run whose heartbeat goes stale is taken over by the stalled-run sweep (server/pipeline/stalled-runs.ts)
+// under a new job id. Every write here is guarded by the job id, so a job that has been replaced (a
+// worker that was only slow, or pg-boss handing the old job out again) changes nothing.
+import { and, eq, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../../server/db/client';
 import { cueRuns, profileVersions, profiles, takes, venues } from '../../server/db/schema';
@@ -45,7 +50,16 @@ export interface CueRunDeps {
   storage: Storage;
   log: (msg: string) => void;
   now: () => Date;
+  /** Seconds between heartbeats while a run is cued; default 10. */
+  heartbeat_s?: number;
 }
+
+/**
+ * The motion core runs synchronously, so no heartbeat can be written while it works: before it starts
+ * the heartbeat is set ahead by this much per input row (about three times what a 10-minute 1 kHz
+ * track takes on a 2-core machine), so that a long take is not mistaken for a dead worker.
+ */
+const BUSY_S_PER_ROW = 10e-6;
 
 export interface JobMeta {
   id: string;
@@ -82,8 +96,20 @@ interface RunInputs {
   cueingVersion: VersionRef | null;
 }
 
-/** Marks a queued (or half-done) run as cueing; null when the run is gone or already finished. */
-async function claimRun(deps: CueRunDeps, runId: string, studioId: string): Promise<CueRunRow | null> {
+/** The run's row, while this job is the one that may work on it and it is queued or cueing. */
+const ownedBy = (runId: string, jobId: string) =>
+  and(eq(cueRuns.id, runId), sql`coalesce(${cueRuns.jobId}, ${cueRuns.id}) = ${jobId}`);
+
+/**
+ * Marks a queued (or half-done) run as cueing for this job; null when the run is gone, already
+ * finished, or now belongs to another job.
+ */
+async function claimRun(
+  deps: CueRunDeps,
+  job: JobMeta,
+  runId: string,
+  studioId: string,
+): Promise<CueRunRow | null> {
   const [run] = await deps.db
     .select()
     .from(cueRuns)
@@ -96,11 +122,24 @@ async function claimRun(deps: CueRunDeps, runId: string, studioId: string): Prom
     deps.log(`cue run ${run.id}: already ${run.state}; a repeated delivery changes nothing`);
     return null;
   }
-  await deps.db
+  const now = deps.now();
+  const [claimed] = await deps.db
     .update(cueRuns)
-    .set({ state: 'cueing', progress: 2, attempts: run.attempts + 1, startedAt: deps.now(), lastError: null })
-    .where(eq(cueRuns.id, run.id));
-  return { ...run, state: 'cueing' };
+    .set({
+      state: 'cueing',
+      progress: 2,
+      attempts: sql`${cueRuns.attempts} + 1`,
+      startedAt: now,
+      heartbeatAt: now,
+      lastError: null,
+    })
+    .where(and(ownedBy(run.id, job.id), sql`${cueRuns.state} in ('queued', 'cueing')`))
+    .returning();
+  if (!claimed) {
+    deps.log(`cue run ${run.id}: job ${job.id} was replaced by job ${run.jobId}; nothing to do`);
+    return null;
+  }
+  return claimed;
 }
 
 /** Loads the take, the venue and the profile versions of the run, and parses the settings. */
@@ -206,7 +245,13 @@ function writeOutputs(deps: CueRunDeps, run: CueRunRow, outputs: RunOutputs): Pr
 }
 
 /** Stores the summary and the end state in one guarded update (only a run still cueing), with its audit event. */
-async function finish(deps: CueRunDeps, run: CueRunRow, outputs: RunOutputs, files: ManifestFile[]) {
+async function finish(
+  deps: CueRunDeps,
+  run: CueRunRow,
+  jobId: string,
+  outputs: RunOutputs,
+  files: ManifestFile[],
+) {
   const summary: StoredRunSummary = storedRunSummarySchema.parse({ ...outputs.summary, files });
   const state = summary.exitCode === 0 ? 'awaiting_review' : 'held_by_budget';
   await deps.db.transaction(async (tx) => {
@@ -219,8 +264,9 @@ async function finish(deps: CueRunDeps, run: CueRunRow, outputs: RunOutputs, fil
         artifactPrefix: artifactPrefix(run),
         finishedAt: deps.now(),
         failureReason: null,
+        heartbeatAt: null,
       })
-      .where(and(eq(cueRuns.id, run.id), eq(cueRuns.state, 'cueing')))
+      .where(and(ownedBy(run.id, jobId), eq(cueRuns.state, 'cueing')))
       .returning({ id: cueRuns.id });
     if (done) {
       await recordAudit(tx, {
@@ -240,12 +286,12 @@ async function finish(deps: CueRunDeps, run: CueRunRow, outputs: RunOutputs, fil
 }
 
 /** Ends a run as failed with its reason (only a run still cueing), with its audit event. */
-async function fail(deps: CueRunDeps, run: CueRunRow, reason: string): Promise<void> {
+async function fail(deps: CueRunDeps, run: CueRunRow, jobId: string, reason: string): Promise<void> {
   await deps.db.transaction(async (tx) => {
     const [done] = await tx
       .update(cueRuns)
-      .set({ state: 'failed', failureReason: reason, finishedAt: deps.now() })
-      .where(and(eq(cueRuns.id, run.id), eq(cueRuns.state, 'cueing')))
+      .set({ state: 'failed', failureReason: reason, finishedAt: deps.now(), heartbeatAt: null })
+      .where(and(ownedBy(run.id, jobId), eq(cueRuns.state, 'cueing')))
       .returning({ id: cueRuns.id });
     if (done) {
       await recordAudit(tx, {
@@ -264,17 +310,17 @@ async function fail(deps: CueRunDeps, run: CueRunRow, reason: string): Promise<v
 async function handleError(deps: CueRunDeps, run: CueRunRow, job: JobMeta, e: unknown): Promise<void> {
   const message = errorText(e);
   if (isInputError(e)) {
-    await fail(deps, run, `The take could not be processed for this venue: ${message}`);
+    await fail(deps, run, job.id, `The take could not be processed for this venue: ${message}`);
     return;
   }
   const last = (job.retryCount ?? 0) >= (job.retryLimit ?? 0);
   if (last) {
-    await fail(deps, run, `Gave up after ${(job.retryCount ?? 0) + 1} attempt(s): ${message}`);
+    await fail(deps, run, job.id, `Gave up after ${(job.retryCount ?? 0) + 1} attempt(s): ${message}`);
   } else {
     await deps.db
       .update(cueRuns)
-      .set({ state: 'queued', progress: 0, lastError: message })
-      .where(eq(cueRuns.id, run.id));
+      .set({ state: 'queued', progress: 0, lastError: message, heartbeatAt: null })
+      .where(and(ownedBy(run.id, job.id), eq(cueRuns.state, 'cueing')));
   }
   // pg-boss retries the job (with backoff) when the handler throws.
   throw e;
@@ -282,27 +328,41 @@ async function handleError(deps: CueRunDeps, run: CueRunRow, job: JobMeta, e: un
 
 /** Builds the pg-boss handler for the cue-run queue. */
 export function createHandler(deps: CueRunDeps) {
-  const setProgress = (run: CueRunRow, progress: number) =>
+  const heartbeat_ms = (deps.heartbeat_s ?? 10) * 1000;
+  /** Progress and a fresh heartbeat (ahead by `busy_s`), while the run is this job's and cueing. */
+  const vouch = (run: CueRunRow, jobId: string, progress?: number, busy_s = 0) =>
     deps.db
       .update(cueRuns)
-      .set({ progress })
-      .where(and(eq(cueRuns.id, run.id), eq(cueRuns.state, 'cueing')));
+      .set({
+        heartbeatAt: new Date(deps.now().getTime() + busy_s * 1000),
+        ...(progress === undefined ? {} : { progress }),
+      })
+      .where(and(ownedBy(run.id, jobId), eq(cueRuns.state, 'cueing')));
 
   return async function handle(job: JobMeta): Promise<void> {
     const data = cueRunJobSchema.parse(job.data);
-    const run = await claimRun(deps, data.runId, data.studioId);
+    const run = await claimRun(deps, job, data.runId, data.studioId);
     if (!run) return;
+    // The heartbeat between steps; a failed write is only logged (the next one may get through).
+    const timer = setInterval(() => {
+      vouch(run, job.id).catch((e: unknown) =>
+        deps.log(`cue run ${run.id}: heartbeat not written: ${errorText(e)}`),
+      );
+    }, heartbeat_ms);
+    timer.unref();
     try {
       const inputs = await loadInputs(deps, run);
       const track = await readTake(deps, inputs);
-      await setProgress(run, 30);
+      await vouch(run, job.id, 30, track.length * BUSY_S_PER_ROW);
       const outputs = buildOutputs(run, inputs, track);
-      await setProgress(run, 65);
+      await vouch(run, job.id, 65);
       const files = await writeOutputs(deps, run, outputs);
-      await setProgress(run, 95);
-      await finish(deps, run, outputs, files);
+      await vouch(run, job.id, 95);
+      await finish(deps, run, job.id, outputs, files);
     } catch (e) {
       await handleError(deps, run, job, e);
+    } finally {
+      clearInterval(timer);
     }
   };
 }

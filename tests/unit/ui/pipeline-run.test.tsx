@@ -60,6 +60,8 @@ function makeRun(overrides: Partial<RunDetail> = {}): RunDetail {
     failureReason: null,
     lastError: null,
     attempts: 1,
+    stalled: false,
+    silent_s: null,
     worstRatio: 1.014,
     worstCheck: 'stroke leg3',
     findingCount: 2,
@@ -241,14 +243,51 @@ describe('run page', () => {
           }),
         ),
     });
-    renderWithApp(<RunView studioId={STUDIO} runId={RUN} />);
+    renderWithApp(
+      <MembershipProvider membership={member(['safety_reviewer'])}>
+        <RunView studioId={STUDIO} runId={RUN} />
+      </MembershipProvider>,
+    );
     const panel = await screen.findByRole('alert');
     expect(panel).toHaveTextContent('This run failed.');
     expect(panel).toHaveTextContent(reason);
+    // A reviewer may not ask for runs, so is not offered to ask again.
+    expect(screen.queryByRole('button', { name: 'Ask for this run again' })).not.toBeInTheDocument();
     expect(screen.queryByRole('table', { name: 'Budget uses, largest first' })).not.toBeInTheDocument();
     expect(screen.queryByText('Checked against the DEMO budget.')).not.toBeInTheDocument();
     expect(calls.some((c) => c.path.endsWith('/series'))).toBe(false);
     expect(plots).toHaveLength(0);
+  });
+
+  it('shows a stalled run with how long its worker has been silent, and lets a producer ask again', async () => {
+    const { calls } = fakeApi({
+      [`GET /api/studios/${STUDIO}/runs/${RUN}`]: () =>
+        json(
+          makeRun({
+            state: 'cueing',
+            progress: 30,
+            stalled: true,
+            silent_s: 95,
+            result: null,
+            worstRatio: null,
+            worstCheck: null,
+            findingCount: null,
+            files: [],
+          }),
+        ),
+      [`POST /api/studios/${STUDIO}/runs/${RUN}/requeue`]: () =>
+        json({ ...makeRun({ state: 'queued', progress: 0 }) }, 202),
+    });
+    renderWithApp(
+      <MembershipProvider membership={member(['producer'])}>
+        <RunView studioId={STUDIO} runId={RUN} />
+      </MembershipProvider>,
+    );
+    const panel = await screen.findByRole('alert');
+    expect(panel).toHaveTextContent('Stalled at 30 %: no word from its worker for 95 s.');
+    fireEvent.click(within(panel).getByRole('button', { name: 'Ask for this run again' }));
+    await waitFor(() => expect(calls.some((c) => c.method === 'POST')).toBe(true));
+    expect(calls.find((c) => c.method === 'POST')!.path).toBe(`/api/studios/${STUDIO}/runs/${RUN}/requeue`);
   });
 
   it('shows live progress while cueing and does not ask for the series yet', async () => {

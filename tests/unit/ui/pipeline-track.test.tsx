@@ -33,6 +33,8 @@ function run(overrides: Partial<RunSummary>): RunSummary {
     failureReason: null,
     lastError: null,
     attempts: 1,
+    stalled: false,
+    silent_s: null,
     worstRatio: null,
     worstCheck: null,
     findingCount: null,

@@ -217,6 +217,8 @@ describe('decision panel', () => {
       failureReason: null,
       lastError: null,
       attempts: 1,
+      stalled: false,
+      silent_s: null,
       worstRatio: 0.7,
       worstCheck: 'stroke leg3',
       findingCount: 0,

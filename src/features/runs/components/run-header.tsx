@@ -6,12 +6,33 @@ import { ProgressBar, RunStateBadge, UseRatioBar } from '../../../components/cha
 import { checkLabel, formatVenueTime } from '../../../lib/format';
 import { useVenue } from '../../../lib/queries/venues';
 import { isRunActive } from '../api/get-run';
+import { useRequeueRun } from '../api/requeue-run';
+import { Button } from '../../../components/ui/button';
+import { ErrorNotice } from '../../../components/ui/status';
+import { useCan } from '../../../lib/membership';
 
 function Fact({ label, children }: { label: string; children: ReactNode }) {
   return (
     <div className="flex flex-col">
       <dt className="text-xs text-ink-600">{label}</dt>
       <dd className="text-sm text-ink-900">{children}</dd>
+    </div>
+  );
+}
+
+/** Asking again for a failed or stalled run, for those who may ask for runs. */
+function AskAgain({ studioId, runId }: { studioId: string; runId: string }) {
+  const may = useCan('runs.request');
+  const requeue = useRequeueRun(studioId);
+  if (!may) return null;
+  return (
+    <div className="mt-2 flex flex-col gap-2">
+      <div>
+        <Button busy={requeue.isPending} onClick={() => requeue.mutate({ studioId, runId })}>
+          Ask for this run again
+        </Button>
+      </div>
+      {requeue.error ? <ErrorNotice error={requeue.error} /> : null}
     </div>
   );
 }
@@ -66,7 +87,22 @@ export function RunHeader({ studioId, run }: { studioId: string; run: RunDetail 
           </span>
         </Fact>
       </dl>
-      {isRunActive(run.state) ? (
+      {run.stalled ? (
+        <div
+          role="alert"
+          className="rounded border border-signal-400 bg-signal-400/15 px-4 py-3 text-sm text-signal-600"
+        >
+          <p className="font-semibold">
+            Stalled at {run.progress} %: no word from its worker for {run.silent_s} s.
+          </p>
+          <p>
+            The worker cueing this run has stopped answering (stopped, out of memory, or its machine is gone).
+            A running worker puts the run back in the queue by itself within a minute; if none is running,
+            start one, or ask for the run again.
+          </p>
+          <AskAgain studioId={studioId} runId={run.id} />
+        </div>
+      ) : isRunActive(run.state) ? (
         <div
           className="flex items-center gap-3 rounded border border-ink-200 bg-white px-4 py-3"
           role="status"
@@ -89,6 +125,7 @@ export function RunHeader({ studioId, run }: { studioId: string; run: RunDetail 
         >
           <p className="font-semibold">This run failed.</p>
           <p>{run.failureReason ?? run.lastError ?? 'The worker gave no reason.'}</p>
+          <AskAgain studioId={studioId} runId={run.id} />
         </div>
       ) : null}
       {run.budgetIsDemo ? (

@@ -20,6 +20,13 @@ function groupByVenue(
 }
 
 function RunStatus({ run }: { run: RunSummary }) {
+  if (run.stalled) {
+    return (
+      <span className="text-xs text-signal-600">
+        Stalled at {run.progress} %: no word from its worker for {run.silent_s} s
+      </span>
+    );
+  }
   if (run.state === 'queued' || run.state === 'cueing') {
     return (
       <ProgressBar
