@@ -1,7 +1,8 @@
-// Fault drill: a worker process killed (SIGKILL) in the middle of a run. Real worker processes
-// (worker/index.ts, as `npm start` runs them) against the test's PostgreSQL and storage: the run must
-// show as stalled, a second worker must take it over and finish it exactly once, within a minute of
-// starting.
+// Real worker processes (worker/index.ts, as `npm start` and `npm run worker` run them) against the
+// test's PostgreSQL and storage:
+// - fault drill: a worker killed (SIGKILL) in the middle of a run; the run must show as stalled, and a
+//   second worker must take it over and finish it exactly once, within a minute of starting;
+// - scale-out: two workers share a burst of runs, none done twice and none lost.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawn } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
@@ -33,7 +34,7 @@ afterAll(async () => {
   await t.close();
 });
 
-function startWorker(): ChildProcess {
+function startWorker(onLine?: (line: string) => void): ChildProcess {
   const child = spawn(join(root, 'node_modules/.bin/tsx'), ['worker/index.ts'], {
     cwd: root,
     env: {
@@ -43,11 +44,19 @@ function startWorker(): ChildProcess {
       RUN_HEARTBEAT_S: '0.5',
       RUN_STALL_S: '3',
     },
-    stdio: ['ignore', 'ignore', 'inherit'],
+    stdio: ['ignore', onLine ? 'pipe' : 'ignore', 'inherit'],
     // Its own process group: tsx runs the worker in a child process, and the drill kills both.
     detached: true,
   });
   children.push(child);
+  if (onLine && child.stdout) {
+    let rest = '';
+    child.stdout.setEncoding('utf8').on('data', (chunk: string) => {
+      const lines = (rest + chunk).split('\n');
+      rest = lines.pop() ?? '';
+      for (const l of lines) onLine(l);
+    });
+  }
   return child;
 }
 
@@ -142,4 +151,73 @@ describe('fault drill: a worker killed mid-run', () => {
     expect(actions.filter((a) => a === 'run.stalled')).toHaveLength(1);
     expect(actions.filter((a) => a === 'run.awaiting_review' || a === 'run.held_by_budget')).toHaveLength(1);
   }, 180_000);
+});
+
+describe('scale-out: two workers share a burst', () => {
+  it('twelve runs queued at once are each finished exactly once, by both workers between them', async () => {
+    const base = `/api/studios/${t.seed.studioId}`;
+    const finishedBy = new Map<string, string[]>(); // run id -> workers that logged finishing it
+    const ready = new Set<string>();
+    // Only the two workers of this test: the drill's are stopped first.
+    for (const c of children.splice(0)) killHard(c);
+    const watch = (name: string) => (line: string) => {
+      if (line.includes('ready for jobs')) ready.add(name);
+      const m = /cue run ([0-9a-f-]{36}): (awaiting_review|held_by_budget)/.exec(line);
+      if (m) finishedBy.set(m[1]!, [...(finishedBy.get(m[1]!) ?? []), name]);
+    };
+    startWorker(watch('a'));
+    startWorker(watch('b'));
+    await until('both workers ready', async () => (ready.size === 2 ? true : undefined), 60_000);
+
+    const track = trackDetailSchema.parse(
+      (await producer.send('post', `${base}/tracks`, { title: 'Rush Hour', film: 'Undertow (fictional)' }))
+        .body,
+    );
+    const runIds: string[] = [];
+    for (let k = 0; k < 6; k++) {
+      const up = await producer
+        .raw('post', `${base}/tracks/${track.id}/takes?fileName=burst-${k}.csv`)
+        .set('content-type', 'application/octet-stream')
+        .send(Buffer.from(makeVehicleCsv({ duration_s: 20 + k })));
+      const take = uploadedTakeSchema.parse(up.body);
+      const runs = runSummarySchema.array().parse(
+        (
+          await producer.send('post', `${base}/takes/${take.id}/runs`, {
+            venueIds: [t.seed.venueIds.dome, t.seed.venueIds.arcade],
+          })
+        ).body,
+      );
+      runIds.push(...runs.map((r) => r.id));
+    }
+    expect(runIds).toHaveLength(12);
+    const rows = await until(
+      'every run of the burst finished',
+      async () => {
+        const all = await Promise.all(runIds.map(rowOf));
+        return all.every((r) => r.state !== 'queued' && r.state !== 'cueing') ? all : undefined;
+      },
+      120_000,
+    );
+    for (const r of rows) {
+      expect(['awaiting_review', 'held_by_budget'], r.id).toContain(r.state);
+      expect(r.attempts, r.id).toBe(1);
+      // Exactly one worker finished each run, and the audit log holds one finish per run.
+      expect(finishedBy.get(r.id), r.id).toHaveLength(1);
+    }
+    const finishes = await t.tdb.db
+      .select({ subject: auditEvents.subjectId, action: auditEvents.action })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.studioId, t.seed.studioId)));
+    for (const id of runIds) {
+      expect(
+        finishes.filter(
+          (e) =>
+            e.subject === id && (e.action === 'run.awaiting_review' || e.action === 'run.held_by_budget'),
+        ),
+        id,
+      ).toHaveLength(1);
+    }
+    const workers = new Set([...finishedBy.values()].flat());
+    expect(workers).toEqual(new Set(['a', 'b']));
+  }, 240_000);
 });
