@@ -82,6 +82,32 @@ export interface PostgresHandle {
   port: number;
   adminUrl: (database?: string) => string;
   stop: () => void;
+  /** `bin|dataDir`: what restartPostgres needs (the fault drills restart the test cluster). */
+  control: string;
+}
+
+/**
+ * Restarts the cluster named by a handle's `control` (fast shutdown, then start with the same
+ * options, waiting for both): what a database restart under a running server looks like.
+ */
+export function restartPostgres(control: string): void {
+  const [bin, dataDir] = control.split('|') as [string, string];
+  // The new postmaster logs to the cluster's file, and holds no pipe of ours (a sync spawn would wait
+  // for it to close).
+  const [c, a] = asPostgres(join(bin, 'pg_ctl'), [
+    '-D',
+    dataDir,
+    '-l',
+    join(dirname(dataDir), 'postgres.log'),
+    '-m',
+    'fast',
+    '-w',
+    '-t',
+    '60',
+    'restart',
+  ]);
+  const r = spawnSync(c, a, { cwd: '/', stdio: 'ignore' });
+  if (r.status !== 0) throw new Error(`pg_ctl restart failed (exit ${r.status})`);
 }
 
 export interface PostgresOptions {
@@ -153,6 +179,7 @@ export function startPostgres(opts: PostgresOptions): PostgresHandle {
   let stopped = false;
   return {
     port: opts.port,
+    control: `${bin}|${dataDir}`,
     adminUrl: (database = 'postgres') => `postgres://postgres@127.0.0.1:${opts.port}/${database}`,
     stop: () => {
       if (stopped) return;

@@ -337,7 +337,12 @@ async function main(): Promise<void> {
   if (mode === 'services') {
     // Only the services, for running single test files by hand: `source <printed file>`, then vitest.
     const { pg, env } = await startServices('legwork_browser');
-    const vars = { ...env, LEGWORK_TEST_PG_ADMIN_URL: pg.adminUrl(), NODE_ENV: 'test' };
+    const vars = {
+      ...env,
+      LEGWORK_TEST_PG_ADMIN_URL: pg.adminUrl(),
+      LEGWORK_TEST_PG_CONTROL: pg.control,
+      NODE_ENV: 'test',
+    };
     const file = join(home, 'env.sh');
     writeFileSync(
       file,
@@ -356,6 +361,7 @@ async function main(): Promise<void> {
   const testEnv = {
     ...env,
     LEGWORK_TEST_PG_ADMIN_URL: pg.adminUrl(),
+    LEGWORK_TEST_PG_CONTROL: pg.control,
     LEGWORK_SMOKE_PORT_BASE: String(basePort + 100),
     NODE_ENV: 'test',
   };
