@@ -5,8 +5,10 @@
 // - PostgreSQL is restarted (pg_ctl restart, fast shutdown) under a running server and a running worker
 //   process: both reconnect, the signed-in session survives, no request answers 500 after recovery,
 //   and the worker cues the next run.
-// Mail down is drilled in mail-sender.test.ts (queued with the error, sent once when SMTP is back) and
-// auth.test.ts (a password reset with mail down answers as usual).
+// Mail down is drilled in mail-sender.test.ts (notifications stay queued with the error and go out
+// once when SMTP is back) and run-mails.test.ts (an invitation made while SMTP is down is kept and
+// answers mailSent: false). One-time links (invitations, password resets) are sent directly and never
+// stored, so they are not queued for later: the person asks again.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawn } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
