@@ -1,5 +1,5 @@
 // Rows to API shapes, and the small queries the pipeline routes share.
-import { and, desc, eq, inArray } from 'drizzle-orm';
+import { and, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { cueRuns, profileVersions, profiles, takes, venues } from '../db/schema';
 import type { CueRunRow, TakeRow } from '../db/schema';
@@ -91,6 +91,51 @@ export async function listRuns(db: Db, studioId: string, trackIds?: string[]): P
     .where(inStudio(cueRuns, studioId, trackIds ? inArray(cueRuns.trackId, trackIds) : undefined))
     .orderBy(desc(cueRuns.createdAt), desc(cueRuns.id));
   return rows.map((r) => toRunSummary(r.run, r.takeNumber, r.venueName));
+}
+
+/**
+ * For the tracks table: per track of `trackIds`, the latest run at each venue (newest created_at, then
+ * the greater id, the order of listRuns) with its state and worst use ratio. The ratio is taken in
+ * SQL from the summary's uses, so the summaries never leave the database.
+ */
+export async function latestRunsPerVenue(
+  db: Db,
+  studioId: string,
+  trackIds: string[],
+): Promise<
+  {
+    trackId: string;
+    venueId: string;
+    venueName: string;
+    state: RunSummary['state'];
+    worstRatio: number | null;
+  }[]
+> {
+  if (trackIds.length === 0) return [];
+  const rows = await db.execute<{
+    track_id: string;
+    venue_id: string;
+    venue_name: string;
+    state: RunSummary['state'];
+    worst: number | null;
+  }>(sql`
+    WITH latest AS (
+      SELECT DISTINCT ON (track_id, venue_id) id
+      FROM ${cueRuns}
+      WHERE ${cueRuns.studioId} = ${studioId} AND ${cueRuns.trackId} IN ${trackIds}
+      ORDER BY track_id, venue_id, created_at DESC, id DESC
+    )
+    SELECT r.track_id, r.venue_id, v.name AS venue_name, r.state,
+      (SELECT max((u ->> 'ratio')::float8) FROM jsonb_array_elements(r.summary -> 'uses') u) AS worst
+    FROM latest JOIN ${cueRuns} r ON r.id = latest.id JOIN ${venues} v ON v.id = r.venue_id
+  `);
+  return rows.rows.map((r) => ({
+    trackId: r.track_id,
+    venueId: r.venue_id,
+    venueName: r.venue_name,
+    state: r.state,
+    worstRatio: r.worst === null ? null : Number(r.worst),
+  }));
 }
 
 /** Name and number of a profile version of this studio, or null. */

@@ -14,7 +14,7 @@ import { recordAudit } from '../audit';
 import { createTrackBody, tracksQuery, uploadQuery } from '../../shared/schemas/pipeline';
 import type { TrackDetail, TrackPage, TrackSummary, UploadedTake } from '../../shared/schemas/pipeline';
 import { receiveTake } from '../pipeline/upload';
-import { listRuns, toTake } from '../pipeline/views';
+import { latestRunsPerVenue, listRuns, toTake } from '../pipeline/views';
 
 export function tracksRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
@@ -99,21 +99,11 @@ export function tracksRouter(deps: AppDeps): Router {
           .where(inStudio(takes, studioId, inArray(takes.trackId, ids)))
           .groupBy(takes.trackId)
       : [];
-    const runs = await listRuns(deps.db, studioId, ids);
+    const latest = await latestRunsPerVenue(deps.db, studioId, ids);
     const items: TrackSummary[] = rows.map((t) => {
-      // Latest run per venue (runs come newest first).
-      const seen = new Set<string>();
-      const perVenue: TrackSummary['venues'] = [];
-      for (const run of runs) {
-        if (run.trackId !== t.id || seen.has(run.venueId)) continue;
-        seen.add(run.venueId);
-        perVenue.push({
-          venueId: run.venueId,
-          venueName: run.venueName,
-          state: run.state,
-          worstRatio: run.worstRatio,
-        });
-      }
+      const perVenue: TrackSummary['venues'] = latest
+        .filter((run) => run.trackId === t.id)
+        .map(({ venueId, venueName, state, worstRatio }) => ({ venueId, venueName, state, worstRatio }));
       perVenue.sort((a, b) => a.venueName.localeCompare(b.venueName));
       return {
         id: t.id,

@@ -13,10 +13,13 @@ import { DEMO_PASSWORD } from '../../../shared/demo';
 
 const root = resolve(import.meta.dirname, '..', '..', '..');
 
-function startServices(): Promise<{ child: ChildProcess; env: Record<string, string> }> {
+/** Throwaway services (`npm run services`) on ports from `portBase`; resolves with their variables. */
+export function startBenchServices(
+  portBase = '5880',
+): Promise<{ child: ChildProcess; env: Record<string, string> }> {
   const child = spawn('node', [join(root, 'server/local/bootstrap.mjs'), 'services'], {
     cwd: root,
-    env: { ...process.env, LEGWORK_PORT_BASE: '5880' },
+    env: { ...process.env, LEGWORK_PORT_BASE: portBase },
     stdio: ['ignore', 'pipe', 'inherit'],
   });
   return new Promise((res, rej) => {
@@ -40,7 +43,7 @@ function startServices(): Promise<{ child: ChildProcess; env: Record<string, str
 const section: BenchSection = {
   name: 'pipeline-e2e',
   async run(log) {
-    const services = await startServices();
+    const services = await startBenchServices();
     Object.assign(process.env, services.env);
     // Imported only now: they read the environment the services wrote.
     const { startTestApp } = await import('../../integration/support/app');

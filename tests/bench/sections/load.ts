@@ -1,0 +1,202 @@
+// Load on the server through the real services: a studio with 10,000 tracks and 50,000 runs (written
+// straight into PostgreSQL; every finished run carries the summary of a real run), the server on
+// loopback, and autocannon in a second process driving, one after another:
+// - the tracks table (page 1 of 25, newest first), 50 connections, target p99 < 50 ms;
+// - the run page's data (GET /runs/:run), 50 connections;
+// - sign-in: a fresh visit (session and CSRF token) and POST /api/auth/login with the right password
+//   (argon2id is slow on purpose), 10 connections (tests/bench/sign-in-load.mjs).
+// Prints requests per second and the p50 / p99 latency of each, and every non-2xx count.
+// `BENCH_LOAD_S` sets the seconds per endpoint (default 10).
+import { execFile } from 'node:child_process';
+import { promisify } from 'node:util';
+import { createServer } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { join, resolve } from 'node:path';
+import type { BenchSection } from '../bench';
+import { makeVehicleCsv } from '../../factories/takes';
+import { DEMO_PASSWORD } from '../../../shared/demo';
+import { startBenchServices } from './pipeline-e2e';
+
+const root = resolve(import.meta.dirname, '..', '..', '..');
+const TRACKS = 10_000;
+const RUNS_PER_TRACK = 5;
+
+interface Cannon {
+  requests: { average: number };
+  latency: { p50: number; p99: number; average: number; max: number };
+  non2xx: number;
+  statusCodeStats?: Record<string, { count: number }>;
+  errors: number;
+  timeouts: number;
+}
+
+const run = promisify(execFile);
+
+/** autocannon in its own process (its CLI, JSON out), so it does not share the server's event loop. */
+async function cannon(
+  url: string,
+  opts: {
+    connections: number;
+    seconds: number;
+    headers: Record<string, string>;
+    method?: string;
+    body?: string;
+  },
+): Promise<Cannon> {
+  const args = ['-j', '-c', String(opts.connections), '-d', String(opts.seconds)];
+  for (const [k, v] of Object.entries(opts.headers)) args.push('-H', `${k}=${v}`);
+  if (opts.method) args.push('-m', opts.method);
+  if (opts.body) args.push('-b', opts.body);
+  const r = await run(join(root, 'node_modules/.bin/autocannon'), [...args, url], {
+    encoding: 'utf8',
+    maxBuffer: 64 * 1024 * 1024,
+  });
+  return JSON.parse(r.stdout) as Cannon;
+}
+
+const section: BenchSection = {
+  name: 'load',
+  async run(log) {
+    const seconds = Number(process.env.BENCH_LOAD_S ?? 10);
+    const services = await startBenchServices('5980');
+    Object.assign(process.env, services.env);
+    const { startTestApp, Client } = await import('../../integration/support/app');
+    const { startCueWorker } = await import('../../integration/support/cue-worker');
+    const t = await startTestApp({
+      queue: true,
+      env: {
+        LOGIN_RATE_LIMIT: '1000000',
+        LOGIN_RATE_LIMIT_PER_CLIENT: '1000000',
+        LOGIN_RATE_LIMIT_GLOBAL: '1000000',
+      },
+    });
+    const server = createServer(t.app);
+    await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
+    const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+    try {
+      // One real run, whose summary the seeded finished runs carry.
+      const worker = await startCueWorker(t);
+      const producer = new Client(t.app);
+      await producer.signIn('pia.producer@lanternfish.example');
+      const base = `/api/studios/${t.seed.studioId}`;
+      const track = (
+        await producer.send('post', `${base}/tracks`, { title: 'Seed Ride', film: 'Undertow (fictional)' })
+      ).body as { id: string };
+      const take = (
+        await producer
+          .raw('post', `${base}/tracks/${track.id}/takes?fileName=seed.csv`)
+          .set('content-type', 'application/octet-stream')
+          .send(Buffer.from(makeVehicleCsv({ duration_s: 30 })))
+      ).body as { id: string };
+      const [real] = (
+        await producer.send('post', `${base}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] })
+      ).body as { id: string }[];
+      const done = await worker.waitForRun(real!.id);
+      worker.close();
+
+      const s0 = performance.now();
+      const q = (text: string, values: unknown[] = []) => t.tdb.pool.query(text, values);
+      await q(
+        `INSERT INTO tracks (studio_id, title, film, created_at, updated_at)
+         SELECT $1, 'Load Ride ' || g, 'Undertow (fictional)', now() - g * interval '1 minute', now() - g * interval '1 minute'
+         FROM generate_series(1, $2) g`,
+        [t.seed.studioId, TRACKS],
+      );
+      await q(
+        `INSERT INTO takes (studio_id, track_id, number, kind, layout, file_name, storage_key, size_bytes, sha256, samples, duration_s, uploaded_via)
+         SELECT studio_id, id, 1, 'vehicle', 'vehicle', 'load.csv', 'studios/none/' || id, 1000, repeat('0', 64), 3001, 30, 'browser'
+         FROM tracks WHERE studio_id = $1 AND title LIKE 'Load Ride %'`,
+        [t.seed.studioId],
+      );
+      await q(
+        `INSERT INTO cue_runs (studio_id, track_id, take_id, venue_id, budget_version_id, params, state, progress, attempts, summary, artifact_prefix, created_at, started_at, finished_at)
+         SELECT k.studio_id, k.track_id, k.id, CASE WHEN v % 2 = 0 THEN $2::uuid ELSE $3::uuid END, $4,
+                jsonb_build_object('filmOffset_frames', v), CASE WHEN v = 4 THEN 'queued' ELSE r.state END,
+                CASE WHEN v = 4 THEN 0 ELSE 100 END, 1, CASE WHEN v = 4 THEN NULL ELSE r.summary END,
+                CASE WHEN v = 4 THEN NULL ELSE r.artifact_prefix END, now() - v * interval '1 second', now(), now()
+         FROM takes k CROSS JOIN generate_series(0, $5 - 1) v, (SELECT * FROM cue_runs WHERE id = $6) r
+         WHERE k.studio_id = $1 AND k.file_name = 'load.csv'`,
+        [
+          t.seed.studioId,
+          t.seed.venueIds.dome,
+          t.seed.venueIds.arcade,
+          t.seed.budgetVersionId,
+          RUNS_PER_TRACK,
+          done.id,
+        ],
+      );
+      await q('ANALYZE');
+      const counts = (
+        await q(
+          `SELECT (SELECT count(*) FROM tracks WHERE studio_id = $1) AS tracks, (SELECT count(*) FROM cue_runs WHERE studio_id = $1) AS runs`,
+          [t.seed.studioId],
+        )
+      ).rows[0] as { tracks: string; runs: string };
+      log(
+        `seeded ${counts.tracks} tracks and ${counts.runs} runs in ${((performance.now() - s0) / 1000).toFixed(1)} s`,
+      );
+
+      // A browser-like session for autocannon: cookie and CSRF token from a real sign-in over HTTP.
+      const csrf1 = await fetch(`${url}/api/auth/csrf`);
+      let cookie = csrf1.headers.get('set-cookie')?.split(';')[0] ?? '';
+      const { csrfToken: preToken } = (await csrf1.json()) as { csrfToken: string };
+      const login = await fetch(`${url}/api/auth/login`, {
+        method: 'POST',
+        headers: { cookie, 'x-csrf-token': preToken, 'content-type': 'application/json' },
+        body: JSON.stringify({ email: 'pia.producer@lanternfish.example', password: DEMO_PASSWORD }),
+      });
+      cookie = login.headers.get('set-cookie')?.split(';')[0] ?? cookie;
+
+      const show = (what: string, c: Cannon, target?: string) =>
+        log(
+          `${what}: ${c.requests.average.toFixed(0)} req/s, p50 ${c.latency.p50} ms, p99 ${c.latency.p99} ms, max ${c.latency.max} ms` +
+            `${c.non2xx || c.errors || c.timeouts ? `; ${c.non2xx} non-2xx, ${c.errors} errors, ${c.timeouts} timeouts` : ''}` +
+            `${
+              c.non2xx
+                ? ` (status: ${Object.entries(c.statusCodeStats ?? {})
+                    .map(([k, v]) => `${k} x${v.count}`)
+                    .join(', ')})`
+                : ''
+            }` +
+            `${target ? ` (target ${target})` : ''}`,
+        );
+      const firstPage = await fetch(`${url}${base}/tracks?page=1&pageSize=25`, { headers: { cookie } });
+      if (firstPage.status !== 200) throw new Error(`tracks table answered ${firstPage.status}`);
+      show(
+        'tracks table, page 1 of 25 rows, 50 connections',
+        await cannon(`${url}${base}/tracks?page=1&pageSize=25`, {
+          connections: 50,
+          seconds,
+          headers: { cookie },
+        }),
+        'p99 < 50 ms',
+      );
+      show(
+        'run page data (GET /runs/:run), 50 connections',
+        await cannon(`${url}${base}/runs/${done.id}`, { connections: 50, seconds, headers: { cookie } }),
+      );
+      const signIn = await run(
+        'node',
+        [
+          join(root, 'tests/bench/sign-in-load.mjs'),
+          url,
+          'pia.producer@lanternfish.example',
+          DEMO_PASSWORD,
+          '10',
+          String(seconds),
+        ],
+        { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 },
+      );
+      show(
+        'a visit and a sign-in with the right password (argon2id), 10 connections; per request',
+        JSON.parse(signIn.stdout) as Cannon,
+      );
+    } finally {
+      await new Promise((r) => server.close(r));
+      await t.close();
+      services.child.kill('SIGINT');
+    }
+  },
+};
+
+export default [section];
