@@ -6,8 +6,11 @@
 // - sign-in: a fresh visit (session and CSRF token) and POST /api/auth/login with the right password
 //   (argon2id is slow on purpose), 10 connections (tests/bench/sign-in-load.mjs).
 // Prints requests per second and the p50 / p99 latency of each, and every non-2xx count.
-// `BENCH_LOAD_S` sets the seconds per endpoint (default 10).
-import { execFile } from 'node:child_process';
+// Then a burst: ten 600,000-sample (10 min at 1 kHz) takes queued at once, cued by one worker process;
+// prints the time until all are finished and the worker's peak resident memory (target < 1 GB).
+// `BENCH_LOAD_S` sets the seconds per endpoint (default 10); `BENCH_BURST=0` skips the burst.
+import { execFile, spawn } from 'node:child_process';
+import { readFileSync } from 'node:fs';
 import { promisify } from 'node:util';
 import { createServer } from 'node:http';
 import type { AddressInfo } from 'node:net';
@@ -15,6 +18,7 @@ import { join, resolve } from 'node:path';
 import type { BenchSection } from '../bench';
 import { makeVehicleCsv } from '../../factories/takes';
 import { DEMO_PASSWORD } from '../../../shared/demo';
+import { QUEUES } from '../../../server/queue';
 import { startBenchServices } from './pipeline-e2e';
 
 const root = resolve(import.meta.dirname, '..', '..', '..');
@@ -92,6 +96,8 @@ const section: BenchSection = {
         await producer.send('post', `${base}/takes/${take.id}/runs`, { venueIds: [t.seed.venueIds.dome] })
       ).body as { id: string }[];
       const done = await worker.waitForRun(real!.id);
+      // From here on only the worker process of the burst takes jobs.
+      await t.boss!.offWork(QUEUES.cueRun);
       worker.close();
 
       const s0 = performance.now();
@@ -191,6 +197,77 @@ const section: BenchSection = {
         'a visit and a sign-in with the right password (argon2id), 10 connections; per request',
         JSON.parse(signIn.stdout) as Cannon,
       );
+
+      if (process.env.BENCH_BURST !== '0') {
+        // One 10-minute 1 kHz take uploaded over HTTP, nine more rows for the same stored file.
+        const csv = Buffer.from(makeVehicleCsv({ duration_s: 600, rate_hz: 1000 }));
+        const big = (
+          await producer
+            .raw('post', `${base}/tracks/${track.id}/takes?fileName=long.csv`)
+            .set('content-type', 'application/octet-stream')
+            .send(csv)
+        ).body as { id: string; samples: number };
+        await q(
+          `INSERT INTO takes (studio_id, track_id, number, kind, layout, file_name, storage_key, size_bytes, sha256, samples, duration_s, uploaded_via)
+           SELECT studio_id, track_id, number + g, kind, layout, file_name, storage_key, size_bytes, sha256, samples, duration_s, uploaded_via
+           FROM takes, generate_series(1, 9) g WHERE id = $1`,
+          [big.id],
+        );
+        const ids = (
+          await q(`SELECT id FROM takes WHERE track_id = $1 AND file_name = 'long.csv' ORDER BY number`, [
+            track.id,
+          ])
+        ).rows as { id: string }[];
+        const workerProc = spawn('node', ['--import', 'tsx', 'worker/index.ts'], {
+          cwd: root,
+          env: { ...process.env, DATABASE_URL: t.tdb.url, WORKER_POLL_S: '0.5' },
+          stdio: ['ignore', 'ignore', 'inherit'],
+        });
+        let peak_kb = 0;
+        const sampler = setInterval(() => {
+          try {
+            const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${workerProc.pid}/status`, 'utf8'));
+            if (m) peak_kb = Math.max(peak_kb, Number(m[1]));
+          } catch {
+            // not started or gone
+          }
+        }, 200);
+        try {
+          const b0 = performance.now();
+          const runIds: string[] = [];
+          for (const { id } of ids) {
+            const made = (
+              await producer.send('post', `${base}/takes/${id}/runs`, { venueIds: [t.seed.venueIds.dome] })
+            ).body as { id: string }[];
+            runIds.push(made[0]!.id);
+          }
+          for (;;) {
+            const left = (
+              await q(
+                `SELECT count(*)::int AS n FROM cue_runs WHERE id = ANY($1) AND state IN ('queued', 'cueing')`,
+                [runIds],
+              )
+            ).rows[0] as { n: number };
+            if (left.n === 0) break;
+            if (performance.now() - b0 > 900_000)
+              throw new Error('the burst did not finish within 15 minutes');
+            await new Promise((r) => setTimeout(r, 500));
+          }
+          const states = (
+            await q(`SELECT state, count(*)::int AS n FROM cue_runs WHERE id = ANY($1) GROUP BY state`, [
+              runIds,
+            ])
+          ).rows as { state: string; n: number }[];
+          log(
+            `burst of ${runIds.length} takes of ${big.samples.toLocaleString('en')} samples queued at once, one worker: all finished in ` +
+              `${((performance.now() - b0) / 1000).toFixed(1)} s (${states.map((x) => `${x.n} ${x.state}`).join(', ')}); ` +
+              `worker peak RSS ${(peak_kb / 1024).toFixed(0)} MB (target < 1024 MB)`,
+          );
+        } finally {
+          clearInterval(sampler);
+          workerProc.kill('SIGTERM');
+        }
+      }
     } finally {
       await new Promise((r) => server.close(r));
       await t.close();
