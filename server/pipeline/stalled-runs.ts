@@ -23,6 +23,7 @@ import { HttpError } from '../lib/http-error';
 import { QUEUES } from '../queue';
 import { cueRunJobSchema } from '../../shared/schemas/run-outputs';
 import { cueRunJobOptions } from './queue-runs';
+import { failRun } from './fail-run';
 
 export interface StallPolicy {
   /** A run cueing with no heartbeat for longer than this has lost its worker (s). */
@@ -81,19 +82,7 @@ export async function sweepStalledRuns(
       );
       const what = `The worker cueing this run stopped answering (no heartbeat for ${silent_s} s, at ${run.progress} %)`;
       if (run.attempts > policy.retry.limit) {
-        const reason = `Gave up after ${run.attempts} attempt(s): ${what}.`;
-        await tx
-          .update(cueRuns)
-          .set({ state: 'failed', failureReason: reason, finishedAt: now, heartbeatAt: null })
-          .where(eq(cueRuns.id, run.id));
-        await recordAudit(tx, {
-          studioId: run.studioId,
-          actor: null,
-          action: 'run.failed',
-          subjectType: 'cue_run',
-          subjectId: run.id,
-          detail: { reason },
-        });
+        await failRun(tx, run, `Gave up after ${run.attempts} attempt(s): ${what}.`, now);
         failed.push(run.id);
         return;
       }

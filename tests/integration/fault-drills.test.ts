@@ -10,9 +10,7 @@
 // answers mailSent: false). One-time links (invitations, password resets) are sent directly and never
 // stored, so they are not queued for later: the person asks again.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { spawn } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
-import { join, resolve } from 'node:path';
 import type { S3Client } from '@aws-sdk/client-s3';
 import { ListObjectsV2Command, PutObjectCommand } from '@aws-sdk/client-s3';
 import { eq } from 'drizzle-orm';
@@ -27,6 +25,7 @@ import { createHandler } from '../../worker/jobs/cue-run';
 import type { JobMeta } from '../../worker/jobs/cue-run';
 import { restartPostgres } from '../../server/local/postgres';
 import { makeVehicleCsv } from '../factories/takes';
+import { killHard, startWorkerProcess, until } from './support/worker-process';
 import {
   runDetailSchema,
   runSummarySchema,
@@ -34,7 +33,6 @@ import {
   uploadedTakeSchema,
 } from '../../shared/schemas/pipeline';
 
-const root = resolve(import.meta.dirname, '..', '..');
 let t: TestApp;
 let producer: Client;
 const children: ChildProcess[] = [];
@@ -49,25 +47,9 @@ beforeAll(async () => {
   await producer.signIn('pia.producer@lanternfish.example');
 }, 60_000);
 afterAll(async () => {
-  for (const c of children) {
-    try {
-      process.kill(-c.pid!, 'SIGKILL');
-    } catch {
-      // gone already
-    }
-  }
+  for (const c of children) killHard(c);
   await t.close();
 });
-
-async function until<T>(what: string, probe: () => Promise<T | undefined>, timeout_ms: number): Promise<T> {
-  const end = Date.now() + timeout_ms;
-  for (;;) {
-    const v = await probe().catch(() => undefined);
-    if (v !== undefined) return v;
-    if (Date.now() > end) throw new Error(`${what}: not within ${timeout_ms} ms`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
 
 async function takeWithRun(title: string): Promise<{ runId: string }> {
   const track = trackDetailSchema.parse(
@@ -195,12 +177,7 @@ describe('fault drill: PostgreSQL restarted under the server and a worker', () =
     const control = process.env.LEGWORK_TEST_PG_CONTROL;
     if (!control)
       throw new Error('LEGWORK_TEST_PG_CONTROL is not set: run through `npm test` or `npm run services`.');
-    const worker = spawn(join(root, 'node_modules/.bin/tsx'), ['worker/index.ts'], {
-      cwd: root,
-      env: { ...process.env, DATABASE_URL: t.tdb.url, WORKER_POLL_S: '0.5' },
-      stdio: ['ignore', 'ignore', 'inherit'],
-      detached: true,
-    });
+    const worker = startWorkerProcess(t.tdb.url);
     children.push(worker);
     const before = await takeWithRun('Before The Restart');
     await until(

@@ -4,14 +4,13 @@
 //   second worker must take it over and finish it exactly once, within a minute of starting;
 // - scale-out: two workers share a burst of runs, none done twice and none lost.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { spawn } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
-import { join, resolve } from 'node:path';
 import { and, eq } from 'drizzle-orm';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
 import { auditEvents, cueRuns } from '../../server/db/schema';
 import { makeVehicleCsv } from '../factories/takes';
+import { killHard, startWorkerProcess, until } from './support/worker-process';
 import {
   runDetailSchema,
   runSummarySchema,
@@ -19,7 +18,6 @@ import {
   uploadedTakeSchema,
 } from '../../shared/schemas/pipeline';
 
-const root = resolve(import.meta.dirname, '..', '..');
 let t: TestApp;
 let producer: Client;
 const children: ChildProcess[] = [];
@@ -34,50 +32,11 @@ afterAll(async () => {
   await t.close();
 });
 
-function startWorker(onLine?: (line: string) => void): ChildProcess {
-  const child = spawn(join(root, 'node_modules/.bin/tsx'), ['worker/index.ts'], {
-    cwd: root,
-    env: {
-      ...process.env,
-      DATABASE_URL: t.tdb.url,
-      WORKER_POLL_S: '0.5',
-      RUN_HEARTBEAT_S: '0.5',
-      RUN_STALL_S: '3',
-    },
-    stdio: ['ignore', onLine ? 'pipe' : 'ignore', 'inherit'],
-    // Its own process group: tsx runs the worker in a child process, and the drill kills both.
-    detached: true,
-  });
+const startWorker = (onLine?: (line: string) => void): ChildProcess => {
+  const child = startWorkerProcess(t.tdb.url, { RUN_HEARTBEAT_S: '0.5', RUN_STALL_S: '3' }, onLine);
   children.push(child);
-  if (onLine && child.stdout) {
-    let rest = '';
-    child.stdout.setEncoding('utf8').on('data', (chunk: string) => {
-      const lines = (rest + chunk).split('\n');
-      rest = lines.pop() ?? '';
-      for (const l of lines) onLine(l);
-    });
-  }
   return child;
-}
-
-/** SIGKILL to the worker's whole process group (tsx and the node process it runs). */
-function killHard(child: ChildProcess): void {
-  try {
-    process.kill(-child.pid!, 'SIGKILL');
-  } catch {
-    // already gone
-  }
-}
-
-async function until<T>(what: string, probe: () => Promise<T | undefined>, timeout_ms: number): Promise<T> {
-  const end = Date.now() + timeout_ms;
-  for (;;) {
-    const v = await probe();
-    if (v !== undefined) return v;
-    if (Date.now() > end) throw new Error(`${what}: not within ${timeout_ms} ms`);
-    await new Promise((r) => setTimeout(r, 50));
-  }
-}
+};
 
 const rowOf = async (id: string) => (await t.tdb.db.select().from(cueRuns).where(eq(cueRuns.id, id)))[0]!;
 

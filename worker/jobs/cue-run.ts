@@ -42,6 +42,7 @@ import { queueRunFinishedMails } from '../../server/notifications/run-mails';
 import { takeFilmSync } from '../../server/pipeline/views';
 import { runFilmSync, runParamsSchema } from '../../shared/schemas/run-params';
 import { errorText } from '../../server/lib/error-text';
+import { failRun } from '../../server/pipeline/fail-run';
 
 export { cueRunJobSchema };
 
@@ -287,23 +288,10 @@ async function finish(
 
 /** Ends a run as failed with its reason (only a run still cueing), with its audit event. */
 async function fail(deps: CueRunDeps, run: CueRunRow, jobId: string, reason: string): Promise<void> {
-  await deps.db.transaction(async (tx) => {
-    const [done] = await tx
-      .update(cueRuns)
-      .set({ state: 'failed', failureReason: reason, finishedAt: deps.now(), heartbeatAt: null })
-      .where(and(ownedBy(run.id, jobId), eq(cueRuns.state, 'cueing')))
-      .returning({ id: cueRuns.id });
-    if (done) {
-      await recordAudit(tx, {
-        studioId: run.studioId,
-        actor: null,
-        action: 'run.failed',
-        subjectType: 'cue_run',
-        subjectId: run.id,
-        detail: { reason },
-      });
-    }
-  });
+  // The update and its audit event in one transaction.
+  await deps.db.transaction((tx) =>
+    failRun(tx, run, reason, deps.now(), and(ownedBy(run.id, jobId), eq(cueRuns.state, 'cueing'))),
+  );
 }
 
 /** Input errors fail the run at once; others put it back in the queue, or fail it on the last attempt. */
