@@ -99,7 +99,7 @@ export function resampleHermite(track: Track, rate_hz: number): Track {
   const slope = new Float64Array(n);
   const columns = track.columns.map((col) => {
     const out = new Float64Array(m);
-    hermiteColumnInto(t, col, slope, time_s, out);
+    hermiteColumnInto(t, col, slope, { t0, rate_hz, tEnd, length: m }, out);
     return out;
   });
   return { kind: track.kind, layout: track.layout, length: m, time_s, names: track.names, columns };
@@ -169,8 +169,9 @@ export function resampleAntiAlias(
   const m = Math.max(1, Math.ceil(1 / (spacing * rate_hz) - 1e-9));
   const fineRate = m * rate_hz;
   const nf = uniformGridLength(t0, tEnd, fineRate);
-  const fineT = new Float64Array(nf);
-  for (let j = 0; j < nf; j++) fineT[j] = Math.min(t0 + j / fineRate, tEnd);
+  // The fine grid's instants are computed where they are used, not held (on a two-hour 1 kHz take
+  // that array alone would be 58 MB).
+  const fineT: FineGrid = { t0, rate_hz: fineRate, tEnd, length: nf };
   const time_s = new Float64Array(count);
   for (let k = 0; k < count; k++) time_s[k] = Math.min(t0 + k / rate_hz, tEnd);
   // A track coarser than the controller holds nothing above its own Nyquist frequency; what the
@@ -202,11 +203,19 @@ export function resampleAntiAlias(
   };
 }
 
-function linearColumnInto(t: Float64Array, col: Float64Array, at: Float64Array, out: Float64Array): void {
+/** A uniform grid: instant k is min(t0 + k / rate_hz, tEnd), for k < length. */
+interface FineGrid {
+  t0: number;
+  rate_hz: number;
+  tEnd: number;
+  length: number;
+}
+
+function linearColumnInto(t: Float64Array, col: Float64Array, at: FineGrid, out: Float64Array): void {
   const n = t.length;
   let j = 0;
   for (let k = 0; k < at.length; k++) {
-    const tk = at[k] as number;
+    const tk = Math.min(at.t0 + k / at.rate_hz, at.tEnd);
     while (j < n - 2 && (t[j + 1] as number) <= tk) j++;
     const ta = t[j] as number;
     const w = (tk - ta) / ((t[j + 1] as number) - ta);
@@ -218,14 +227,14 @@ function hermiteColumnInto(
   t: Float64Array,
   col: Float64Array,
   slope: Float64Array,
-  at: Float64Array,
+  at: FineGrid,
   out: Float64Array,
 ): void {
   const n = t.length;
   derivativeInto(t, col, slope);
   let j = 0;
   for (let k = 0; k < at.length; k++) {
-    const tk = at[k] as number;
+    const tk = Math.min(at.t0 + k / at.rate_hz, at.tEnd);
     while (j < n - 2 && (t[j + 1] as number) <= tk) j++;
     const ta = t[j] as number;
     const h = (t[j + 1] as number) - ta;

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import type { FormEvent } from 'react';
+import type { ChangeEvent, FormEvent } from 'react';
 import type { ControllerOutput, RampProfile } from '../../../../shared/schemas/controller-output';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
 import { Button } from '../../../components/ui/button';
@@ -46,6 +46,11 @@ export function ControllerForm({ studioId, venue }: { studioId: string; venue: V
   const errors: Record<string, string> =
     update.error instanceof ApiRequestError ? issuesByField(update.error.issues, 'path') : {};
   const edited = () => setSaved(false);
+  /** A text field's change handler: keeps the text and marks the form as edited. */
+  const typed = (set: (v: string) => void) => (e: ChangeEvent<HTMLInputElement>) => {
+    set(e.target.value);
+    edited();
+  };
 
   const submit = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();
@@ -77,10 +82,7 @@ export function ControllerForm({ studioId, venue }: { studioId: string; venue: V
           label="Ramp length (s)"
           inputMode="decimal"
           value={duration}
-          onChange={(e) => {
-            setDuration(e.target.value);
-            edited();
-          }}
+          onChange={typed(setDuration)}
           error={errors['ramp.duration_s']}
           hint="From neutral at rest into the first pose, and from the last pose back; 0 for none (default 3 s)."
         />
@@ -123,10 +125,7 @@ export function ControllerForm({ studioId, venue }: { studioId: string; venue: V
             label="Counts per mm"
             inputMode="decimal"
             value={countsPerMm}
-            onChange={(e) => {
-              setCountsPerMm(e.target.value);
-              edited();
-            }}
+            onChange={typed(setCountsPerMm)}
             error={errors['encoder.countsPerMm']}
             hint="From the actuator's data sheet."
           />
@@ -134,10 +133,7 @@ export function ControllerForm({ studioId, venue }: { studioId: string; venue: V
             label="Zero offset (counts)"
             inputMode="numeric"
             value={zeroOffset}
-            onChange={(e) => {
-              setZeroOffset(e.target.value);
-              edited();
-            }}
+            onChange={typed(setZeroOffset)}
             error={errors['encoder.zeroOffset_counts']}
             hint="Counts at the fully retracted length: counts = round(mm × counts per mm + offset)."
           />
