@@ -23,6 +23,7 @@ import { HttpError } from '../lib/http-error';
 import { QUEUES } from '../queue';
 import { cueRunJobSchema } from '../../shared/schemas/run-outputs';
 import { cueRunJobOptions } from './queue-runs';
+import { silentSeconds } from './views';
 import { failRun } from './fail-run';
 
 export interface StallPolicy {
@@ -41,13 +42,8 @@ export function isStalled(
   now: Date,
   stall_s: number,
 ): boolean {
-  if (run.state !== 'cueing') return false;
-  const last = run.heartbeatAt ?? run.startedAt ?? run.createdAt;
-  return now.getTime() - last.getTime() > stall_s * 1000;
+  return run.state === 'cueing' && silentSeconds(run, now) > stall_s;
 }
-
-/** The job that may work on a run now: the one recorded on it, or the first, whose id is the run's. */
-export const currentJobId = (run: Pick<CueRunRow, 'id' | 'jobId'>): string => run.jobId ?? run.id;
 
 /**
  * Puts every stalled run back in the queue under a new job (or fails it when it has stalled on every
@@ -77,9 +73,7 @@ export async function sweepStalledRuns(
         .where(and(eq(cueRuns.id, id), eq(cueRuns.state, 'cueing'), lt(lastSign, cutoff)))
         .for('update', { skipLocked: true });
       if (!run) return; // finished meanwhile, or another sweeper has it
-      const silent_s = Math.round(
-        (now.getTime() - (run.heartbeatAt ?? run.startedAt ?? run.createdAt).getTime()) / 1000,
-      );
+      const silent_s = silentSeconds(run, now);
       const what = `The worker cueing this run stopped answering (no heartbeat for ${silent_s} s, at ${run.progress} %)`;
       if (run.attempts > policy.retry.limit) {
         await failRun(tx, run, `Gave up after ${run.attempts} attempt(s): ${what}.`, now);

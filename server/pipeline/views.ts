@@ -52,12 +52,19 @@ export function setRunStallSeconds(s: number): void {
   stallAfter_s = s;
 }
 
+/** Whole seconds since a run's worker last vouched for it: its heartbeat, else its start, else its queuing. */
+export function silentSeconds(
+  r: Pick<CueRunRow, 'heartbeatAt' | 'startedAt' | 'createdAt'>,
+  now: Date = new Date(),
+): number {
+  const last = r.heartbeatAt ?? r.startedAt ?? r.createdAt;
+  return Math.max(0, Math.round((now.getTime() - last.getTime()) / 1000));
+}
+
 export function toRunSummary(r: CueRunRow, takeNumber: number, venueName: string): RunSummary {
   const w = worstUse(r.summary);
   const findings = r.summary?.findings;
-  const last = r.heartbeatAt ?? r.startedAt ?? r.createdAt;
-  const silent_s =
-    r.state === 'cueing' ? Math.max(0, Math.round((Date.now() - last.getTime()) / 1000)) : null;
+  const silent_s = r.state === 'cueing' ? silentSeconds(r) : null;
   return {
     id: r.id,
     trackId: r.trackId,
