@@ -1,7 +1,8 @@
 // The Express application. createApp never listens; server/index.ts does.
 import express from 'express';
 import helmet from 'helmet';
-import type { ErrorRequestHandler } from 'express';
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { acrossStudios } from './db/wall';
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { ZodError } from 'zod';
@@ -18,6 +19,8 @@ import { studioRouter } from './routes/studio';
 import { devMailboxRouter } from './routes/dev-mailbox';
 import { meRouter } from './routes/me';
 import { setRunStallSeconds } from './pipeline/views';
+
+const acrossStudiosHere: RequestHandler = (_req, _res, next) => acrossStudios(next);
 
 export interface LegworkApp {
   app: express.Express;
@@ -72,11 +75,15 @@ export function createApp(deps: AppDeps): LegworkApp {
   api.use(pass.session());
   api.use(chooseCredentials);
   api.use(requireCsrf);
-  api.use('/auth', authRouter(deps, pass, throttle));
-  api.use('/invitations', invitationsRouter(deps, throttle));
-  api.use('/me', meRouter(deps));
+  // Signing in, accepting an invitation and a user's own pages look across studios (the user's
+  // memberships, an invitation found by its token): deliberately, and only on these routes. Every
+  // route under /studios/:studioId sees that one studio's rows (studioRouter); anything else sees
+  // none (server/db/wall.ts).
+  api.use('/auth', acrossStudiosHere, authRouter(deps, pass, throttle));
+  api.use('/invitations', acrossStudiosHere, invitationsRouter(deps, throttle));
+  api.use('/me', acrossStudiosHere, meRouter(deps));
   api.use('/studios/:studioId', studioRouter(deps));
-  api.use('/dev/mailbox', devMailboxRouter(deps));
+  api.use('/dev/mailbox', acrossStudiosHere, devMailboxRouter(deps));
   api.use((req, _res, next) =>
     next(new HttpError(404, `No API route ${req.method} ${req.baseUrl}${req.path}.`)),
   );

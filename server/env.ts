@@ -18,6 +18,11 @@ export const envSchema = z.object({
   PORT: z.coerce.number().int().min(1).max(65535).default(5480),
   PUBLIC_URL: z.string().url().optional(),
   DATABASE_URL: z.string().url().default('postgres://postgres@127.0.0.1:5481/legwork'),
+  /** The role the app's connections act as, under the row policies; '' keeps the login role. */
+  DATABASE_APP_ROLE: z
+    .string()
+    .regex(/^$|^[a-z_][a-z0-9_]*$/, 'a PostgreSQL role name (lower case, digits, _) or empty')
+    .default('legwork_app'),
   SESSION_SECRET: z.string().min(16).default('legwork-local-session-secret-change-me'),
   COOKIE_SECURE: bool.default(false),
   S3_ENDPOINT: z.string().url().optional().default('http://127.0.0.1:5482'),

@@ -9,7 +9,7 @@ import { createApp } from './app';
 
 const env = parseEnv();
 const log = (m: string) => console.log(`[server] ${m}`);
-const { db, pool } = openDb(env.DATABASE_URL, { log });
+const { db, pool } = openDb(env.DATABASE_URL, { log, role: env.DATABASE_APP_ROLE });
 const storage = createStorage(env);
 const mailer = createMailer(env);
 const boss = await startQueue(env.DATABASE_URL);

@@ -13,7 +13,9 @@ import { startStallSweeper } from '../server/pipeline/stalled-runs';
 
 const env = parseEnv();
 const log = (m: string) => console.log(`[worker] ${m}`);
-const { db, pool } = openDb(env.DATABASE_URL, 4);
+// The worker acts for every studio (it takes whatever run or release comes next), so its queries
+// are not confined to one studio by the row policies; the server's are.
+const { db, pool } = openDb(env.DATABASE_URL, { max: 4, role: env.DATABASE_APP_ROLE, outsideScope: 'all' });
 const storage = createStorage(env);
 const boss = await startQueue(env.DATABASE_URL);
 const handle = createHandler({ db, storage, log, now: () => new Date(), heartbeat_s: env.RUN_HEARTBEAT_S });

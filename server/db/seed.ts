@@ -322,7 +322,8 @@ export async function seedDemoIfEmpty(
   url: string,
   services?: { storage: Storage; boss: PgBoss },
 ): Promise<boolean> {
-  const { db, pool } = openDb(url, 2);
+  // Seeding writes the rows of a studio that does not exist yet: across studios, deliberately.
+  const { db, pool } = openDb(url, { max: 2, outsideScope: 'all' });
   try {
     const [row] = await db.select({ n: count() }).from(studios);
     if ((row?.n ?? 0) > 0) return false;

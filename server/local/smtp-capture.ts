@@ -43,5 +43,12 @@ export async function startSmtpCapture(opts: { dir: string; port: number }): Pro
     server.once('error', reject);
     server.listen(opts.port, '127.0.0.1', () => resolve());
   });
+  server.removeAllListeners('error');
+  // A client that drops its connection mid-session (a mailer timing out on a busy machine, a test
+  // stopping SMTP use) is that connection's end, not the capture's: without a listener the error
+  // event would end the whole services process.
+  server.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code !== 'ECONNRESET' && e.code !== 'EPIPE') console.error(`smtp capture: ${e.message}`);
+  });
   return { stop: () => new Promise<void>((resolve) => server.close(() => resolve())) };
 }

@@ -1,6 +1,8 @@
 // Everything under /api/studios/:studioId. Membership is checked once here: a studio the user does
 // not belong to answers 404, exactly like one that does not exist.
 import { Router } from 'express';
+import type { NextFunction, Request } from 'express';
+import { acrossStudios, inStudioScope } from '../db/wall';
 import { and, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppDeps } from '../deps';
@@ -31,20 +33,29 @@ export function studioRouter(deps: AppDeps): Router {
     const studioId = String((req.params as Record<string, string>).studioId ?? '');
     const bearer = bearerToken(req.headers.authorization);
     if (bearer !== null && bearer !== 'malformed') {
-      // A pipeline's API token: it belongs to one studio; any other studio is not found.
-      const [tok] = await deps.db
-        .select({ id: apiTokens.id, studioId: apiTokens.studioId })
-        .from(apiTokens)
-        .where(and(eq(apiTokens.tokenHash, hashToken(bearer)), isNull(apiTokens.revokedAt)))
-        .limit(1);
+      // A pipeline's API token: it belongs to one studio; any other studio is not found. The token
+      // is found by its hash alone, before its studio is known: across studios, deliberately.
+      const [tok] = await acrossStudios(() =>
+        deps.db
+          .select({ id: apiTokens.id, studioId: apiTokens.studioId })
+          .from(apiTokens)
+          .where(and(eq(apiTokens.tokenHash, hashToken(bearer)), isNull(apiTokens.revokedAt)))
+          .limit(1),
+      );
       if (!tok) throw new HttpError(401, 'This API token is not valid (unknown or revoked).');
       if (tok.studioId !== studioId) throw notFound('No such studio.');
-      await deps.db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.id, tok.id));
-      req.member = { studioId, userId: null, tokenId: tok.id, roles: [TOKEN_ROLE], venueIds: [] };
-      return next();
+      return inStudioScope(studioId, async () => {
+        await deps.db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.id, tok.id));
+        req.member = { studioId, userId: null, tokenId: tok.id, roles: [TOKEN_ROLE], venueIds: [] };
+        next();
+      });
     }
     if (!req.user) throw new HttpError(401, 'Sign in first.');
     if (!uuid.safeParse(studioId).success) throw notFound('No such studio.');
+    // From here on, every query of the request sees this studio's rows only (server/db/wall.ts).
+    return inStudioScope(studioId, () => member(req, studioId, next));
+  });
+  const member = async (req: Request, studioId: string, next: NextFunction) => {
     const [m] = await deps.db
       .select({ roles: memberships.roles, venueIds: memberships.venueIds })
       .from(memberships)
@@ -54,7 +65,7 @@ export function studioRouter(deps: AppDeps): Router {
     if (!m) throw notFound('No such studio.');
     req.member = { studioId, userId: req.user!.id, tokenId: null, roles: m.roles, venueIds: m.venueIds };
     next();
-  });
+  };
   // One router per resource, each mounted once.
   r.use('/overview', overviewRouter(deps));
   r.use('/venues', venuesRouter(deps));

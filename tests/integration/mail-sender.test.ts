@@ -185,7 +185,8 @@ describe('several workers', () => {
       check: () => working.check(),
       close: () => undefined,
     });
-    const other = openDb(tdb.url, 2);
+    // A second worker's handle: workers act across studios.
+    const other = openDb(tdb.url, { max: 2, outsideScope: 'all' });
     try {
       const a = startMailSender(deps({ mailer: counting('a'), batchSize: 4 }), 20);
       const b = startMailSender(deps({ db: other.db, mailer: counting('b'), batchSize: 4 }), 20);

@@ -6,6 +6,7 @@ import { createMailer } from '../../../server/mail';
 import { startQueue } from '../../../server/queue';
 import { seedDemo } from '../../../server/db/seed';
 import { DEMO_PASSWORD } from '../../../shared/demo';
+import { openDb } from '../../../server/db/client';
 import { createTestDb, testEnv } from './services';
 import type { TestDb } from './services';
 import type PgBoss from 'pg-boss';
@@ -28,10 +29,11 @@ export async function startTestApp(
   const storage = createStorage(env);
   const mailer = createMailer(env);
   const boss = opts.queue ? await startQueue(tdb.url) : null;
+  const own = openDb(tdb.url, { max: 5, log: () => undefined });
   const { app, close } = createApp({
     env,
-    db: tdb.db,
-    pool: tdb.pool,
+    db: own.db,
+    pool: own.pool,
     storage,
     mailer,
     boss,
@@ -44,6 +46,7 @@ export async function startTestApp(
     boss,
     close: async () => {
       close();
+      await own.pool.end();
       if (boss) await boss.stop({ graceful: false, wait: true });
       mailer.close();
       storage.close();

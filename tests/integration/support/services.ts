@@ -36,7 +36,9 @@ export async function createTestDb(): Promise<TestDb> {
   await admin.end();
   const url = adminUrl().replace(/\/[^/]*$/, `/${name}`);
   await migrateDb(url);
-  const { db, pool } = openDb(url, 5);
+  // The tests' own handle looks across studios (to set up and inspect rows); the app under test
+  // gets a handle of its own with the server's default (startTestApp).
+  const { db, pool } = openDb(url, { max: 5, outsideScope: 'all' });
   return {
     url,
     db,
