@@ -50,13 +50,17 @@ BEGIN
 END
 $$;
 --> statement-breakpoint
-CREATE OR REPLACE FUNCTION legwork_row_visible(row_studio uuid) RETURNS boolean
+-- The policies read the settings through scalar subqueries, which PostgreSQL evaluates once per
+-- query (an InitPlan) rather than once per row: the per-row test is then one comparison.
+CREATE OR REPLACE FUNCTION legwork_scope_studio() RETURNS uuid
   LANGUAGE sql STABLE AS $$
-  SELECT CASE current_setting('legwork.scope', true)
-    WHEN 'all' THEN true
-    WHEN 'studio' THEN row_studio = nullif(current_setting('legwork.studio_id', true), '')::uuid
-    ELSE false
-  END
+  SELECT CASE WHEN current_setting('legwork.scope', true) = 'studio'
+    THEN nullif(current_setting('legwork.studio_id', true), '')::uuid END
+$$;
+--> statement-breakpoint
+CREATE OR REPLACE FUNCTION legwork_scope_all() RETURNS boolean
+  LANGUAGE sql STABLE AS $$
+  SELECT coalesce(current_setting('legwork.scope', true) = 'all', false)
 $$;
 --> statement-breakpoint
 DO $$
@@ -70,7 +74,9 @@ BEGIN
   ] LOOP
     EXECUTE format('ALTER TABLE %I ENABLE ROW LEVEL SECURITY', t);
     EXECUTE format(
-      'CREATE POLICY studio_wall ON %I USING (legwork_row_visible(studio_id)) WITH CHECK (legwork_row_visible(studio_id))',
+      'CREATE POLICY studio_wall ON %I'
+      ' USING (studio_id = (SELECT legwork_scope_studio()) OR (SELECT legwork_scope_all()))'
+      ' WITH CHECK (studio_id = (SELECT legwork_scope_studio()) OR (SELECT legwork_scope_all()))',
       t
     );
   END LOOP;
@@ -81,6 +87,6 @@ $$;
 -- studio (studio_id null): readable in the scope of a studio the actor belongs to, never writable.
 CREATE POLICY members_own_events ON audit_events FOR SELECT USING (
   studio_id IS NULL
-  AND current_setting('legwork.scope', true) = 'studio'
+  AND (SELECT legwork_scope_studio()) IS NOT NULL
   AND actor_user_id IN (SELECT user_id FROM memberships)
 );

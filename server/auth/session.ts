@@ -23,6 +23,7 @@ export function sessionMiddleware(deps: AppDeps): { handler: RequestHandler; clo
     createTableIfMissing: false,
     pruneSessionInterval: 600,
   });
+  throttleTouches(store);
   const handler = session({
     name: SESSION_COOKIE,
     secret: deps.env.SESSION_SECRET,
@@ -38,6 +39,33 @@ export function sessionMiddleware(deps: AppDeps): { handler: RequestHandler; clo
     },
   });
   return { handler, close: () => store.close() };
+}
+
+/** How often one session's expiry is pushed forward in the database, at most. */
+const TOUCH_EVERY_MS = 60_000;
+
+/**
+ * A rolling session is touched on every request: an UPDATE (and a commit) for each page read. Push
+ * a session's stored expiry forward at most once a minute per process instead; the stored expiry
+ * then trails the cookie's by less than a minute of a 12-hour idle limit.
+ */
+function throttleTouches(store: session.Store): void {
+  if (!store.touch) return;
+  const touch = store.touch.bind(store);
+  const last = new Map<string, number>();
+  store.touch = (sid, sess, done) => {
+    const now = Date.now();
+    const then = last.get(sid);
+    if (then !== undefined && now - then < TOUCH_EVERY_MS) {
+      done?.();
+      return;
+    }
+    if (last.size >= 50_000) {
+      for (const [k, at] of last) if (now - at >= TOUCH_EVERY_MS) last.delete(k);
+    }
+    last.set(sid, now);
+    touch(sid, sess, done);
+  };
 }
 
 /** A passport instance of our own (not the global one), so several apps can live in one test process. */

@@ -81,25 +81,31 @@ export function tracksRouter(deps: AppDeps): Router {
       runFilter,
       q.q ? ilike(tracks.title, `%${q.q.replace(/[%_\\]/g, (c) => `\\${c}`)}%`) : undefined,
     );
-    const [total] = await deps.db.select({ n: count() }).from(tracks).where(where);
     const sortCol =
       q.sort === 'title' ? tracks.title : q.sort === 'createdAt' ? tracks.createdAt : tracks.updatedAt;
-    const rows = await deps.db
-      .select()
-      .from(tracks)
-      .where(where)
-      .orderBy(q.dir === 'asc' ? asc(sortCol) : desc(sortCol), asc(tracks.id))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize);
+    // The count and the page, then the page's take counts and latest runs: each pair at once, on
+    // two pooled connections.
+    const [[total], rows] = await Promise.all([
+      deps.db.select({ n: count() }).from(tracks).where(where),
+      deps.db
+        .select()
+        .from(tracks)
+        .where(where)
+        .orderBy(q.dir === 'asc' ? asc(sortCol) : desc(sortCol), asc(tracks.id))
+        .limit(q.pageSize)
+        .offset((q.page - 1) * q.pageSize),
+    ]);
     const ids = rows.map((t) => t.id);
-    const takeCounts = ids.length
-      ? await deps.db
-          .select({ trackId: takes.trackId, n: count() })
-          .from(takes)
-          .where(inStudio(takes, studioId, inArray(takes.trackId, ids)))
-          .groupBy(takes.trackId)
-      : [];
-    const latest = await latestRunsPerVenue(deps.db, studioId, ids);
+    const [takeCounts, latest] = await Promise.all([
+      ids.length
+        ? deps.db
+            .select({ trackId: takes.trackId, n: count() })
+            .from(takes)
+            .where(inStudio(takes, studioId, inArray(takes.trackId, ids)))
+            .groupBy(takes.trackId)
+        : [],
+      latestRunsPerVenue(deps.db, studioId, ids),
+    ]);
     const items: TrackSummary[] = rows.map((t) => {
       const perVenue: TrackSummary['venues'] = latest
         .filter((run) => run.trackId === t.id)

@@ -168,6 +168,20 @@ const section: BenchSection = {
         );
       const firstPage = await fetch(`${url}${base}/tracks?page=1&pageSize=25`, { headers: { cookie } });
       if (firstPage.status !== 200) throw new Error(`tracks table answered ${firstPage.status}`);
+      // One request at a time first: the cost of a request alone, apart from queueing under load.
+      const alone: number[] = [];
+      for (let i = 0; i < 40; i++) {
+        const t0 = performance.now();
+        await (await fetch(`${url}${base}/tracks?page=1&pageSize=25`, { headers: { cookie } })).arrayBuffer();
+        alone.push(performance.now() - t0);
+      }
+      alone.sort((a, b) => a - b);
+      const size = (
+        await q('SELECT avg(pg_column_size(summary))::int AS bytes FROM cue_runs WHERE summary IS NOT NULL')
+      ).rows[0] as { bytes: number };
+      log(
+        `tracks table, one request at a time: median ${alone[20]!.toFixed(1)} ms, slowest ${alone[39]!.toFixed(1)} ms (stored run summary ${size.bytes} bytes on average)`,
+      );
       show(
         'tracks table, page 1 of 25 rows, 50 connections',
         await cannon(`${url}${base}/tracks?page=1&pageSize=25`, {
