@@ -71,6 +71,12 @@ export const envSchema = z.object({
     .int()
     .min(1)
     .default(200 * 1024 * 1024),
+  /** Largest proxy video of a take (bytes); a proxy for watching beside the motion, not the master. */
+  PROXY_VIDEO_MAX_BYTES: z.coerce
+    .number()
+    .int()
+    .min(1)
+    .default(1024 * 1024 * 1024),
 });
 
 export type Env = z.infer<typeof envSchema>;

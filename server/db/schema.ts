@@ -1,5 +1,6 @@
 // Database schema. Every tenant-owned table carries studio_id; queries on them go through
 // server/db/scope.ts.
+import type { ProxyVideoType } from '../../shared/schemas/pipeline';
 import { sql } from 'drizzle-orm';
 import {
   bigint,
@@ -253,6 +254,12 @@ export const takes = pgTable(
     startTimecode: text('start_timecode'),
     /** The motion against the picture (frames; positive plays the motion later); set whenever frame_rate is. */
     filmOffsetFrames: integer('film_offset_frames'),
+    /** A proxy of the ride film to watch beside the motion (video/mp4 or video/webm), or null. */
+    proxyVideoKey: text('proxy_video_key'),
+    proxyVideoType: text('proxy_video_type').$type<ProxyVideoType>(),
+    proxyVideoBytes: bigint('proxy_video_bytes', { mode: 'number' }),
+    proxyVideoSha256: text('proxy_video_sha256'),
+    proxyVideoAt: timestamp('proxy_video_at', { withTimezone: true }),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex('takes_number_key').on(t.trackId, t.number), index('takes_studio_idx').on(t.studioId)],

@@ -61,21 +61,25 @@ export function discardRestOfBody(
   req.resume();
 }
 
-/** Streams `body` to `key`, validating it as a track file named `fileName`; throws HttpError 400/413. */
-export async function receiveTake(
+/**
+ * Streams `body` to `key` in object storage while `consume` reads it: `consume` gets the body's
+ * chunks and a `store` to pass each one on (awaiting it is the back-pressure). When `consume` throws,
+ * nothing is left in storage: the upload and every multipart upload it started are aborted and the
+ * object deleted, and (given `res`) the rest of the body is discarded so the connection stays usable.
+ */
+export async function storeStream<T>(
   body: Readable,
   opts: {
     storage: Storage;
     key: string;
-    fileName: string;
-    maxBytes: number;
-    /** The answer to the request `body` is, so a refusal can free or close the connection. */
+    contentType: string;
     res?: ServerResponse;
+    consume: (source: AsyncIterable<Buffer>, store: (b: Buffer) => Promise<void>) => Promise<T>;
   },
-): Promise<ReceivedTake> {
+): Promise<T> {
   const toStorage = new PassThrough();
   const { bucket } = opts.storage;
-  // Every multipart upload this take starts, so a refusal can abort each one itself: the library's
+  // Every multipart upload this one starts, so a refusal can abort each one itself: the library's
   // abort() only stops its own loop, and a create still in flight has no id to abort yet.
   const created: string[] = [];
   let refused = false;
@@ -102,12 +106,7 @@ export async function receiveTake(
   });
   const upload = new Upload({
     client,
-    params: {
-      Bucket: opts.storage.bucket,
-      Key: opts.key,
-      Body: toStorage,
-      ContentType: isGzipName(opts.fileName) ? 'application/gzip' : 'text/csv',
-    },
+    params: { Bucket: bucket, Key: opts.key, Body: toStorage, ContentType: opts.contentType },
     queueSize: 2,
     partSize: 8 * 1024 * 1024,
   });
@@ -116,14 +115,10 @@ export async function receiveTake(
   stored.catch(() => undefined);
   try {
     // The request is read without being destroyed when the reader stops early (see the file comment).
-    const source = body.iterator({ destroyOnReturn: false });
-    const got = await readTrackStream(source, {
-      fileName: opts.fileName,
-      maxBytes: opts.maxBytes,
-      onChunk: async (b) => {
-        // A storage failure rejects `stored`; it must end the wait for drain, not leave it hanging.
-        if (!toStorage.write(b)) await Promise.race([once(toStorage, 'drain'), stored]);
-      },
+    const source = body.iterator({ destroyOnReturn: false }) as AsyncIterable<Buffer>;
+    const got = await opts.consume(source, async (b) => {
+      // A storage failure rejects `stored`; it must end the wait for drain, not leave it hanging.
+      if (!toStorage.write(b)) await Promise.race([once(toStorage, 'drain'), stored]);
     });
     toStorage.end();
     await stored;
@@ -135,8 +130,34 @@ export async function receiveTake(
     toStorage.destroy();
     await Promise.all(created.map(abortMultipart));
     await opts.storage.client
-      .send(new DeleteObjectCommand({ Bucket: opts.storage.bucket, Key: opts.key }))
+      .send(new DeleteObjectCommand({ Bucket: bucket, Key: opts.key }))
       .catch(() => undefined);
+    throw e;
+  }
+}
+
+/** Streams `body` to `key`, validating it as a track file named `fileName`; throws HttpError 400/413. */
+export async function receiveTake(
+  body: Readable,
+  opts: {
+    storage: Storage;
+    key: string;
+    fileName: string;
+    maxBytes: number;
+    /** The answer to the request `body` is, so a refusal can free or close the connection. */
+    res?: ServerResponse;
+  },
+): Promise<ReceivedTake> {
+  try {
+    return await storeStream(body, {
+      storage: opts.storage,
+      key: opts.key,
+      contentType: isGzipName(opts.fileName) ? 'application/gzip' : 'text/csv',
+      ...(opts.res ? { res: opts.res } : {}),
+      consume: (source, store) =>
+        readTrackStream(source, { fileName: opts.fileName, maxBytes: opts.maxBytes, onChunk: store }),
+    });
+  } catch (e) {
     if (e instanceof TrackFileError) {
       throw new HttpError(400, e.message, [
         {

@@ -31,6 +31,15 @@ export const toTake = (t: TakeRow): Take => ({
   duration_s: t.duration_s,
   uploadedVia: t.uploadedVia,
   filmSync: takeFilmSync(t),
+  proxyVideo:
+    t.proxyVideoKey && t.proxyVideoType && t.proxyVideoAt
+      ? {
+          type: t.proxyVideoType,
+          sizeBytes: t.proxyVideoBytes ?? 0,
+          sha256: t.proxyVideoSha256 ?? '',
+          uploadedAt: t.proxyVideoAt.toISOString(),
+        }
+      : null,
   createdAt: t.createdAt.toISOString(),
 });
 

@@ -92,6 +92,18 @@ export const requestRunsBody = z.object({
 });
 export type RequestRunsBody = z.input<typeof requestRunsBody>;
 
+/** The containers a take's proxy video may have: what browsers play in a <video> element. */
+export const PROXY_VIDEO_TYPES = ['video/mp4', 'video/webm'] as const;
+export type ProxyVideoType = (typeof PROXY_VIDEO_TYPES)[number];
+
+export const proxyVideoSchema = z.object({
+  type: z.enum(PROXY_VIDEO_TYPES),
+  sizeBytes: z.number(),
+  sha256: z.string(),
+  uploadedAt: z.string(),
+});
+export type ProxyVideo = z.infer<typeof proxyVideoSchema>;
+
 export const takeSchema = z.object({
   id: z.string().uuid(),
   trackId: z.string().uuid(),
@@ -106,6 +118,8 @@ export const takeSchema = z.object({
   uploadedVia: z.enum(['browser', 'token']),
   /** The picture this take plays against, or null when it was uploaded without film sync. */
   filmSync: filmSyncSchema.nullable(),
+  /** A proxy of the ride film to play in step with the motion; null (or absent) when there is none. */
+  proxyVideo: proxyVideoSchema.nullable().optional(),
   createdAt: z.string(),
 });
 export type Take = z.infer<typeof takeSchema>;

@@ -249,6 +249,29 @@ const ROUTES: RouteCase[] = [
     ok: 404,
   },
   {
+    name: "set a take's proxy video",
+    method: 'put',
+    path: (i) => `/api/studios/${i.studio}/takes/00000000-0000-4000-8000-000000000000/proxy-video`,
+    // A JSON body is not a video: a role that may upload is told so (415), after the role check.
+    body: () => ({ not: 'a video' }),
+    allowed: ['producer'],
+    ok: 415,
+  },
+  {
+    name: "watch a take's proxy video",
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/takes/00000000-0000-4000-8000-000000000000/proxy-video`,
+    allowed: DESK,
+    ok: 404,
+  },
+  {
+    name: "remove a take's proxy video",
+    method: 'delete',
+    path: (i) => `/api/studios/${i.studio}/takes/00000000-0000-4000-8000-000000000000/proxy-video`,
+    allowed: ['producer'],
+    ok: 404,
+  },
+  {
     name: 'release a run',
     method: 'post',
     path: (i) => `/api/studios/${i.studio}/runs/00000000-0000-4000-8000-000000000000/release`,
