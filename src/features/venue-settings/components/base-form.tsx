@@ -337,7 +337,7 @@ export function BaseForm({
       aria-label={`Motion base of ${venue.name}`}
       className="flex flex-col gap-3"
     >
-      <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_minmax(0,26rem)]">
+      <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_minmax(0,31rem)]">
         <div className="flex flex-col gap-3">
           <div className="flex flex-wrap items-end gap-4">
             <div className="flex flex-col gap-0.5">

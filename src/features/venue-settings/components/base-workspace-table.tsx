@@ -19,8 +19,8 @@ function reachText(row: WorkspaceRow, end: WorkspaceEnd): string {
 }
 
 function stopText(end: WorkspaceEnd): string {
-  if (!end.limitedBy) return 'no leg limit within the search';
-  return `leg${end.limitedBy.leg + 1} at ${end.limitedBy.end === 'min' ? 'shortest' : 'longest'}`;
+  if (!end.limitedBy) return 'none within the search';
+  return `leg${end.limitedBy.leg + 1} ${end.limitedBy.end === 'min' ? 'shortest' : 'longest'}`;
 }
 
 /** One end of an axis, chosen to be shown in the 3-D view. */
