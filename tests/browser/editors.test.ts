@@ -69,6 +69,29 @@ describe('editors', () => {
         .toContain(`${heaveUp(1.6).toFixed(3)} m`);
       await page.screenshot({ path: `${screenshotDir}/editor-base.png`, fullPage: true });
 
+      // Pressing a reach shows that pose in the 3-D view.
+      const up = heaveRow.locator('td').nth(2).getByRole('button');
+      await up.click();
+      await expect(up.getAttribute('aria-pressed')).resolves.toBe('true');
+      await expect(form.getByTestId('base-static-view').textContent()).resolves.toContain('heave extreme');
+      await form
+        .getByTestId('base-static-view')
+        .screenshot({ path: `${screenshotDir}/editor-base-heave-up.png` });
+
+      // Changing the cueing profile asks for a confirmation and a reason; Back leaves it as it was.
+      const cueing = page.getByRole('form', { name: 'Cueing profile of Harbour Lights Dome' });
+      await cueing.getByRole('combobox').selectOption('');
+      await cueing.getByRole('button', { name: 'Save' }).click();
+      const confirm = cueing.getByRole('group', { name: 'Confirm the cueing profile change' });
+      await expect(confirm.textContent()).resolves.toContain('to none?');
+      await cueing.getByRole('button', { name: 'Confirm change' }).click();
+      await expect
+        .poll(() => confirm.textContent())
+        .toContain('Say why the venue changes profile; the audit log keeps the reason.');
+      await cueing.screenshot({ path: `${screenshotDir}/editor-profile-confirm.png` });
+      await cueing.getByRole('button', { name: 'Back' }).click();
+      await confirm.waitFor({ state: 'detached' });
+
       // A higher neutral height leaves less stroke for heave up: 0.383 m.
       await form.getByLabel('Neutral height (m)').fill('1.7');
       await expect

@@ -155,7 +155,7 @@ export function ProfileVersionSelect({
                 : 'Runs cannot be queued for this venue until a budget is chosen again; earlier runs keep theirs.'
               : chosen
                 ? 'Runs queued from now on are cued with this profile; earlier runs keep theirs.'
-                : 'Runs cannot be queued for this venue until a cueing profile is chosen again; earlier runs keep theirs.'}
+                : 'Vehicle takes cannot be cued for this venue until a cueing profile is chosen again (pose and leg takes need none); earlier runs keep theirs.'}
           </p>
           <TextAreaField
             label="Reason for the change (kept in the audit log)"
