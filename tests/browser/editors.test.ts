@@ -3,6 +3,8 @@
 // of pure heave), a bad value shows the shared parser's problem beside its field; a safety reviewer
 // opens the demo budget as a form with its envelope charts. Nothing is saved, so the demo stays as it
 // is for the other walks. Screenshots of both editors go to test-output/screenshots.
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import type { Browser, ConsoleMessage, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
@@ -10,6 +12,7 @@ import { DEMO_PASSWORD } from '../../shared/demo';
 import { MotionBaseError, demoHexapodInput, parseMotionBase } from '../../shared/schemas/motion-base';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
+const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 let browser: Browser | undefined;
 
 beforeAll(async () => {
@@ -40,6 +43,26 @@ async function signedIn(
   return { page, errors, close: () => context.close() };
 }
 
+/** axe-core's (Deque) serious and critical WCAG 2.1 A/AA violations on the page as it is now. */
+async function seriousViolations(page: Page): Promise<string[]> {
+  await page.evaluate(axeSource);
+  const violations = (await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (o: unknown) => Promise<{ violations: unknown[] }> } })
+      .axe;
+    return (await axe.run({ runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] } }))
+      .violations;
+  })) as { id: string; impact: string | null; nodes: { target: string[] }[] }[];
+  return violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map(
+      (v) =>
+        `${v.impact} ${v.id} at ${v.nodes
+          .map((n) => n.target.join(' '))
+          .slice(0, 3)
+          .join('; ')}`,
+    );
+}
+
 /** The heave-up reach of the demo layout with neutral height h0 (m), by hand from the leg geometry. */
 function heaveUp(h0: number): number {
   // Every leg spans d = 60 - a_b - a_p deg between its joints, so its horizontal projection r obeys
@@ -68,6 +91,7 @@ describe('editors', () => {
         .poll(() => heaveRow.locator('td').nth(2).textContent(), { timeout: 10_000 })
         .toContain(`${heaveUp(1.6).toFixed(3)} m`);
       await page.screenshot({ path: `${screenshotDir}/editor-base.png`, fullPage: true });
+      expect(await seriousViolations(page)).toEqual([]);
 
       // Pressing a reach shows that pose in the 3-D view.
       const up = heaveRow.locator('td').nth(2).getByRole('button');
@@ -144,6 +168,7 @@ describe('editors', () => {
         .poll(() => editor.locator('[data-path="envelope.z[1]"]').textContent())
         .toContain('must contain the at-rest value 1 g strictly');
       await page.screenshot({ path: `${screenshotDir}/editor-budget.png`, fullPage: true });
+      expect(await seriousViolations(page)).toEqual([]);
       await editor.getByRole('button', { name: 'Cancel' }).click();
       expect(errors).toEqual([]);
     } finally {

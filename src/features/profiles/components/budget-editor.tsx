@@ -192,7 +192,7 @@ function NumberField({
   return (
     <div className="flex flex-col gap-0.5">
       <label htmlFor={id} className="text-xs font-medium text-ink-600">
-        {label} <span className="font-normal text-ink-400">({unit})</span>
+        {label} <span className="font-normal text-ink-600">({unit})</span>
         {demo ? <DemoTag /> : null}
       </label>
       <input
@@ -205,7 +205,7 @@ function NumberField({
         className={`w-32 rounded border bg-white px-2 py-1 font-mono text-sm text-ink-900 ${problems.length > 0 ? 'border-stop-500' : 'border-ink-200'}`}
       />
       {hint && problems.length === 0 ? (
-        <p id={`${id}-hint`} className="text-xs text-ink-400">
+        <p id={`${id}-hint`} className="text-xs text-ink-600">
           {hint}
         </p>
       ) : null}
@@ -218,7 +218,7 @@ function Group({ title, note, children }: { title: string; note?: ReactNode; chi
   return (
     <fieldset className="flex flex-col gap-2 rounded border border-ink-100 p-3">
       <legend className="px-1 text-xs font-semibold text-ink-800">{title}</legend>
-      {note ? <p className="text-xs text-ink-400">{note}</p> : null}
+      {note ? <p className="text-xs text-ink-600">{note}</p> : null}
       {children}
     </fieldset>
   );
@@ -304,7 +304,7 @@ export function BudgetEditor({
       onSubmit={submit}
       noValidate
       aria-label={profile ? `New version of ${profile.name}` : 'New budget profile'}
-      className="flex flex-col gap-3"
+      className="flex flex-col gap-3 rounded bg-white p-3"
       data-testid="budget-editor"
     >
       {anyDemo ? (
@@ -388,7 +388,7 @@ export function BudgetEditor({
                   >
                     <caption className="pb-1 text-left text-xs font-medium text-ink-800">
                       {AXIS_TITLES[axis]}{' '}
-                      <span className="font-normal text-ink-400">(at rest {REST_G[axis]} g)</span>
+                      <span className="font-normal text-ink-600">(at rest {REST_G[axis]} g)</span>
                       {rows.some((row, i) => row.some((v, k) => isDemoValue(['envelope', axis, i, k], v))) ? (
                         <DemoTag />
                       ) : null}
@@ -396,7 +396,7 @@ export function BudgetEditor({
                     <thead>
                       <tr>
                         {['Duration (s)', 'Lower (g)', 'Upper (g)'].map((h) => (
-                          <th key={h} scope="col" className="px-1 text-left text-xs font-normal text-ink-400">
+                          <th key={h} scope="col" className="px-1 text-left text-xs font-normal text-ink-600">
                             {h}
                           </th>
                         ))}
@@ -559,7 +559,7 @@ export function BudgetEditor({
         </Button>
       </div>
       {mutation.isSuccess ? <Notice>Saved.</Notice> : null}
-      <p className="text-xs text-ink-400">
+      <p className="text-xs text-ink-600">
         A budget supports, and never replaces, the ride manufacturer&apos;s engineering, the applicable codes
         (for example ASTM F2291 or EN 13814 / ISO 17842-1 where they apply) and a qualified person&apos;s
         sign-off.

@@ -164,7 +164,7 @@ export function EnvelopeChart({
       ) : (
         <p className="text-xs text-ink-600">No usable rows to draw.</p>
       )}
-      <figcaption className="text-xs text-ink-400">
+      <figcaption className="text-xs text-ink-600">
         The band a rider may be in for an excursion of that length; dotted: at rest ({rest_g} g). A row with
         duration 0 holds from the left edge.
       </figcaption>
