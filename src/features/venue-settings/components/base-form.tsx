@@ -153,7 +153,7 @@ function PointTable({
                         value={point[k] ?? ''}
                         onChange={(event) => onChange(i, k, event.target.value)}
                         aria-invalid={bad ? true : undefined}
-                        className={`w-24 rounded border bg-white px-1.5 py-0.5 font-mono text-xs text-ink-900 ${bad ? 'border-stop-500' : 'border-ink-200'}`}
+                        className={`w-36 rounded border bg-white px-1.5 py-0.5 font-mono text-xs text-ink-900 ${bad ? 'border-stop-500' : 'border-ink-200'}`}
                       />
                     </td>
                   );
