@@ -218,7 +218,16 @@ export function venuesRouter(deps: AppDeps): Router {
         action: 'venue.profiles_changed',
         subjectType: 'venue',
         subjectId: before.id,
-        detail: body,
+        // What changed (a version id, or null for none), what it was before, and the person's reason.
+        detail: {
+          ...(body.cueingVersionId !== undefined
+            ? { cueingVersionId: body.cueingVersionId, cueingVersionBefore: before.cueingVersion?.id ?? null }
+            : {}),
+          ...(body.budgetVersionId !== undefined
+            ? { budgetVersionId: body.budgetVersionId, budgetVersionBefore: before.budgetVersion?.id ?? null }
+            : {}),
+          reason: body.reason,
+        },
       });
     });
     res.json(await detail(m.studioId, before.id));

@@ -236,11 +236,21 @@ export const profileSchema = z.object({
 });
 export type Profile = z.infer<typeof profileSchema>;
 
-/** PUT .../venues/:venue/settings: at least one of the two; null clears it. */
+export const VENUE_CHANGE_REASON_MESSAGE = 'say why the venue changes profile (the audit log keeps it)';
+
+/**
+ * PUT .../venues/:venue/settings: at least one of the two; null clears it. `reason` says why the venue
+ * changes what it uses; the audit event keeps it.
+ */
 export const venueSettingsBody = z
   .object({
     cueingVersionId: z.string().uuid().nullable().optional(),
     budgetVersionId: z.string().uuid().nullable().optional(),
+    // A missing reason reads as an empty one, so both get the same message.
+    reason: z.preprocess(
+      (v) => (v === undefined || v === null ? '' : v),
+      text().trim().min(1, VENUE_CHANGE_REASON_MESSAGE).max(4000, 'at most 4000 characters'),
+    ),
   })
   .refine((b) => b.cueingVersionId !== undefined || b.budgetVersionId !== undefined, {
     message: 'give cueingVersionId or budgetVersionId (a profile version id, or null to clear it)',

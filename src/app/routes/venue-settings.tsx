@@ -9,6 +9,7 @@ import { BaseForm } from '../../features/venue-settings/components/base-form';
 import { BaseSummary } from '../../features/venue-settings/components/base-summary';
 import { ControllerForm, describeController } from '../../features/venue-settings/components/controller-form';
 import { ProfileVersionSelect } from '../../features/venue-settings/components/profile-version-select';
+import { previewJoints } from '../../features/runs/utils/preview-geometry';
 import { useStudioContext } from './studio-layout';
 
 /** The version new runs use, for members who may see it but not choose it. */
@@ -45,7 +46,7 @@ export function VenueSettingsRoute() {
       <Section title="Motion base">
         <div className="flex flex-col gap-4">
           <BaseSummary base={detail.base} />
-          {canConfigure ? <BaseForm studioId={studioId} venue={detail} /> : null}
+          {canConfigure ? <BaseForm studioId={studioId} venue={detail} placeJoints={previewJoints} /> : null}
         </div>
       </Section>
       <Section title="Controller output">

@@ -155,9 +155,24 @@ describe('venue profile versions', () => {
     const select = await screen.findByRole('combobox', { name: 'Cueing profile version for new runs' });
     fireEvent.change(select, { target: { value: PROFILE.versions[1]!.id } });
     fireEvent.click(screen.getByRole('button', { name: 'Save' }));
+    // Saving asks for a confirmation naming both versions and for a reason; none given, nothing is sent.
+    const confirm = screen.getByRole('group', { name: 'Confirm the cueing profile change' });
+    expect(confirm).toHaveTextContent(`from ${PROFILE.name} v1 to ${PROFILE.name} v2?`);
+    fireEvent.click(within(confirm).getByRole('button', { name: 'Confirm change' }));
+    expect(
+      within(confirm).getByRole('textbox', { name: /^Reason for the change/ }),
+    ).toHaveAccessibleDescription('Say why the venue changes profile; the audit log keeps the reason.');
+    expect(calls.filter((c) => c.method === 'PUT')).toHaveLength(0);
+    fireEvent.change(within(confirm).getByRole('textbox', { name: /^Reason for the change/ }), {
+      target: { value: ' Gentler washout for the new seats. ' },
+    });
+    fireEvent.click(within(confirm).getByRole('button', { name: 'Confirm change' }));
     expect(await screen.findByRole('alert')).toHaveTextContent(reason);
     const put = calls.find((c) => c.method === 'PUT')!;
-    expect(put.body).toEqual({ cueingVersionId: PROFILE.versions[1]!.id });
+    expect(put.body).toEqual({
+      cueingVersionId: PROFILE.versions[1]!.id,
+      reason: 'Gentler washout for the new seats.',
+    });
     expect(put.headers['x-csrf-token']).toMatch(/^token-/);
     expect(new URLSearchParams(calls.find((c) => c.path.endsWith('/profiles'))!.search).get('kind')).toBe(
       'cueing',
@@ -222,6 +237,10 @@ describe('venue settings page', () => {
     const select = await within(form).findByRole('combobox');
     fireEvent.change(select, { target: { value: PROFILE.versions[1]!.id } });
     fireEvent.click(within(form).getByRole('button', { name: 'Save' }));
+    fireEvent.change(within(form).getByRole('textbox', { name: /^Reason for the change/ }), {
+      target: { value: 'New seats.' },
+    });
+    fireEvent.click(within(form).getByRole('button', { name: 'Confirm change' }));
     expect(await within(form).findByText(/^Saved\./)).toBeInTheDocument();
     expect(within(form).getByText('Dome washout v2')).toBeInTheDocument();
     expect(calls.filter((c) => c.method === 'PUT')).toHaveLength(1);

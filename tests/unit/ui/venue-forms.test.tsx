@@ -11,6 +11,7 @@ import type { Venue } from '../../../shared/schemas/api';
 import {
   MotionBaseError,
   demoHexapodBase,
+  demoHexapodInput,
   demoPlanar3Base,
   parseMotionBase,
 } from '../../../shared/schemas/motion-base';
@@ -93,11 +94,8 @@ function issuesOf(base: unknown): readonly { path: string; message: string }[] {
   }
 }
 
-/** 1-based line of the first line containing `needle`, found by plain line search (not the app's scanner). */
-const lineOf = (text: string, needle: string) => text.split('\n').findIndex((l) => l.includes(needle)) + 1;
-
 describe('motion base form', () => {
-  it("lists the server's issues with their JSON paths under the textarea and sends the edited base", async () => {
+  it('opens the demo dome as its parametric layout, shows problems beside their fields and the workspace', async () => {
     const { calls } = fakeApi({
       [`GET /api/studios/${STUDIO}/venues/${VENUE}`]: () => json(venueDetail),
       [`GET /api/studios/${STUDIO}/profiles`]: () => json([]),
@@ -108,39 +106,100 @@ describe('motion base form', () => {
       path: 'venues/:venueId',
       element: <VenueSettingsRoute />,
     });
-    const textarea = await screen.findByRole('textbox', { name: 'Motion base (JSON)' });
+    const form = await screen.findByRole('form', { name: 'Motion base of Harbour Lights Dome' });
+    // The stored joints are recognised as the demo layout (shared/schemas/motion-base.ts demoHexapodInput).
+    expect(within(form).getByLabelText('Base joint circle radius (m)')).toHaveValue('1.5');
+    expect(within(form).getByLabelText('Platform pair half angle (deg)')).toHaveValue('10');
+    // Heave up by hand: sqrt(2.3^2 - r^2) - 1.6 with r^2 = 1.5^2 + 1^2 - 3 cos 40 deg: 0.483 m.
+    const heave = await within(form).findByText('0.483 m');
+    expect(heave.closest('tr')).toHaveAttribute('data-axis', 'heave');
+
+    // A negative shortest leg: the shared parser's problem stands under that field, nothing is sent.
+    const min = within(form).getByLabelText('Shortest leg (m)');
+    fireEvent.change(min, { target: { value: '-1' } });
+    const expected = issuesOf({ ...demoHexapodInput, leg: { ...demoHexapodInput.leg, min_m: -1 } }).find(
+      (i) => i.path === 'leg.min_m',
+    )!;
+    await waitFor(() => expect(min).toHaveAccessibleDescription(expected.message));
+    expect(within(form).getByText('Shown once the base has no problems.')).toBeInTheDocument();
+    fireEvent.change(min, { target: { value: 'abc' } });
+    await waitFor(() => expect(min).toHaveAccessibleDescription('"abc" is not a number'));
+    fireEvent.click(within(form).getByRole('button', { name: 'Save' }));
+    expect(await within(form).findByRole('alert')).toHaveTextContent('nothing was sent');
+    expect(calls.filter((c) => c.method === 'PUT')).toHaveLength(0);
+
+    // Fixed, saved: the parametric layout is sent, the server keeps joints, the form reads them back.
+    fireEvent.change(min, { target: { value: '1.5' } });
+    await within(form).findByText('0.483 m');
+    fireEvent.click(within(form).getByRole('button', { name: 'Save' }));
+    expect(await within(form).findByText('Motion base saved.')).toBeInTheDocument();
+    const put = calls.find((c) => c.method === 'PUT')!;
+    expect(put.headers['x-csrf-token']).toMatch(/^token-/);
+    expect(parseMotionBase((put.body as { base: unknown }).base)).toEqual({
+      ...demoHexapodBase,
+      baseJoints_m: expect.any(Array),
+      platformJoints_m: expect.any(Array),
+    });
+    expect((put.body as { base: Record<string, unknown> }).base.baseRadius_m).toBe(1.5);
+  });
+
+  it('shows a problem the server finds beside its field', async () => {
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/venues/${VENUE}`]: () => json(venueDetail),
+      [`GET /api/studios/${STUDIO}/profiles`]: () => json([]),
+      [`PUT /api/studios/${STUDIO}/venues/${VENUE}/base`]: () =>
+        json(
+          {
+            error: 'The motion base has 1 problem(s): seats_m[1]: a seat the server refuses',
+            issues: [{ path: 'seats_m[1]', message: 'a seat the server refuses' }],
+          },
+          400,
+        ),
+    });
+    renderInStudio(['motion_engineer'], `/s/${STUDIO}/venues/${VENUE}`, {
+      path: 'venues/:venueId',
+      element: <VenueSettingsRoute />,
+    });
+    const form = await screen.findByRole('form', { name: 'Motion base of Harbour Lights Dome' });
+    fireEvent.click(within(form).getByRole('button', { name: 'Save' }));
+    const row = await waitFor(() => {
+      const r = form.querySelector('tr[data-path="seats_m[1]"]');
+      expect(r).toHaveTextContent('a seat the server refuses');
+      return r!;
+    });
+    expect(within(row as HTMLElement).getByLabelText('Seat 2 x (m)')).toHaveAttribute('aria-invalid', 'true');
+  });
+
+  it('imports JSON into the form, naming a syntax error without changing the form', async () => {
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/venues/${VENUE}`]: () => json(venueDetail),
+      [`GET /api/studios/${STUDIO}/profiles`]: () => json([]),
+    });
+    renderInStudio(['motion_engineer'], `/s/${STUDIO}/venues/${VENUE}`, {
+      path: 'venues/:venueId',
+      element: <VenueSettingsRoute />,
+    });
+    const form = await screen.findByRole('form', { name: 'Motion base of Harbour Lights Dome' });
+    const textarea = within(form).getByRole('textbox', { name: 'Motion base (JSON)' });
     // Prefilled with the stored base, pretty-printed with two spaces (JSON.stringify, ECMA-262).
     expect(textarea).toHaveValue(JSON.stringify(demoHexapodBase, null, 2));
-
-    // A negative stroke minimum and a seat with two coordinates instead of three: problems at two paths.
-    const bad = { ...demoHexapodBase, leg: { ...demoHexapodBase.leg, min_m: -1 }, seats_m: [[0, 0]] };
-    const badText = JSON.stringify(bad, null, 2);
-    fireEvent.change(textarea, { target: { value: badText } });
-    const form = screen.getByRole('form', { name: 'Motion base of Harbour Lights Dome' });
-    fireEvent.click(within(form).getByRole('button', { name: 'Save' }));
-
-    const list = await within(form).findByRole('list', { name: 'Problems in Motion base (JSON)' });
-    const put = calls.find((c) => c.method === 'PUT')!;
-    expect(put.body).toEqual({ base: bad });
-    expect(put.headers['x-csrf-token']).toMatch(/^token-/);
-    const items = within(list)
-      .getAllByRole('listitem')
-      .map((li) => li.textContent ?? '');
-    // API contract: every issue the server sends is listed with its path, in the server's order.
-    // The issues the fake server answered: the shared validator's, as the real route sends them.
-    const sentIssues = issuesOf(bad);
-    expect(sentIssues.map((i) => i.path)).toEqual(expect.arrayContaining(['leg.min_m', 'seats_m[0]']));
-    expect(items).toHaveLength(sentIssues.length);
-    sentIssues.forEach((issue, k) => {
-      expect(items[k]).toContain(issue.path);
-      expect(items[k]).toContain(issue.message);
-    });
-    // The path is also located in the text that was sent (line found by plain search for the key).
-    const minItem = items[sentIssues.findIndex((i) => i.path === 'leg.min_m')]!;
-    expect(minItem).toContain(`line ${lineOf(badText, '"min_m"')}`);
-    expect(textarea).toHaveAttribute('aria-invalid', 'true');
-    expect(within(form).getByRole('alert')).toHaveTextContent('The motion base has');
-    expect(within(form).queryByText('Motion base saved.')).not.toBeInTheDocument();
+    fireEvent.change(textarea, { target: { value: '{"kind": "planar3",\n  "leg": }' } });
+    fireEvent.click(within(form).getByRole('button', { name: 'Load the JSON into the form' }));
+    expect(within(form).getByRole('list', { name: 'Problems in Motion base (JSON)' })).toHaveTextContent(
+      'line 2',
+    );
+    expect(within(form).getByLabelText('Base joint circle radius (m)')).toHaveValue('1.5');
+    fireEvent.change(textarea, { target: { value: JSON.stringify(demoPlanar3Base) } });
+    fireEvent.click(within(form).getByRole('button', { name: 'Load the JSON into the form' }));
+    expect(within(form).getByRole('combobox', { name: 'Kind and joints given as' })).toHaveValue('planar3');
+    expect(within(form).getByLabelText('Base joint 2 x (m)')).toHaveValue('-1.7320508075688772');
+    // The workspace follows once typing settles: the stage's own three axes.
+    await waitFor(() => expect(within(form).queryByText('Heave (z)')).not.toBeInTheDocument());
+    expect(
+      Array.from(within(form).getByTestId('base-workspace').querySelectorAll('tr[data-axis]'), (r) =>
+        r.getAttribute('data-axis'),
+      ),
+    ).toEqual(['surge', 'sway', 'yaw']);
   });
 
   it('shows the base read-only to a producer', async () => {

@@ -6,6 +6,8 @@ export interface UpdateVenueSettingsInput {
   venueId: string;
   cueingVersionId?: string | null;
   budgetVersionId?: string | null;
+  /** Why the venue changes what it uses; required, kept in the audit log. */
+  reason: string;
 }
 
 /** Points the venue at other cueing and/or budget profile versions; the server decides who may change which. */

@@ -2,7 +2,9 @@ import { useId, useState } from 'react';
 import type { FormEvent } from 'react';
 import type { Profile, VenueDetail } from '../../../../shared/schemas/pipeline';
 import { Button } from '../../../components/ui/button';
+import { TextAreaField, issuesByField } from '../../../components/ui/form';
 import { ErrorNotice, Loading, Notice } from '../../../components/ui/status';
+import { ApiRequestError } from '../../../lib/api-client';
 import { useProfiles } from '../../../lib/queries/profiles';
 import { useUpdateVenueSettings } from '../api/update-venue-settings';
 
@@ -11,7 +13,10 @@ const KIND_TEXT = {
   budget: { title: 'Budget profile', who: 'safety reviewers' },
 } as const;
 
-/** A plain form choosing which version of a cueing or budget profile the venue's next runs use. */
+/**
+ * A plain form choosing which version of a cueing or budget profile the venue's next runs use. Saving
+ * asks to confirm the change, naming both versions, and for a reason, which the audit log keeps.
+ */
 export function ProfileVersionSelect({
   studioId,
   venue,
@@ -28,17 +33,53 @@ export function ProfileVersionSelect({
   const profiles = useProfiles(studioId, kind);
   const update = useUpdateVenueSettings(studioId, venue.id);
 
+  const [confirming, setConfirming] = useState(false);
+  const [reason, setReason] = useState('');
+  const [reasonError, setReasonError] = useState<string | undefined>();
+
+  const versionName = (versionId: string): string => {
+    if (!versionId) return 'none';
+    for (const profile of profiles.data ?? []) {
+      const version = profile.versions.find((v) => v.id === versionId);
+      if (version) return `${profile.name} v${version.version}`;
+    }
+    return 'an unknown version';
+  };
+
   const submit = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();
     setSaved(false);
+    if (!confirming) {
+      setConfirming(true);
+      setReasonError(undefined);
+      update.reset();
+      return;
+    }
+    if (!reason.trim()) {
+      setReasonError('Say why the venue changes profile; the audit log keeps the reason.');
+      return;
+    }
+    setReasonError(undefined);
     const value = chosen || null;
     update.mutate(
       kind === 'cueing'
-        ? { studioId, venueId: venue.id, cueingVersionId: value }
-        : { studioId, venueId: venue.id, budgetVersionId: value },
-      { onSuccess: () => setSaved(true) },
+        ? { studioId, venueId: venue.id, cueingVersionId: value, reason: reason.trim() }
+        : { studioId, venueId: venue.id, budgetVersionId: value, reason: reason.trim() },
+      {
+        onSuccess: () => {
+          setSaved(true);
+          setConfirming(false);
+          setReason('');
+        },
+      },
     );
   };
+
+  const serverIssues =
+    update.error instanceof ApiRequestError
+      ? issuesByField(update.error.issues)
+      : ({} as Record<string, string>);
+  const shownReasonError = reasonError ?? serverIssues.reason;
 
   return (
     <form
@@ -67,6 +108,7 @@ export function ProfileVersionSelect({
             <select
               id={id}
               value={chosen}
+              disabled={confirming}
               onChange={(event) => {
                 setChosen(event.target.value);
                 setSaved(false);
@@ -88,17 +130,61 @@ export function ProfileVersionSelect({
               ))}
             </select>
           </div>
-          <Button
-            type="submit"
-            variant="primary"
-            busy={update.isPending}
-            disabled={chosen === (current?.id ?? '')}
-          >
-            Save
-          </Button>
+          {!confirming ? (
+            <Button type="submit" variant="primary" disabled={chosen === (current?.id ?? '')}>
+              Save
+            </Button>
+          ) : null}
         </div>
       ) : null}
-      {update.error ? <ErrorNotice error={update.error} /> : null}
+      {confirming ? (
+        <div
+          role="group"
+          aria-label={`Confirm the ${KIND_TEXT[kind].title.toLowerCase()} change`}
+          className="flex max-w-xl flex-col gap-2 rounded border border-signal-400 bg-white p-3"
+        >
+          <p className="text-sm text-ink-900">
+            Change the {KIND_TEXT[kind].title.toLowerCase()} of {venue.name} from{' '}
+            <span className="font-medium">{current ? `${current.name} v${current.version}` : 'none'}</span> to{' '}
+            <span className="font-medium">{versionName(chosen)}</span>?
+          </p>
+          <p className="text-xs text-ink-600">
+            {kind === 'budget'
+              ? chosen
+                ? 'Runs queued from now on are checked against this budget; earlier runs keep the budget they were checked against.'
+                : 'Runs cannot be queued for this venue until a budget is chosen again; earlier runs keep theirs.'
+              : chosen
+                ? 'Runs queued from now on are cued with this profile; earlier runs keep theirs.'
+                : 'Vehicle takes cannot be cued for this venue until a cueing profile is chosen again (pose and leg takes need none); earlier runs keep theirs.'}
+          </p>
+          <TextAreaField
+            label="Reason for the change (kept in the audit log)"
+            value={reason}
+            error={shownReasonError}
+            onChange={(event) => {
+              setReason(event.target.value);
+              setReasonError(undefined);
+            }}
+            maxLength={4000}
+          />
+          <div className="flex gap-2">
+            <Button type="submit" variant="primary" busy={update.isPending}>
+              Confirm change
+            </Button>
+            <Button
+              variant="quiet"
+              onClick={() => {
+                setConfirming(false);
+                setReasonError(undefined);
+                update.reset();
+              }}
+            >
+              Back
+            </Button>
+          </div>
+        </div>
+      ) : null}
+      {update.error && !serverIssues.reason ? <ErrorNotice error={update.error} /> : null}
       {saved ? (
         <Notice>Saved. Runs queued from now on use this version; earlier runs keep theirs.</Notice>
       ) : null}
