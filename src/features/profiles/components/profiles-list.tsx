@@ -7,6 +7,7 @@ import { Empty, ErrorNotice, Loading } from '../../../components/ui/status';
 import { Table, Td, Th } from '../../../components/ui/table';
 import { formatDateTime } from '../../../lib/format';
 import { useProfiles } from '../../../lib/queries/profiles';
+import { CueingProfileEditor } from './cueing-profile-editor';
 import { ProfileEditor } from './profile-editor';
 
 const KIND_TEXT = {
@@ -79,13 +80,22 @@ function ProfileBlock({
             Prefilled from v{versions[0]?.version ?? '—'}. Saving always makes a new version; runs keep the
             versions they used.
           </p>
-          <ProfileEditor
-            studioId={studioId}
-            kind={profile.kind}
-            profile={profile}
-            initialText={JSON.stringify(latestParams(profile), null, 2)}
-            onDone={() => setEditing(false)}
-          />
+          {profile.kind === 'cueing' ? (
+            <CueingProfileEditor
+              studioId={studioId}
+              profile={profile}
+              initialParams={latestParams(profile)}
+              onDone={() => setEditing(false)}
+            />
+          ) : (
+            <ProfileEditor
+              studioId={studioId}
+              kind={profile.kind}
+              profile={profile}
+              initialText={JSON.stringify(latestParams(profile), null, 2)}
+              onDone={() => setEditing(false)}
+            />
+          )}
         </div>
       ) : null}
     </div>
@@ -116,12 +126,20 @@ export function ProfilesList({
       {canWrite ? (
         creating ? (
           <div className="rounded border border-ink-200 bg-ink-50 p-3">
-            <ProfileEditor
-              studioId={studioId}
-              kind={kind}
-              initialText={JSON.stringify(KIND_TEXT[kind].starter, null, 2)}
-              onDone={() => setCreating(false)}
-            />
+            {kind === 'cueing' ? (
+              <CueingProfileEditor
+                studioId={studioId}
+                initialParams={KIND_TEXT.cueing.starter}
+                onDone={() => setCreating(false)}
+              />
+            ) : (
+              <ProfileEditor
+                studioId={studioId}
+                kind={kind}
+                initialText={JSON.stringify(KIND_TEXT[kind].starter, null, 2)}
+                onDone={() => setCreating(false)}
+              />
+            )}
           </div>
         ) : (
           <div>
