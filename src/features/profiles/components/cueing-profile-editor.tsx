@@ -56,19 +56,24 @@ function NumberInput({
   const errorId = `${id}-error`;
   return (
     <div className="flex flex-col gap-0.5" data-field={key}>
-      <label htmlFor={id} className="text-xs font-medium text-ink-700">
-        {field.label} <span className="font-normal text-ink-500">({field.unit})</span>
+      <label htmlFor={id} className="flex min-h-8 items-end text-xs leading-tight font-medium text-ink-700">
+        {field.label}
       </label>
-      <input
-        id={id}
-        type="text"
-        inputMode="decimal"
-        value={shown}
-        onChange={(e) => onChange(e.target.value)}
-        aria-invalid={problems ? true : undefined}
-        aria-describedby={problems ? errorId : `${id}-default`}
-        className={`w-full rounded border bg-white px-2 py-1 font-mono text-sm text-ink-900 ${problems ? 'border-stop-500' : 'border-ink-200'}`}
-      />
+      <div className="flex items-center gap-1">
+        <input
+          id={id}
+          type="text"
+          inputMode="decimal"
+          value={shown}
+          onChange={(e) => onChange(e.target.value)}
+          aria-invalid={problems ? true : undefined}
+          aria-describedby={`${id}-unit ${id}-default${problems ? ` ${errorId}` : ''}`}
+          className={`w-full min-w-0 rounded border bg-white px-2 py-1 font-mono text-sm text-ink-900 ${problems ? 'border-stop-500' : 'border-ink-200'}`}
+        />
+        <span id={`${id}-unit`} className="shrink-0 text-xs text-ink-600">
+          {field.unit}
+        </span>
+      </div>
       <p id={`${id}-default`} className="text-[11px] text-ink-500">
         default {formatDefault(d)}
         {d !== undefined && typeof value === 'number' && value !== d ? ' · changed' : ''}

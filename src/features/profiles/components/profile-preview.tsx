@@ -410,8 +410,8 @@ export function ProfilePreview({
               max: b.max,
             }))}
             lines={[
-              { value: out.series.stroke.low_m, label: 'stroke band', color: CHART_COLORS.stroke },
-              { value: out.series.stroke.high_m, label: 'stroke band', color: CHART_COLORS.stroke },
+              { value: out.series.stroke.low_m, label: 'stroke band low', color: CHART_COLORS.stroke },
+              { value: out.series.stroke.high_m, label: 'stroke band high', color: CHART_COLORS.stroke },
               { value: out.series.stroke.mid_m, label: 'mid-stroke', color: CHART_COLORS.axis, thin: true },
             ]}
             height_px={170}
