@@ -3,7 +3,7 @@
 // vehicle specific force only) or the take's own file, opened from the person's disk and read by the
 // same track reader the server uses (shared/motion/track-reader.ts), with its SHA-256 compared to the
 // take's.
-import type { RunDetail } from '../../../../shared/schemas/pipeline';
+import type { RunDetail, Take } from '../../../../shared/schemas/pipeline';
 import type { RunSeries, SeriesBand } from '../../../../shared/schemas/run-series';
 import { parseTrackText } from '../../../../shared/motion/track-reader';
 import type { Track } from '../../../../shared/motion/track-reader';
@@ -26,7 +26,10 @@ const mid = (b: SeriesBand, i: number) => ((b.min[i] as number) + (b.max[i] as n
  * (the series then holds all six); otherwise the specific force, with the angular rates, which the
  * series does not hold, at zero. Null when the run's take is not a vehicle take.
  */
-export function trackFromRunSeries(series: RunSeries, detail: RunDetail): PreviewTakeData | null {
+export function trackFromRunSeries(
+  series: RunSeries,
+  detail: Pick<RunDetail, 'venueName' | 'ramp'> & { take: Pick<Take, 'kind' | 'number' | 'samples'> },
+): PreviewTakeData | null {
   if (detail.take.kind !== 'vehicle') return null;
   const t = series.time_s;
   const n = t.length;
