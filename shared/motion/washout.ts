@@ -55,7 +55,7 @@ export interface CueDiagnostics {
   /** Tilt-coordination angles after angle and rate limits, rad. */
   tiltRoll_rad: Float64Array;
   tiltPitch_rad: Float64Array;
-  /** Specific force the rider feels at the profile's rider reference point, m/s^2, platform axes. */
+  /** Specific force the rider feels at the profile's rider reference point, m/s^2, platform axes (computed when first read). */
   riderForce_mps2: SeatForce;
 }
 
@@ -263,6 +263,9 @@ export function cueClassical(vehicle: VehicleTrack, profile: CueingProfile): Cue
   const scaledZ = new Float64Array(n);
   for (let i = 0; i < n; i++) scaledZ[i] = (sz[i] as number) + G0;
   const ref = profile.riderReference_m;
+  // The felt force at the rider reference needs the platform's whole motion (about as much work as the
+  // washout itself), and the pipeline does not read it: it is computed once, when first read.
+  let riderForce: SeatForce | undefined;
   return {
     pose,
     diagnostics: {
@@ -271,7 +274,10 @@ export function cueClassical(vehicle: VehicleTrack, profile: CueingProfile): Cue
       highPassedForce_mps2: { x: hx, y: hy, z: hz },
       tiltRoll_rad: tiltRoll,
       tiltPitch_rad: tiltPitch,
-      riderForce_mps2: seatSpecificForce(pose, [ref[0], ref[1], ref[2]]),
+      get riderForce_mps2(): SeatForce {
+        riderForce ??= seatSpecificForce(pose, [ref[0], ref[1], ref[2]]);
+        return riderForce;
+      },
     },
   };
 }

@@ -8,7 +8,7 @@ import { Table, Td, Th } from '../../../components/ui/table';
 import { formatDateTime } from '../../../lib/format';
 import { useProfiles } from '../../../lib/queries/profiles';
 import { BudgetEditor } from './budget-editor';
-import { ProfileEditor } from './profile-editor';
+import { CueingProfileEditor } from './cueing-profile-editor';
 
 const KIND_TEXT = {
   cueing: {
@@ -88,11 +88,10 @@ function ProfileBlock({
               onDone={() => setEditing(false)}
             />
           ) : (
-            <ProfileEditor
+            <CueingProfileEditor
               studioId={studioId}
-              kind={profile.kind}
               profile={profile}
-              initialText={JSON.stringify(latestParams(profile), null, 2)}
+              initialParams={latestParams(profile)}
               onDone={() => setEditing(false)}
             />
           )}
@@ -129,14 +128,13 @@ export function ProfilesList({
             {kind === 'budget' ? (
               <BudgetEditor
                 studioId={studioId}
-                initialParams={KIND_TEXT[kind].starter}
+                initialParams={KIND_TEXT.budget.starter}
                 onDone={() => setCreating(false)}
               />
             ) : (
-              <ProfileEditor
+              <CueingProfileEditor
                 studioId={studioId}
-                kind={kind}
-                initialText={JSON.stringify(KIND_TEXT[kind].starter, null, 2)}
+                initialParams={KIND_TEXT.cueing.starter}
                 onDone={() => setCreating(false)}
               />
             )}

@@ -1,0 +1,264 @@
+// The cueing profile editor's live preview: what a run of a vehicle take would move, recomputed on every
+// change of the profile. The take is prepared once per take and controller rate (the gap check and the
+// anti-alias resampling of processTrack, which do not depend on the profile); each change then runs
+// the same motion code as processTrack, in the same order: the classical washout (cueClassical), the
+// planar stage's dropped axes, the controller's ramps from and to neutral (withNeutralRamps), inverse
+// kinematics (hexapodInverse / planar3Inverse) and the seat specific force (platformMotion,
+// seatForceFromMotion). The budget's full checks (runChecks with every comfort figure) take about a
+// second on a 10-minute take, so the editor runs them apart, through processTrack itself
+// (previewChecks), and shows the stroke use computed here until they arrive.
+import type { Budget } from '../schemas/budget';
+import type { ControllerOutput } from '../schemas/controller-output';
+import type { CueingProfile } from '../schemas/cueing-profile';
+import type { Use } from '../schemas/findings';
+import type { MotionBase } from '../schemas/motion-base';
+import type { SeriesBand } from '../schemas/run-series';
+import { strokeBand, strokeUse } from './checks';
+import { withNeutralRamps } from './controller-output';
+import type { PoseColumns } from './hexapod';
+import { hexapodGeometry, hexapodInverse } from './hexapod';
+import { planar3Geometry, planar3Inverse } from './planar3';
+import { ProcessInputError, processTrack, sig } from './process';
+import { GAP_MAX_S, findGaps, medianSpacing, resampleAntiAlias } from './resample';
+import { minMaxOnEdges, seriesBucketEdges } from './run-series';
+import { platformMotion, seatForceFromMotion } from './seat-force';
+import type { Track } from './track-reader';
+import { trackColumn } from './track-reader';
+import { cueClassical } from './washout';
+
+/** Buckets of the preview charts (min/max per bucket, as the run charts). */
+export const PREVIEW_BUCKETS = 1000;
+
+/** A vehicle take resampled to a controller rate, ready for any number of previews. */
+export interface PreviewTake {
+  rate_hz: number;
+  time_s: Float64Array;
+  fx_mps2: Float64Array;
+  fy_mps2: Float64Array;
+  fz_mps2: Float64Array;
+  wx_radps: Float64Array;
+  wy_radps: Float64Array;
+  wz_radps: Float64Array;
+}
+
+/**
+ * Resamples a vehicle take to the controller rate as processTrack does (the same gap rule, the same
+ * anti-alias low-pass); throws ProcessInputError for a take processTrack would refuse.
+ */
+export function preparePreviewTake(track: Track, rate_hz: number): PreviewTake {
+  if (track.kind !== 'vehicle') {
+    throw new ProcessInputError(
+      'a cueing profile applies to vehicle takes only (a pose or legs take is played as it is)',
+    );
+  }
+  const spacing = medianSpacing(track.time_s);
+  for (const g of findGaps(track, spacing)) {
+    if (g.end_s - g.start_s > GAP_MAX_S) {
+      throw new ProcessInputError(
+        `time jumps from ${g.start_s} s to ${g.end_s} s, a gap over ${GAP_MAX_S} s: motion across it would be invented`,
+      );
+    }
+  }
+  const rs = resampleAntiAlias(track, rate_hz).track;
+  if (rs.length < 4) {
+    throw new ProcessInputError(
+      `the take spans ${rs.length} sample(s) at the controller rate ${rate_hz} Hz; at least 4 are needed`,
+    );
+  }
+  return {
+    rate_hz,
+    time_s: rs.time_s,
+    fx_mps2: trackColumn(rs, 'fx_mps2'),
+    fy_mps2: trackColumn(rs, 'fy_mps2'),
+    fz_mps2: trackColumn(rs, 'fz_mps2'),
+    wx_radps: trackColumn(rs, 'wx_radps'),
+    wy_radps: trackColumn(rs, 'wy_radps'),
+    wz_radps: trackColumn(rs, 'wz_radps'),
+  };
+}
+
+/** What a preview is computed with: the venue's base, its controller ramps, and the profile being edited. */
+export interface PreviewSettings {
+  base: MotionBase;
+  profile: CueingProfile;
+  ramp?: ControllerOutput['ramp'];
+  /** The stroke margin of the venue's budget (m); 0 when no budget is known. */
+  strokeMargin_m: number;
+}
+
+/** The preview's motion at the controller rate, and the figures shown beside the charts. */
+export interface PreviewMotion {
+  rate_hz: number;
+  time_s: Float64Array;
+  /** Pose offsets from neutral (m, rad); a planar stage keeps z, roll and pitch at 0. */
+  pose: PoseColumns;
+  /** Leg lengths (m), leg1 first. */
+  legs: Float64Array[];
+  /** Specific force at each seat [x, y, z] (m/s^2, platform frame), before the rider low-pass. */
+  seatForce_mps2: (readonly [Float64Array, Float64Array, Float64Array])[];
+  /** Highest stroke use per leg (0 at mid-stroke, 1 at the margin; strokeUse of checks.ts). */
+  strokeUse: number[];
+}
+
+/** Min/max chart bands of a preview, on one time axis. */
+export interface PreviewSeries {
+  time_s: number[];
+  pose: Record<keyof PoseColumns, SeriesBand>;
+  legs: SeriesBand[];
+  /** Seat 1's specific force per axis (m/s^2). */
+  seatForce: { x: SeriesBand; y: SeriesBand; z: SeriesBand };
+  stroke: { low_m: number; high_m: number; mid_m: number };
+}
+
+/** Peaks read out beside the charts (m, rad, m/s^2) and the worst stroke use. */
+export interface PreviewPeaks {
+  pose: Record<keyof PoseColumns, number>;
+  seatForce: { x: number; y: number; z: number };
+  strokeUse: number;
+  strokeLeg: number;
+}
+
+/** What the preview's Web Worker answers for one profile: the chart bands and the read-outs. */
+export interface PreviewOutput {
+  samples: number;
+  rate_hz: number;
+  series: PreviewSeries;
+  peaks: PreviewPeaks;
+  strokeUse: number[];
+}
+
+const POSE_KEYS = ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const;
+
+/** The motion of one profile on a prepared take (see the file comment: processTrack's steps, in its order). */
+export function computePreviewMotion(take: PreviewTake, settings: PreviewSettings): PreviewMotion {
+  const { base, profile } = settings;
+  const rate_hz = take.rate_hz;
+  if (rate_hz !== base.controllerRate_hz) {
+    throw new ProcessInputError(
+      `the take was prepared at ${rate_hz} Hz but the base runs at ${base.controllerRate_hz} Hz`,
+    );
+  }
+  let time_s = take.time_s;
+  const n = time_s.length;
+  const cued = cueClassical(take, profile);
+  const p = cued.pose;
+  let pose: PoseColumns = {
+    x_m: p.x_m,
+    y_m: p.y_m,
+    z_m: p.z_m,
+    roll_rad: p.roll_rad,
+    pitch_rad: p.pitch_rad,
+    yaw_rad: p.yaw_rad,
+  };
+  if (base.kind === 'planar3') {
+    pose.z_m = new Float64Array(n);
+    pose.roll_rad = new Float64Array(n);
+    pose.pitch_rad = new Float64Array(n);
+  }
+  if (settings.ramp && settings.ramp.duration_s > 0) {
+    const r = withNeutralRamps(time_s, pose, rate_hz, settings.ramp);
+    if (r.rampIn_s > 0) {
+      time_s = r.time_s;
+      pose = r.pose;
+    }
+  }
+  const legs =
+    base.kind === 'hexapod'
+      ? hexapodInverse(hexapodGeometry(base), pose)
+      : planar3Inverse(planar3Geometry(base), { x_m: pose.x_m, y_m: pose.y_m, yaw_rad: pose.yaw_rad });
+  const motion = platformMotion({ rate_hz, ...pose });
+  const seatForce_mps2 = base.seats_m.map((seat) => {
+    const f = seatForceFromMotion(motion, seat);
+    return [f.x, f.y, f.z] as const;
+  });
+  const band = strokeBand(base.leg, settings.strokeMargin_m);
+  const use = legs.map((leg) => {
+    let worst = 0;
+    for (let i = 0; i < leg.length; i++) worst = Math.max(worst, strokeUse(leg[i] as number, band));
+    return worst;
+  });
+  return { rate_hz, time_s, pose, legs, seatForce_mps2, strokeUse: use };
+}
+
+function peakAbs(a: Float64Array, offset = 0): number {
+  let m = 0;
+  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs((a[i] as number) - offset));
+  return m;
+}
+
+/**
+ * The preview for one profile: the motion (computePreviewMotion) reduced to chart bands and read-outs.
+ * This is the function the editor's Web Worker calls on every change.
+ */
+export function computeProfilePreview(take: PreviewTake, settings: PreviewSettings): PreviewOutput {
+  const m = computePreviewMotion(take, settings);
+  const edges = seriesBucketEdges(m.time_s.length, PREVIEW_BUCKETS);
+  const b = (a: Float64Array) => minMaxOnEdges(a, edges);
+  const time_s: number[] = [];
+  for (let k = 0; k + 1 < edges.length; k++) time_s.push(m.time_s[edges[k] as number] as number);
+  const seat = m.seatForce_mps2[0];
+  const zero = new Float64Array(m.time_s.length);
+  const stroke = strokeBand(settings.base.leg, settings.strokeMargin_m);
+  let strokeLeg = 0;
+  m.strokeUse.forEach((u, i) => {
+    if (u > (m.strokeUse[strokeLeg] ?? 0)) strokeLeg = i;
+  });
+  return {
+    samples: m.time_s.length,
+    rate_hz: m.rate_hz,
+    series: {
+      time_s,
+      pose: {
+        x_m: b(m.pose.x_m),
+        y_m: b(m.pose.y_m),
+        z_m: b(m.pose.z_m),
+        roll_rad: b(m.pose.roll_rad),
+        pitch_rad: b(m.pose.pitch_rad),
+        yaw_rad: b(m.pose.yaw_rad),
+      },
+      legs: m.legs.map(b),
+      seatForce: { x: b(seat?.[0] ?? zero), y: b(seat?.[1] ?? zero), z: b(seat?.[2] ?? zero) },
+      stroke: { low_m: stroke.low_m, high_m: stroke.high_m, mid_m: stroke.mid_m },
+    },
+    peaks: {
+      pose: Object.fromEntries(POSE_KEYS.map((k) => [k, sig(peakAbs(m.pose[k]))])) as Record<
+        keyof PoseColumns,
+        number
+      >,
+      seatForce: seat
+        ? { x: sig(peakAbs(seat[0])), y: sig(peakAbs(seat[1])), z: sig(peakAbs(seat[2])) }
+        : { x: 0, y: 0, z: 0 },
+      strokeUse: sig(m.strokeUse[strokeLeg] ?? 0),
+      strokeLeg: strokeLeg + 1,
+    },
+    strokeUse: m.strokeUse.map(sig),
+  };
+}
+
+/** The budget's verdict on a preview: every check's use, as a run would record it. */
+export interface PreviewChecks {
+  uses: Use[];
+  within: boolean;
+  exitCode: 0 | 3 | 4;
+  findings: number;
+}
+
+/**
+ * Every check of the budget on the take with this profile: processTrack itself (the worker's path), so
+ * the uses are the ones a run with these settings would record. About a second on a 10-minute take.
+ */
+export function previewChecks(track: Track, settings: PreviewSettings & { budget: Budget }): PreviewChecks {
+  const r = processTrack({
+    track,
+    base: settings.base,
+    budget: settings.budget,
+    profile: settings.profile,
+    ...(settings.ramp ? { ramp: settings.ramp } : {}),
+  });
+  return {
+    uses: r.findings.uses,
+    within: r.findings.within,
+    exitCode: r.exitCode,
+    findings: r.findings.findings.length,
+  };
+}

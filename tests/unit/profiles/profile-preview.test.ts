@@ -1,0 +1,163 @@
+// The profile editor's live preview against the worker's processing path. The reference is the call
+// worker/jobs/cue-run.ts (buildOutputsOf) makes for a run: processTrack({ track, base, budget, profile,
+// ramp }) from shared/motion/process.ts, on the whole take. The preview prepares the take once and
+// recomputes per profile (shared/motion/preview.ts), so it must give the same leg lengths and seat
+// specific force, to 1e-9, for every profile it is given in turn (a stage that kept state between
+// profiles, or wrote into the prepared take, would show here).
+import { matrix, multiply, norm, rotationMatrix, add, subtract } from 'mathjs';
+import type { Matrix } from 'mathjs';
+import { describe, expect, it } from 'vitest';
+import { demoRideSamples } from '../../../shared/demo-ride';
+import { DEMO_BUDGET } from '../../../shared/schemas/budget';
+import { defaultCueingProfile } from '../../../shared/schemas/cueing-profile';
+import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
+import { demoHexapodBase, demoPlanar3Base } from '../../../shared/schemas/motion-base';
+import type { MotionBase } from '../../../shared/schemas/motion-base';
+import { processTrack } from '../../../shared/motion/process';
+import {
+  computePreviewMotion,
+  computeProfilePreview,
+  preparePreviewTake,
+  previewChecks,
+} from '../../../shared/motion/preview';
+import type { Track } from '../../../shared/motion/track-reader';
+
+const TOL = 1e-9;
+
+function demoTake(duration_s = 30): Track {
+  const { time_s, samples } = demoRideSamples({ duration_s, rate_hz: 100 });
+  const n = time_s.length;
+  const columns = Array.from({ length: 6 }, (_, c) => Float64Array.from(samples, (s) => s[c] as number));
+  return {
+    kind: 'vehicle',
+    layout: 'vehicle',
+    length: n,
+    time_s: Float64Array.from(time_s),
+    names: ['fx_mps2', 'fy_mps2', 'fz_mps2', 'wx_radps', 'wy_radps', 'wz_radps'],
+    columns,
+  };
+}
+
+function maxDiff(a: Float64Array, b: Float64Array): number {
+  expect(a.length).toBe(b.length);
+  let d = 0;
+  for (let i = 0; i < a.length; i++) d = Math.max(d, Math.abs((a[i] as number) - (b[i] as number)));
+  return d;
+}
+
+function stiffer(p: CueingProfile): CueingProfile {
+  const q = structuredClone(p);
+  q.tilt.angleLimit_deg = 4;
+  q.translational.x = { order: 3, naturalFrequency_radps: 3.5, damping: 0.9, breakFrequency_radps: 1.2 };
+  q.scale.sway = 0.8;
+  return q;
+}
+
+const RAMP = { duration_s: 2, profile: 'quintic' as const };
+
+describe('profile preview against the worker path (processTrack as worker/jobs/cue-run.ts calls it)', () => {
+  const track = demoTake();
+  const cases: { name: string; base: MotionBase; ramp?: typeof RAMP }[] = [
+    { name: 'hexapod, no ramps', base: demoHexapodBase },
+    { name: 'hexapod, quintic ramps', base: demoHexapodBase, ramp: RAMP },
+    { name: 'planar stage, ramps', base: demoPlanar3Base, ramp: RAMP },
+  ];
+  for (const c of cases) {
+    it(`${c.name}: same legs and seat force for successive profiles`, () => {
+      const take = preparePreviewTake(track, c.base.controllerRate_hz);
+      for (const profile of [
+        defaultCueingProfile(),
+        stiffer(defaultCueingProfile()),
+        defaultCueingProfile(),
+      ]) {
+        const preview = computePreviewMotion(take, {
+          base: c.base,
+          profile,
+          ...(c.ramp ? { ramp: c.ramp } : {}),
+          strokeMargin_m: DEMO_BUDGET.strokeMargin_m,
+        });
+        const ref = processTrack({
+          track,
+          base: c.base,
+          budget: DEMO_BUDGET,
+          profile,
+          ...(c.ramp ? { ramp: c.ramp } : {}),
+        });
+        expect(maxDiff(preview.time_s, ref.time_s)).toBeLessThanOrEqual(TOL);
+        expect(preview.legs.length).toBe(ref.legs.length);
+        preview.legs.forEach((leg, i) => expect(maxDiff(leg, ref.legs[i]!)).toBeLessThanOrEqual(TOL));
+        expect(preview.seatForce_mps2.length).toBe(ref.seatForce_mps2.length);
+        preview.seatForce_mps2.forEach((seat, s) =>
+          seat.forEach((axis, a) =>
+            expect(maxDiff(axis, ref.seatForce_mps2[s]![a]!)).toBeLessThanOrEqual(TOL),
+          ),
+        );
+        // The stroke use read out beside the charts is the run's stroke use for each leg.
+        const refStroke = ref.check.uses.filter((u) => u.check === 'stroke');
+        preview.strokeUse.forEach((u, i) => {
+          const r = refStroke.find((x) => x.subject === `leg${i + 1}`);
+          expect(r).toBeDefined();
+          expect(Math.abs(u - r!.ratio)).toBeLessThanOrEqual(TOL);
+        });
+      }
+    });
+  }
+
+  it('the budget uses of previewChecks are the run summary uses of the same inputs', () => {
+    const profile = stiffer(defaultCueingProfile());
+    const checks = previewChecks(track, {
+      base: demoHexapodBase,
+      profile,
+      ramp: RAMP,
+      budget: DEMO_BUDGET,
+      strokeMargin_m: DEMO_BUDGET.strokeMargin_m,
+    });
+    const ref = processTrack({ track, base: demoHexapodBase, budget: DEMO_BUDGET, profile, ramp: RAMP });
+    expect(checks.uses).toEqual(ref.findings.uses);
+    expect(checks.exitCode).toBe(ref.exitCode);
+  });
+
+  it('leg lengths agree with |p + R P_i - B_i| computed with mathjs from the preview pose', () => {
+    // An oracle outside the motion core: mathjs rotationMatrix and norm, R = Rz(yaw) Ry(pitch) Rx(roll)
+    // (docs/motion-conventions.md, section 1).
+    const take = preparePreviewTake(track, demoHexapodBase.controllerRate_hz);
+    const m = computePreviewMotion(take, {
+      base: demoHexapodBase,
+      profile: defaultCueingProfile(),
+      strokeMargin_m: DEMO_BUDGET.strokeMargin_m,
+    });
+    const B = demoHexapodBase.baseJoints_m.map((b) => matrix([...b]));
+    const P = demoHexapodBase.platformJoints_m.map((p) => matrix([...p]));
+    let worst = 0;
+    for (let s = 0; s < m.time_s.length; s += 97) {
+      const R = multiply(
+        multiply(
+          rotationMatrix(m.pose.yaw_rad[s]!, matrix([0, 0, 1])),
+          rotationMatrix(m.pose.pitch_rad[s]!, matrix([0, 1, 0])),
+        ),
+        rotationMatrix(m.pose.roll_rad[s]!, matrix([1, 0, 0])),
+      ) as Matrix;
+      const p = matrix([m.pose.x_m[s]!, m.pose.y_m[s]!, m.pose.z_m[s]! + demoHexapodBase.neutralHeight_m]);
+      for (let i = 0; i < 6; i++) {
+        const L = norm(subtract(add(p, multiply(R, P[i]!)), B[i]!) as Matrix) as number;
+        worst = Math.max(worst, Math.abs(L - m.legs[i]![s]!));
+      }
+    }
+    expect(worst).toBeLessThanOrEqual(TOL);
+  });
+
+  it('a lower tilt angle limit lowers the peak pitch the preview reads out', () => {
+    const take = preparePreviewTake(track, demoHexapodBase.controllerRate_hz);
+    const settings = { base: demoHexapodBase, strokeMargin_m: DEMO_BUDGET.strokeMargin_m };
+    const wide = computeProfilePreview(take, { ...settings, profile: defaultCueingProfile() });
+    const narrow = computeProfilePreview(take, { ...settings, profile: stiffer(defaultCueingProfile()) });
+    expect(narrow.peaks.pose.pitch_rad).toBeLessThan(wide.peaks.pose.pitch_rad);
+    // The tilt limit is a bound on the tilt coordination angle (4 deg here), which the pitch includes.
+    expect(wide.series.time_s.length).toBeLessThanOrEqual(1000);
+  });
+
+  it('refuses a pose take, which no cueing profile changes', () => {
+    const pose: Track = { ...track, kind: 'pose', layout: 'hexapod' };
+    expect(() => preparePreviewTake(pose, 100)).toThrow(/vehicle takes only/);
+  });
+});
