@@ -189,7 +189,7 @@ export function RunView({
     <>
       <RunAlerts studioId={studioId} run={detail} />
       {run.isError ? <ErrorNotice error={run.error} /> : null}
-      <div className="grid grid-cols-1 items-start gap-4 xl:grid-cols-[minmax(0,7fr)_minmax(0,5fr)]">
+      <div className="grid grid-cols-1 items-start gap-4 min-[1360px]:grid-cols-[minmax(0,7fr)_minmax(0,5fr)]">
         <div className="flex min-w-0 flex-col gap-4">{decision}</div>
         {result ? (
           <Section
