@@ -87,7 +87,7 @@ export function bandValueText(band: ChartBand, index: number, scale = 1): string
 
 /** Four significant digits, no exponent for everyday magnitudes. */
 function formatReadout(v: number): string {
-  if (v === 0) return '0';
+  if (v === 0 || Math.abs(v) < 1e-9) return '0';
   const abs = Math.abs(v);
   if (abs >= 1e-3 && abs < 1e6) return String(Number(v.toPrecision(4)));
   return v.toExponential(2);
