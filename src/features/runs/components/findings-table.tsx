@@ -64,9 +64,11 @@ export function FindingsTable({
                 )}
                 {f.row !== undefined ? <span className="text-ink-600"> row {f.row}</span> : null}
                 <span className="block">
-                  <span>{subjectText(f)}</span>
+                  <span className="whitespace-nowrap">{subjectText(f)}</span>
                   {f.quantity !== undefined ? ` (${f.quantity})` : null} ·{' '}
-                  <SeverityText severity={f.severity} />
+                  <span className="whitespace-nowrap">
+                    <SeverityText severity={f.severity} />
+                  </span>
                 </span>
               </Td>
               <Td className="font-mono text-xs whitespace-nowrap">

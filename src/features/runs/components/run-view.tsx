@@ -1,7 +1,7 @@
 // The run page as a review workbench: the decision and the findings first, then the take on one time
 // axis with every finding marked, then the motion charts on the window of the finding selected, and
 // the reference material (spectra, comfort tables, touch-up, notes, files) folded away below.
-import { useCallback, useMemo, useState } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import type { ReactNode } from 'react';
 import { parseMotionBase } from '../../../../shared/schemas/motion-base';
 import type { MotionBase } from '../../../../shared/schemas/motion-base';
@@ -161,6 +161,18 @@ export function RunView({
   const run = useRun(studioId, runId);
   const findings = run.data?.result?.findings ?? NO_FINDINGS;
   const focus = useFindingFocus(findings);
+  const list = useRef<HTMLDivElement>(null);
+  // The selected finding's row scrolls into the list's own view (never the page: the reader may be
+  // at the charts, stepping through the findings with the arrow keys).
+  useEffect(() => {
+    const box = list.current;
+    const row = box?.querySelector<HTMLElement>('tr[aria-current="true"]');
+    if (!box || !row) return;
+    const top = row.getBoundingClientRect().top - box.getBoundingClientRect().top + box.scrollTop;
+    if (top < box.scrollTop) box.scrollTop = top;
+    else if (top + row.offsetHeight > box.scrollTop + box.clientHeight)
+      box.scrollTop = top + row.offsetHeight - box.clientHeight;
+  }, [focus.selected]);
   if (run.isPending)
     return (
       <>
@@ -202,7 +214,7 @@ export function RunView({
               </span>
             }
           >
-            <div className="max-h-[26rem] overflow-y-auto" data-testid="findings-list">
+            <div ref={list} className="max-h-[26rem] overflow-y-auto" data-testid="findings-list">
               <FindingsTable
                 findings={findings}
                 filmSync={detail.filmSync}
