@@ -214,7 +214,11 @@ export function RunView({
               </span>
             }
           >
-            <div ref={list} className="max-h-[26rem] overflow-y-auto" data-testid="findings-list">
+            <div
+              ref={list}
+              className="max-h-72 overflow-y-auto min-[1360px]:max-h-[26rem]"
+              data-testid="findings-list"
+            >
               <FindingsTable
                 findings={findings}
                 filmSync={detail.filmSync}
