@@ -7,7 +7,8 @@ import { createRequire } from 'node:module';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
-import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
+import { DEMO_PASSWORD, DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
+import { trackDetailSchema, trackPageSchema } from '../../shared/schemas/pipeline';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
@@ -126,6 +127,36 @@ describe('accessibility', () => {
           found.push(...(await seriousViolations(page)).map((v) => `run: ${v}`));
           await page.screenshot({ path: `${screenshotDir}/run-page-a11y.png`, fullPage: true });
         }
+      }
+
+      // A run page with findings as a reviewer works it: a finding selected on the timeline (the charts
+      // brought to it, its read-out shown), a chart group chosen, and every folded section opened.
+      const [, studioId] = /\/s\/([^/?#]+)/.exec(page.url()) ?? [];
+      const tracks = trackPageSchema.parse(
+        await (await page.request.get(new URL(`/api/studios/${studioId}/tracks`, baseUrl).href)).json(),
+      );
+      const demo = tracks.items.find((t) => t.title === DEMO_TRACK.title);
+      if (demo) {
+        const detail = trackDetailSchema.parse(
+          await (
+            await page.request.get(new URL(`/api/studios/${studioId}/tracks/${demo.id}`, baseUrl).href)
+          ).json(),
+        );
+        const withFindings = detail.runs.find((r) => (r.findingCount ?? 0) > 0);
+        expect(withFindings, 'a demo run with findings').toBeDefined();
+        await page.goto(new URL(`/s/${studioId}/runs/${withFindings!.id}`, baseUrl).href);
+        await page.getByRole('heading', { level: 1 }).first().waitFor();
+        await settle(page);
+        await page.getByTestId('take-timeline').locator('[data-finding]').first().click();
+        await page
+          .getByTestId('finding-readout')
+          .getByText(/finding \d+ of \d+/)
+          .waitFor();
+        await page.getByRole('tab', { name: 'Actuator use' }).click();
+        for (const summary of await page.locator('details > summary').all()) await summary.click();
+        await settle(page);
+        found.push(...(await seriousViolations(page)).map((v) => `run with a finding selected: ${v}`));
+        await page.screenshot({ path: `${screenshotDir}/run-page-finding-a11y.png`, fullPage: true });
       }
       expect(found).toEqual([]);
     } finally {

@@ -153,7 +153,8 @@ describe('pipeline screens', () => {
         const last = await lastXOf('Leg lengths inside the stroke band', `leg${i}`);
         expect(Math.abs(last - end_s), `leg${i} ends at ${last} s`).toBeLessThanOrEqual(bucket_s);
       }
-      // The spectra file is drawn too, on a log axis.
+      // The spectra file is drawn too, on a log axis, in its section folded away below the charts.
+      await page.locator('summary', { hasText: 'Spectra' }).click();
       await page.getByText('Power spectral density up to 5 Hz').waitFor({ timeout: 15_000 });
       // The 3-D preview draws with three.js once it has loaded; its slider moves the instant shown.
       const preview = page.getByTestId('base-preview');

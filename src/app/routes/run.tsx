@@ -18,14 +18,27 @@ export function RunRoute() {
   const run = useQuery({ ...getRunQueryOptions(membership.studioId, runId), enabled: canRead });
   return (
     <RoleGate permission="runs.read" what="Cue runs">
-      <PageHeading title="Cue run" subtitle="Input and cued motion, actuator use and the safety budget." />
-      <DecisionPanel
-        key={`decision-${runId}`}
+      <PageHeading
+        title="Cue run"
+        subtitle={
+          run.data
+            ? `${run.data.trackTitle}, take ${run.data.take.number} (${run.data.take.fileName}) at ${run.data.venueName}: the decision, the findings along the take and the motion behind them.`
+            : 'The decision, the findings along the take and the motion behind them.'
+        }
+      />
+      <RunView
+        key={runId}
         studioId={membership.studioId}
         runId={runId}
-        venueId={run.data?.venueId}
+        decision={
+          <DecisionPanel
+            key={`decision-${runId}`}
+            studioId={membership.studioId}
+            runId={runId}
+            venueId={run.data?.venueId}
+          />
+        }
       />
-      <RunView key={runId} studioId={membership.studioId} runId={runId} />
     </RoleGate>
   );
 }

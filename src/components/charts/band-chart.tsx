@@ -1,6 +1,8 @@
 // A uPlot chart of min/max bands on one time axis: each band is drawn as its min and max lines with
 // a fill between them, so a decimated signal still shows every peak. Finding spans are shaded behind
-// the lines and horizontal limit lines are drawn over them.
+// the lines with their edges drawn, horizontal limit lines are drawn over them, and the legend reads
+// every band's value at the shared cursor. The x window can be set from outside (a selected finding)
+// and by dragging across the plot; the element carries the window shown as data-x-min / data-x-max.
 import { memo, useEffect, useMemo, useRef } from 'react';
 import uPlot from 'uplot';
 import type { AlignedData, Options } from 'uplot';
@@ -19,6 +21,16 @@ export interface ChartSpan {
   from: number;
   to: number;
   color: string;
+  /** Edges drawn at `from` and `to`: solid (a hard limit), dashed (a comfort limit) or none (a gap). */
+  edge?: 'solid' | 'dashed' | 'none';
+  /** The selected span is drawn stronger; the others then step back. */
+  selected?: boolean;
+}
+
+/** A window of the x axis, in the x values' unit. */
+export interface XRange {
+  min: number;
+  max: number;
 }
 
 /** A horizontal line at a value in the chart's display unit, e.g. a stroke limit. */
@@ -52,6 +64,33 @@ export interface BandChartProps {
   onCursorIndex?: (index: number) => void;
   /** An x value to mark with a vertical line, e.g. the instant shown in the 3-D preview. */
   marker?: number | null;
+  /** The x window to show; null or absent, the whole of `x`. */
+  xRange?: XRange | null;
+  /** Called with the window dragged across the plot; without it, dragging does nothing. */
+  onZoom?: (range: XRange) => void;
+  /** The index into `x` whose values the legend reads out; null, none. */
+  cursorIndex?: number | null;
+  /** The unit shown after each value in the legend read-out; `yLabel` when not given. */
+  valueUnit?: string;
+}
+
+/** A band's value at one index for the read-out: "1.23", or "1.2 … 1.5" when the bucket's min and max differ. */
+export function bandValueText(band: ChartBand, index: number, scale = 1): string {
+  const lo = (band.min[index] ?? Number.NaN) * scale;
+  const hi = (band.max[index] ?? Number.NaN) * scale;
+  if (!Number.isFinite(lo) && !Number.isFinite(hi)) return '—';
+  if (!Number.isFinite(lo) || !Number.isFinite(hi)) return formatReadout(Number.isFinite(lo) ? lo : hi);
+  const a = formatReadout(lo);
+  const b = formatReadout(hi);
+  return a === b ? a : `${a} … ${b}`;
+}
+
+/** Four significant digits, no exponent for everyday magnitudes. */
+function formatReadout(v: number): string {
+  if (v === 0 || Math.abs(v) < 1e-9) return '0';
+  const abs = Math.abs(v);
+  if (abs >= 1e-3 && abs < 1e6) return String(Number(v.toPrecision(4)));
+  return v.toExponential(2);
 }
 
 /** uPlot's aligned columns: x, then min and max of each band, scaled for display. */
@@ -86,7 +125,10 @@ export function lastDrawnX(x: readonly number[], bands: readonly ChartBand[]): (
 }
 
 function chartOptions(
-  props: Required<Pick<BandChartProps, 'bands' | 'spans' | 'lines'>> & {
+  props: Required<Pick<BandChartProps, 'bands' | 'lines'>> & {
+    spans: () => readonly ChartSpan[];
+    onZoom: ((range: XRange) => void) | null;
+    onScale: (range: XRange) => void;
     xLabel: string;
     yLabel: string;
     yLog: boolean;
@@ -108,12 +150,17 @@ function chartOptions(
     if (band.min !== band.max)
       bands.push({ series: [2 + 2 * k, 1 + 2 * k], fill: withAlpha(band.color, 0.22) });
   });
-  const { spans, lines } = props;
+  const { lines } = props;
+  const zoom = props.onZoom;
   return {
     width: width_px,
     height: props.height_px,
     legend: { show: false },
-    cursor: props.syncKey ? { sync: { key: props.syncKey } } : {},
+    cursor: {
+      ...(props.syncKey ? { sync: { key: props.syncKey } } : {}),
+      // Dragging across the plot selects a window that every chart then shows (no zoom of one chart alone).
+      drag: { x: zoom !== null, y: false, setScale: false },
+    },
     scales: {
       x: { time: false },
       y: {
@@ -170,6 +217,22 @@ function chartOptions(
     series,
     bands,
     hooks: {
+      setScale: [
+        (u, key) => {
+          const min = u.scales.x?.min;
+          const max = u.scales.x?.max;
+          if (key === 'x' && typeof min === 'number' && typeof max === 'number') props.onScale({ min, max });
+        },
+      ],
+      setSelect: [
+        (u) => {
+          if (!zoom || u.select.width < 4) return;
+          const min = u.posToVal(u.select.left, 'x');
+          const max = u.posToVal(u.select.left + u.select.width, 'x');
+          u.setSelect({ left: 0, top: 0, width: 0, height: 0 }, false);
+          if (Number.isFinite(min) && Number.isFinite(max) && max > min) zoom({ min, max });
+        },
+      ],
       setCursor: [
         (u) => {
           const index = u.cursor.idx;
@@ -179,14 +242,30 @@ function chartOptions(
       drawClear: [
         (u) => {
           const { ctx } = u;
-          const { top, height } = u.bbox;
+          const { top, height, left, width } = u.bbox;
+          const spans = props.spans();
+          const anySelected = spans.some((span) => span.selected);
           ctx.save();
+          ctx.beginPath();
+          ctx.rect(left, top, width, height);
+          ctx.clip();
           for (const span of spans) {
             const x0 = u.valToPos(span.from, 'x', true);
             // A finding at one instant still gets a visible sliver.
-            const x1 = Math.max(u.valToPos(span.to, 'x', true), x0 + 2);
-            ctx.fillStyle = withAlpha(span.color, 0.18);
+            const x1 = Math.max(u.valToPos(span.to, 'x', true), x0 + 3 * devicePixelRatio);
+            const alpha = span.selected ? 0.24 : anySelected ? 0.14 : 0.28;
+            ctx.fillStyle = withAlpha(span.color, alpha);
             ctx.fillRect(x0, top, x1 - x0, height);
+            if (span.edge === 'none' || span.edge === undefined) continue;
+            ctx.setLineDash(span.edge === 'dashed' ? [4 * devicePixelRatio, 3 * devicePixelRatio] : []);
+            ctx.lineWidth = (span.selected ? 2 : 1) * devicePixelRatio;
+            ctx.strokeStyle = withAlpha(span.color, span.selected || !anySelected ? 1 : 0.5);
+            ctx.beginPath();
+            ctx.moveTo(Math.round(x0), top);
+            ctx.lineTo(Math.round(x0), top + height);
+            ctx.moveTo(Math.round(x1), top);
+            ctx.lineTo(Math.round(x1), top + height);
+            ctx.stroke();
           }
           ctx.restore();
         },
@@ -228,7 +307,20 @@ function chartOptions(
 const NO_SPANS: readonly ChartSpan[] = [];
 const NO_LINES: readonly ChartLine[] = [];
 
-/** One uPlot chart of bands over time with a small legend; redrawn when the data change and resized with its box. */
+/** The whole of an increasing x axis, or null when it has fewer than two finite ends. */
+function fullRange(x: readonly number[]): XRange | null {
+  const min = x[0];
+  const max = x[x.length - 1];
+  return min !== undefined && max !== undefined && Number.isFinite(min) && Number.isFinite(max) && max > min
+    ? { min, max }
+    : null;
+}
+
+/**
+ * One uPlot chart of bands over time with a legend that reads each band's value at the cursor; redrawn
+ * when the data change and resized with its box. Spans, the marker and the x window change without a
+ * rebuild.
+ */
 export const BandChart = memo(function BandChart({
   title,
   yLabel,
@@ -239,19 +331,28 @@ export const BandChart = memo(function BandChart({
   spans = NO_SPANS,
   lines = NO_LINES,
   scale = 1,
-  height_px = 180,
+  height_px = 280,
   syncKey,
   onCursorIndex,
   marker = null,
+  xRange = null,
+  onZoom,
+  cursorIndex = null,
+  valueUnit,
 }: BandChartProps) {
   const holder = useRef<HTMLDivElement>(null);
   const plotRef = useRef<uPlot | null>(null);
   const markerRef = useRef(marker);
-  // The latest callback, read by uPlot's hook, so a new callback never rebuilds the chart.
+  const spansRef = useRef(spans);
+  const rangeRef = useRef(xRange);
+  // The latest callbacks, read by uPlot's hooks, so a new callback never rebuilds the chart.
   const cursorHandler = useRef(onCursorIndex);
+  const zoomHandler = useRef(onZoom);
   useEffect(() => {
     cursorHandler.current = onCursorIndex;
-  }, [onCursorIndex]);
+    zoomHandler.current = onZoom;
+  }, [onCursorIndex, onZoom]);
+  const zoomable = onZoom !== undefined;
   const data = useMemo(() => bandChartData(x, bands, scale), [x, bands, scale]);
   // Exposed on the chart element so a test can check where each band's drawing ends.
   const lastX = useMemo(
@@ -268,14 +369,35 @@ export const BandChart = memo(function BandChart({
     const width_px = Math.max(el.clientWidth, 240);
     const onCursor = (index: number) => cursorHandler.current?.(index);
     const markerAt = () => markerRef.current;
+    const spansNow = () => spansRef.current;
+    // The window shown, on the element, for tests and for anyone reading the page's markup.
+    const onScale = (range: XRange) => {
+      el.dataset.xMin = String(range.min);
+      el.dataset.xMax = String(range.max);
+    };
     const plot = new uPlot(
       chartOptions(
-        { bands, spans, lines, xLabel, yLabel, yLog, height_px, syncKey, onCursor, marker: markerAt },
+        {
+          bands,
+          spans: spansNow,
+          lines,
+          xLabel,
+          yLabel,
+          yLog,
+          height_px,
+          syncKey,
+          onCursor,
+          marker: markerAt,
+          onZoom: zoomable ? (range) => zoomHandler.current?.(range) : null,
+          onScale,
+        },
         width_px,
       ),
       data,
       el,
     );
+    const start = rangeRef.current ?? fullRange(x);
+    if (start && typeof plot.setScale === 'function') plot.setScale('x', start);
     const observer =
       typeof ResizeObserver === 'undefined'
         ? null
@@ -290,38 +412,57 @@ export const BandChart = memo(function BandChart({
       plotRef.current = null;
       plot.destroy();
     };
-  }, [data, bands, spans, lines, xLabel, yLabel, yLog, height_px, syncKey]);
+  }, [data, x, bands, lines, xLabel, yLabel, yLog, height_px, syncKey, zoomable]);
 
-  // Moving the marker repaints the canvas without rebuilding the chart.
+  // Moving the marker or changing the spans repaints the canvas without rebuilding the chart.
   useEffect(() => {
     markerRef.current = marker;
+    spansRef.current = spans;
     plotRef.current?.redraw(false, false);
-  }, [marker]);
+  }, [marker, spans]);
 
+  // A new window (a finding selected, a drag, the whole take again) rescales x; y follows what is shown.
+  useEffect(() => {
+    rangeRef.current = xRange;
+    const plot = plotRef.current;
+    const to = xRange ?? fullRange(x);
+    if (plot && to && typeof plot.setScale === 'function') plot.setScale('x', to);
+  }, [xRange, x]);
+
+  const unit = valueUnit ?? yLabel;
+  const at = cursorIndex !== null && cursorIndex >= 0 && cursorIndex < x.length ? cursorIndex : null;
   return (
-    <figure className="flex min-w-0 flex-col gap-1">
-      <figcaption className="flex flex-wrap items-baseline gap-x-3 gap-y-0.5">
-        <span className="text-xs font-semibold text-ink-800">{title}</span>
-        {bands.map((band) => (
-          <span key={band.label} className="inline-flex items-center gap-1 text-xs text-ink-600">
-            <span
-              aria-hidden="true"
-              className="inline-block h-2 w-3 rounded-sm"
-              style={{ background: band.color }}
-            />
-            {band.label}
-          </span>
-        ))}
-        {lines.map((line) => (
-          <span key={line.label} className="inline-flex items-center gap-1 text-xs text-ink-600">
-            <span
-              aria-hidden="true"
-              className={`inline-block w-3 ${line.thin ? 'border-t border-dotted' : 'border-t-2 border-dashed'}`}
-              style={{ borderColor: line.color }}
-            />
-            {line.label}
-          </span>
-        ))}
+    <figure className="flex min-w-0 flex-col gap-1" data-cursor-index={at ?? undefined}>
+      <figcaption className="flex flex-col gap-0.5">
+        <span className="text-sm font-semibold text-ink-900">{title}</span>
+        <span className="flex flex-wrap items-baseline gap-x-3 gap-y-0.5">
+          {bands.map((band) => (
+            <span key={band.label} className="inline-flex items-center gap-1 text-xs text-ink-600">
+              <span
+                aria-hidden="true"
+                className="inline-block h-2 w-3 rounded-sm"
+                style={{ background: band.color }}
+              />
+              {band.label}
+              {at !== null ? (
+                <span className="font-mono text-ink-900" data-series={band.label}>
+                  {bandValueText(band, at, scale)}
+                  <span className="text-ink-600"> {unit}</span>
+                </span>
+              ) : null}
+            </span>
+          ))}
+          {lines.map((line) => (
+            <span key={line.label} className="inline-flex items-center gap-1 text-xs text-ink-600">
+              <span
+                aria-hidden="true"
+                className={`inline-block w-3 ${line.thin ? 'border-t border-dotted' : 'border-t-2 border-dashed'}`}
+                style={{ borderColor: line.color }}
+              />
+              {line.label}
+            </span>
+          ))}
+        </span>
       </figcaption>
       <div
         ref={holder}

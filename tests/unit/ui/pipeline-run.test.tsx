@@ -27,19 +27,34 @@ const member = (roles: Role[]): Membership => ({
 });
 
 const plots = vi.hoisted(
-  () => [] as { title: string | undefined; series: number; data: ArrayLike<number>[] }[],
+  () =>
+    [] as {
+      title: string | undefined;
+      series: number;
+      data: ArrayLike<number>[];
+      /** Every x window the chart was asked to show, in order; `destroyed` once it is gone. */
+      x: { min: number; max: number }[];
+      destroyed: boolean;
+    }[],
 );
 
 vi.mock('uplot', () => ({
   default: class {
     width: number;
+    entry: (typeof plots)[number];
     constructor(opts: { width: number; series: unknown[] }, data: ArrayLike<number>[], el: HTMLElement) {
       this.width = opts.width;
-      plots.push({ title: el.dataset.chart, series: opts.series.length, data });
+      this.entry = { title: el.dataset.chart, series: opts.series.length, data, x: [], destroyed: false };
+      plots.push(this.entry);
+    }
+    setScale(key: string, range: { min: number; max: number }) {
+      if (key === 'x') this.entry.x.push(range);
     }
     setSize() {}
     redraw() {}
-    destroy() {}
+    destroy() {
+      this.entry.destroyed = true;
+    }
   },
 }));
 
@@ -221,9 +236,49 @@ describe('run page', () => {
     );
 
     // Three force charts, two pose charts and the legs chart, each band as a min and a max series.
-    await waitFor(() => expect(plots).toHaveLength(6));
+    await waitFor(() => expect(plots.filter((p) => !p.destroyed)).toHaveLength(6));
     const legs = plots.find((p) => p.title === 'Leg lengths inside the stroke band')!;
     expect(legs.series).toBe(1 + 2 * 6);
+  });
+
+  it('brings every chart to a finding chosen in the list, reads out its numbers, and shows the whole take again', async () => {
+    fakeApi({
+      [`GET /api/studios/${STUDIO}/runs/${RUN}`]: () => json(makeRun()),
+      [`GET /api/studios/${STUDIO}/runs/${RUN}/series`]: () => json(SERIES),
+    });
+    renderWithApp(<RunView studioId={STUDIO} runId={RUN} />);
+    await waitFor(() => expect(plots.filter((p) => !p.destroyed)).toHaveLength(6));
+    const live = () => plots.filter((p) => !p.destroyed);
+    // At first every chart shows the whole take: the series' first to last bucket.
+    for (const p of live()) expect(p.x.at(-1)).toEqual({ min: 0, max: 20 });
+    const findings = screen.getByRole('table', { name: 'Findings' });
+    fireEvent.click(within(findings).getByRole('button', { name: /^Show Leg stroke, Leg 3/ }));
+    // Stroke on leg 3 from 12.31 s to 12.90 s: 0.59 s long, so 0.5 s of context each side.
+    await waitFor(() => {
+      for (const p of live()) {
+        expect(p.x.at(-1)!.min).toBeCloseTo(11.81, 9);
+        expect(p.x.at(-1)!.max).toBeCloseTo(13.4, 9);
+      }
+    });
+    // The window moves on the charts drawn; none is built again for it.
+    expect(plots).toHaveLength(6);
+    const readout = screen.getByTestId('finding-readout');
+    expect(readout).toHaveTextContent('Hard limit');
+    expect(within(readout).getByText('2.312 m')).toBeInTheDocument();
+    expect(within(readout).getByText('2.28 m')).toBeInTheDocument();
+    expect(readout).toHaveTextContent('1.014 ×');
+    expect(readout).toHaveTextContent('12.310–12.900 s');
+    // The timeline marks the same finding as pressed.
+    const marks = within(screen.getByTestId('take-timeline')).getAllByRole('button');
+    expect(marks.filter((m) => m.getAttribute('aria-pressed') === 'true')).toHaveLength(1);
+    expect(marks.find((m) => m.getAttribute('aria-pressed') === 'true')).toHaveAccessibleName(
+      /^Leg stroke, Leg 3, hard limit, 12\.31–12\.90 s/,
+    );
+    fireEvent.click(screen.getByRole('button', { name: 'Show whole take' }));
+    await waitFor(() => {
+      for (const p of live()) expect(p.x.at(-1)).toEqual({ min: 0, max: 20 });
+    });
+    expect(screen.getByTestId('finding-readout')).toHaveTextContent('No finding selected');
   });
 
   it('shows the failure reason in a red panel and draws no charts for a failed run', async () => {

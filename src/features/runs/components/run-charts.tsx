@@ -1,15 +1,18 @@
 // The run's charts from its decimated series. Values stay SI in the data; millimetres and degrees
 // exist only here, for display.
-import { useMemo, useState } from 'react';
+import { useCallback, useMemo, useRef, useState } from 'react';
+import type { KeyboardEvent, ReactNode } from 'react';
 import type { Finding } from '../../../../shared/schemas/findings';
 import type { MotionBase } from '../../../../shared/schemas/motion-base';
 import type { RunSeries, SeriesBand } from '../../../../shared/schemas/run-series';
 import { BandChart } from '../../../components/charts/band-chart';
-import type { ChartBand, ChartLine, ChartSpan } from '../../../components/charts/band-chart';
+import type { ChartBand, ChartLine, ChartSpan, XRange } from '../../../components/charts/band-chart';
 import { CHART_COLORS, withAlpha } from '../../../components/charts/palette';
 import type { FilmSync } from '../../../../shared/schemas/film-sync';
 import { BasePreview } from './base-preview';
 import { runTimecode } from '../utils/film-time';
+import { nearestIndex } from '../utils/finding-view';
+import { Button } from '../../../components/ui/button';
 
 const M_TO_MM = 1000;
 const RAD_TO_DEG = 180 / Math.PI;
@@ -36,12 +39,17 @@ export function takeColumnDisplay(name: string): { label: string; unit: string; 
   return { label: axis, unit: suffix, scale: 1 };
 }
 
-/** Finding spans coloured by severity: hard red, comfort amber. */
-export function findingSpans(findings: readonly Finding[]): ChartSpan[] {
-  return findings.map((f) => ({
+/**
+ * Finding spans coloured by tier: hard red with solid edges, comfort amber with dashed edges, so the
+ * tier reads without colour too. `selected` is the index into `findings` of the finding in view.
+ */
+export function findingSpans(findings: readonly Finding[], selected: number | null = null): ChartSpan[] {
+  return findings.map((f, i) => ({
     from: f.start_s,
     to: f.end_s,
     color: f.severity === 'hard' ? CHART_COLORS.hard : CHART_COLORS.comfort,
+    edge: f.severity === 'hard' ? 'solid' : 'dashed',
+    selected: i === selected,
   }));
 }
 
@@ -56,12 +64,111 @@ function poseBands(pose: Record<string, SeriesBand>, suffix: '_m' | '_rad'): Cha
     }));
 }
 
-/** Force per axis (input vs felt at seat 1), pose offsets and leg lengths inside the stroke band, with findings shaded. */
+/** The chart groups, by the question a reviewer asks of the motion. */
+export const CHART_GROUPS = [
+  { id: 'all', label: 'Everything' },
+  { id: 'rider', label: 'Rider feel' },
+  { id: 'pose', label: 'Platform pose' },
+  { id: 'actuators', label: 'Actuator use' },
+  { id: 'touchup', label: 'Take touch-up' },
+] as const;
+export type ChartGroupId = (typeof CHART_GROUPS)[number]['id'];
+
+const GROUP_QUESTIONS: Record<Exclude<ChartGroupId, 'all'>, string> = {
+  rider: 'What the rider feels: specific force at seat 1 against the vehicle’s.',
+  pose: 'Where the platform goes: its pose offset from neutral.',
+  actuators: 'What the legs do: lengths inside the usable stroke, forces against the rating.',
+  touchup: 'What the touch-up changed in the take, column by column.',
+};
+
+function ChartGroup({ id, children }: { id: Exclude<ChartGroupId, 'all'>; children: ReactNode }) {
+  const label = CHART_GROUPS.find((g) => g.id === id)?.label ?? id;
+  return (
+    <section className="flex flex-col gap-2" aria-label={label} data-chart-group={id}>
+      <header className="flex flex-wrap items-baseline gap-x-3 border-b border-ink-100 pb-1">
+        <h3 className="text-sm font-semibold text-ink-900">{label}</h3>
+        <p className="text-xs text-ink-600">{GROUP_QUESTIONS[id]}</p>
+      </header>
+      <div className="grid grid-cols-1 gap-x-6 gap-y-5 xl:grid-cols-2">{children}</div>
+    </section>
+  );
+}
+
+/** A row of tabs, one tab stop, the arrow keys move between them (the ARIA tabs pattern). */
+function GroupTabs({
+  groups,
+  current,
+  onChange,
+  panelId,
+}: {
+  groups: readonly { id: ChartGroupId; label: string }[];
+  current: ChartGroupId;
+  onChange: (id: ChartGroupId) => void;
+  panelId: string;
+}) {
+  const refs = useRef<(HTMLButtonElement | null)[]>([]);
+  const onKey = (event: KeyboardEvent<HTMLButtonElement>, k: number) => {
+    const step = event.key === 'ArrowRight' ? 1 : event.key === 'ArrowLeft' ? -1 : 0;
+    const to =
+      event.key === 'Home'
+        ? 0
+        : event.key === 'End'
+          ? groups.length - 1
+          : (k + step + groups.length) % groups.length;
+    if (step === 0 && event.key !== 'Home' && event.key !== 'End') return;
+    event.preventDefault();
+    const next = groups[to];
+    if (!next) return;
+    onChange(next.id);
+    refs.current[to]?.focus();
+  };
+  return (
+    <div role="tablist" aria-label="Chart groups" className="flex flex-wrap gap-1">
+      {groups.map((g, k) => {
+        const on = g.id === current;
+        return (
+          <button
+            key={g.id}
+            ref={(el) => {
+              refs.current[k] = el;
+            }}
+            type="button"
+            role="tab"
+            id={`${panelId}-tab-${g.id}`}
+            aria-selected={on}
+            aria-controls={panelId}
+            tabIndex={on ? 0 : -1}
+            onClick={() => onChange(g.id)}
+            onKeyDown={(event) => onKey(event, k)}
+            className={`rounded-t border-b-2 px-3 py-1 text-sm font-medium ${
+              on
+                ? 'border-tealdeep-600 text-tealdeep-700'
+                : 'border-transparent text-ink-600 hover:border-ink-200 hover:text-ink-900'
+            }`}
+          >
+            {g.label}
+          </button>
+        );
+      })}
+    </div>
+  );
+}
+
+/**
+ * The motion workbench: the charts grouped by what a reviewer asks (rider feel, platform pose,
+ * actuator use), all on one time axis with one cursor, the finding spans drawn on each, and one x
+ * window for all of them: a selected finding's, a window dragged across any chart, or the whole take.
+ */
 export function RunCharts({
   series,
   findings,
   base = null,
   filmSync = null,
+  view = null,
+  onView,
+  selected = null,
+  focus_s = null,
+  selection = null,
 }: {
   series: RunSeries;
   findings: readonly Finding[];
@@ -69,16 +176,38 @@ export function RunCharts({
   filmSync?: FilmSync | null;
   /** The venue's motion base for the 3-D preview; none, no preview. */
   base?: MotionBase | null;
+  /** The x window every chart shows; null, the whole take. */
+  view?: XRange | null;
+  /** Called with a new window (a drag across a chart) or null (the whole take again). */
+  onView?: (view: XRange | null) => void;
+  /** The index into `findings` of the selected finding, drawn stronger. */
+  selected?: number | null;
+  /** A time to move the cursor (and the 3-D preview) to, e.g. the middle of the selected finding. */
+  focus_s?: number | null;
+  /** The selected finding's read-out, shown in the toolbar above the charts. */
+  selection?: ReactNode;
 }) {
   // Gaps in the take (bridged by interpolation) are shaded in grey beside the finding spans.
-  const spans = useMemo(
+  const spans = useMemo<ChartSpan[]>(
     () => [
-      ...(series.gaps ?? []).map((g) => ({ from: g.start_s, to: g.end_s, color: CHART_COLORS.input })),
-      ...findingSpans(findings),
+      ...(series.gaps ?? []).map((g) => ({
+        from: g.start_s,
+        to: g.end_s,
+        color: CHART_COLORS.input,
+        edge: 'none' as const,
+      })),
+      ...findingSpans(findings, selected),
     ],
-    [findings, series.gaps],
+    [findings, series.gaps, selected],
   );
   const [index, setIndex] = useState(0);
+  const [group, setGroup] = useState<ChartGroupId>('all');
+  // A new focus (a finding selected) moves the cursor there once; the pointer moves it on from there.
+  const [seenFocus, setSeenFocus] = useState<number | null>(null);
+  if (focus_s !== seenFocus) {
+    setSeenFocus(focus_s);
+    if (focus_s !== null && Number.isFinite(focus_s)) setIndex(nearestIndex(series.time_s, focus_s));
+  }
   // The preview's instant is marked on every chart; without a preview there is nothing to mark.
   const marker_s = base ? (series.time_s[index] ?? null) : null;
   const force = useMemo(
@@ -159,118 +288,171 @@ export function RunCharts({
       })),
     [series],
   );
+  const zoom = useCallback((range: XRange) => onView?.(range), [onView]);
   const cursor_s = series.time_s[index] ?? null;
   const cursorTimecode = cursor_s === null ? null : runTimecode(cursor_s, filmSync);
-  // Every chart shares the time axis, the finding spans, the cursor and the instant marked.
-  const shared = { x: series.time_s, spans, syncKey: 'run', onCursorIndex: setIndex, marker: marker_s };
+  const first_s = series.time_s[0] ?? 0;
+  const last_s = series.time_s[series.time_s.length - 1] ?? 0;
+  // Every chart shares the time axis, the finding spans, the cursor, the instant marked and the window.
+  const shared = {
+    x: series.time_s,
+    spans,
+    syncKey: 'run',
+    onCursorIndex: setIndex,
+    cursorIndex: index,
+    marker: marker_s,
+    xRange: view,
+    onZoom: onView ? zoom : undefined,
+  };
+  const groups = CHART_GROUPS.filter((g) => g.id !== 'touchup' || touchupCharts.length > 0);
+  const shows = (id: ChartGroupId) => group === 'all' || group === id;
+  const panelId = 'run-chart-panel';
+
   return (
     <div className="flex flex-col gap-4" data-testid="run-charts">
+      <div
+        className="sticky top-0 z-10 -mx-4 flex flex-col gap-2 border-b border-ink-200 bg-white px-4 pt-2 pb-2"
+        data-testid="chart-toolbar"
+      >
+        <div className="flex flex-wrap items-end justify-between gap-3">
+          <GroupTabs groups={groups} current={group} onChange={setGroup} panelId={panelId} />
+          <p className="font-mono text-xs text-ink-800" data-testid="cursor-readout" aria-live="off">
+            {cursor_s === null ? '—' : `t = ${cursor_s.toFixed(3)} s`}
+            {cursorTimecode ? <span className="ml-2">TC {cursorTimecode}</span> : null}
+          </p>
+        </div>
+        <div className="flex flex-wrap items-center justify-between gap-3">
+          <div className="min-w-0 flex-1">{selection}</div>
+          <div className="flex items-center gap-2 text-xs text-ink-600">
+            <span data-testid="view-window">
+              {view
+                ? `Showing ${view.min.toFixed(2)}–${view.max.toFixed(2)} s of ${first_s.toFixed(2)}–${last_s.toFixed(2)} s`
+                : `Whole take, ${first_s.toFixed(2)}–${last_s.toFixed(2)} s`}
+            </span>
+            <Button size="sm" onClick={() => onView?.(null)} disabled={view === null}>
+              Show whole take
+            </Button>
+          </div>
+        </div>
+      </div>
       <p className="flex flex-wrap items-center gap-3 text-xs text-ink-600">
         <span>
           {series.samples.toLocaleString('en-GB')} samples at {series.rate_hz} Hz, drawn as min/max per
-          bucket.
+          bucket; the legend reads the bucket under the cursor. Drag across a chart to look closer.
         </span>
-        <span className="inline-flex items-center gap-1">
-          <span
-            aria-hidden="true"
-            className="inline-block h-3 w-3"
-            style={{ background: withAlpha(CHART_COLORS.hard, 0.35) }}
-          />
-          hard finding
-        </span>
-        <span className="inline-flex items-center gap-1">
-          <span
-            aria-hidden="true"
-            className="inline-block h-3 w-3"
-            style={{ background: withAlpha(CHART_COLORS.comfort, 0.35) }}
-          />
-          comfort finding
-        </span>
+        <SpanKey />
       </p>
-      <p className="font-mono text-xs text-ink-800" data-testid="cursor-readout">
-        {cursor_s === null ? '—' : `t = ${cursor_s.toFixed(3)} s`}
-        {cursorTimecode ? <span className="ml-2">TC {cursorTimecode}</span> : null}
-        <span className="ml-2 font-sans text-ink-400">(move the pointer over a chart)</span>
-      </p>
-      <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
-        {force.map(({ axis, bands }) => (
-          <BandChart
-            key={axis}
-            title={`Specific force ${AXIS_NAMES[axis]}`}
-            yLabel="m/s²"
-            bands={bands}
-            {...shared}
-            height_px={170}
-          />
-        ))}
-      </div>
-      <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
-        {translation.length > 0 ? (
-          <BandChart
-            title="Pose offset, translation"
-            yLabel="mm"
-            bands={translation}
-            {...shared}
-            scale={M_TO_MM}
-          />
-        ) : null}
-        {rotation.length > 0 ? (
-          <BandChart
-            title="Pose offset, rotation"
-            yLabel="deg"
-            bands={rotation}
-            {...shared}
-            scale={RAD_TO_DEG}
-          />
-        ) : null}
-      </div>
-      <BandChart
-        title="Leg lengths inside the stroke band"
-        yLabel="m"
-        bands={legs}
-        {...shared}
-        lines={strokeLines}
-        height_px={220}
-      />
-      {legForce.length > 0 ? (
-        <BandChart
-          title="Actuator forces (compression positive)"
-          yLabel="kN"
-          bands={legForce}
-          {...shared}
-          lines={forceLines}
-          scale={1e-3}
-          height_px={200}
-        />
-      ) : null}
-      {touchupCharts.length > 0 ? (
-        <div className="flex flex-col gap-2" data-testid="touchup-charts">
-          <h3 className="text-xs font-semibold text-ink-800">
-            Take touch-up: each column as uploaded and after the touch-up
-          </h3>
-          <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
-            {touchupCharts.map((c) => (
+      <div
+        id={panelId}
+        role="tabpanel"
+        aria-labelledby={`${panelId}-tab-${group}`}
+        className="flex flex-col gap-6"
+      >
+        {shows('rider') ? (
+          <ChartGroup id="rider">
+            {force.map(({ axis, bands }) => (
               <BandChart
-                key={c.name}
-                title={`Touch-up ${c.label}`}
-                yLabel={c.unit}
-                bands={c.bands}
+                key={axis}
+                title={`Specific force ${AXIS_NAMES[axis]}`}
+                yLabel="m/s²"
+                bands={bands}
                 {...shared}
-                scale={c.scale}
-                height_px={150}
               />
             ))}
+          </ChartGroup>
+        ) : null}
+        {shows('pose') && (translation.length > 0 || rotation.length > 0) ? (
+          <ChartGroup id="pose">
+            {translation.length > 0 ? (
+              <BandChart
+                title="Pose offset, translation"
+                yLabel="mm"
+                bands={translation}
+                {...shared}
+                scale={M_TO_MM}
+              />
+            ) : null}
+            {rotation.length > 0 ? (
+              <BandChart
+                title="Pose offset, rotation"
+                yLabel="deg"
+                bands={rotation}
+                {...shared}
+                scale={RAD_TO_DEG}
+              />
+            ) : null}
+          </ChartGroup>
+        ) : null}
+        {shows('actuators') ? (
+          <ChartGroup id="actuators">
+            <BandChart
+              title="Leg lengths inside the stroke band"
+              yLabel="m"
+              bands={legs}
+              {...shared}
+              lines={strokeLines}
+            />
+            {legForce.length > 0 ? (
+              <BandChart
+                title="Actuator forces (compression positive)"
+                yLabel="kN"
+                bands={legForce}
+                {...shared}
+                lines={forceLines}
+                scale={1e-3}
+              />
+            ) : null}
+            {base ? (
+              <div className="flex min-w-0 flex-col gap-1">
+                <h4 className="text-sm font-semibold text-ink-900">
+                  Motion base at the cursor (the venue&apos;s current geometry)
+                </h4>
+                <BasePreview base={base} series={series} index={index} onIndex={setIndex} />
+              </div>
+            ) : null}
+          </ChartGroup>
+        ) : null}
+        {shows('touchup') && touchupCharts.length > 0 ? (
+          <div data-testid="touchup-charts">
+            <ChartGroup id="touchup">
+              {touchupCharts.map((c) => (
+                <BandChart
+                  key={c.name}
+                  title={`Touch-up ${c.label}`}
+                  yLabel={c.unit}
+                  bands={c.bands}
+                  {...shared}
+                  scale={c.scale}
+                />
+              ))}
+            </ChartGroup>
           </div>
-        </div>
-      ) : null}
-      {base ? (
-        <div className="flex flex-col gap-1">
-          <h3 className="text-xs font-semibold text-ink-800">
-            Motion base (the venue&apos;s current geometry)
-          </h3>
-          <BasePreview base={base} series={series} index={index} onIndex={setIndex} />
-        </div>
-      ) : null}
+        ) : null}
+      </div>
     </div>
+  );
+}
+
+/** The key to the shaded spans: the tiers by fill and edge. */
+export function SpanKey() {
+  return (
+    <span className="inline-flex flex-wrap items-center gap-3">
+      <span className="inline-flex items-center gap-1">
+        <span
+          aria-hidden="true"
+          className="inline-block h-3 w-4 border-x-2 border-solid"
+          style={{ background: withAlpha(CHART_COLORS.hard, 0.3), borderColor: CHART_COLORS.hard }}
+        />
+        hard-limit finding
+      </span>
+      <span className="inline-flex items-center gap-1">
+        <span
+          aria-hidden="true"
+          className="inline-block h-3 w-4 border-x-2 border-dashed"
+          style={{ background: withAlpha(CHART_COLORS.comfort, 0.3), borderColor: CHART_COLORS.comfort }}
+        />
+        comfort finding
+      </span>
+    </span>
   );
 }

@@ -39,54 +39,71 @@ function AskAgain({ studioId, runId }: { studioId: string; runId: string }) {
 
 /** What the run is (track, take, venue, profile versions), where it stands, and why it failed if it did. */
 export function RunHeader({ studioId, run }: { studioId: string; run: RunDetail }) {
+  return (
+    <div className="flex flex-col gap-3">
+      <RunFacts studioId={studioId} run={run} />
+      <RunAlerts studioId={studioId} run={run} />
+    </div>
+  );
+}
+
+/** What the run is: track, take, venue, state, profile versions, worst use and its times. */
+export function RunFacts({ studioId, run }: { studioId: string; run: RunDetail }) {
   // The venue is the subject: its times are the venue's local times (same cached query as the preview).
   const timeZone = useVenue(studioId, run.venueId).data?.timeZone;
   return (
+    <dl className="grid grid-cols-2 gap-x-6 gap-y-2 rounded border border-ink-200 bg-white p-4 md:grid-cols-4">
+      <Fact label="Track">
+        <Link to={`/s/${studioId}/tracks/${run.trackId}`} className="text-tealdeep-600 underline">
+          {run.trackTitle}
+        </Link>
+      </Fact>
+      <Fact label="Take">
+        <span className="font-mono">#{run.take.number}</span> {run.take.fileName}
+        <span className="block text-xs text-ink-600">
+          {formatDuration_s(run.take.duration_s)} · {formatBytes(run.take.sizeBytes)} ·{' '}
+          <span className="font-mono" title={run.take.sha256}>
+            {shortSha(run.take.sha256)}
+          </span>
+        </span>
+      </Fact>
+      <Fact label="Venue">
+        <Link to={`/s/${studioId}/venues/${run.venueId}`} className="text-tealdeep-600 underline">
+          {run.venueName}
+        </Link>
+      </Fact>
+      <Fact label="State">
+        <RunStateBadge state={run.state} />
+      </Fact>
+      <Fact label="Cueing profile">
+        {run.cueingVersion
+          ? `${run.cueingVersion.name} v${run.cueingVersion.version}`
+          : 'none (the take is already a pose or legs track)'}
+      </Fact>
+      <Fact label="Budget profile">
+        {run.budgetVersion.name} v{run.budgetVersion.version}
+      </Fact>
+      <Fact label="Worst use">
+        <UseRatioBar ratio={run.worstRatio} label={run.worstCheck ?? undefined} />
+        {run.worstCheck ? (
+          <span className="ml-2 text-xs text-ink-600">{checkLabel(run.worstCheck)}</span>
+        ) : null}
+      </Fact>
+      <Fact label="Queued / finished">
+        <span className="text-xs">
+          {formatVenueTime(run.createdAt, timeZone)}
+          {run.finishedAt ? ` / ${formatVenueTime(run.finishedAt, timeZone)}` : ''}
+        </span>
+      </Fact>
+    </dl>
+  );
+}
+
+/** Where the run stands when that needs saying: stalled, cueing, failed, or judged against the DEMO budget. */
+export function RunAlerts({ studioId, run }: { studioId: string; run: RunDetail }) {
+  if (!run.stalled && !isRunActive(run.state) && run.state !== 'failed' && !run.budgetIsDemo) return null;
+  return (
     <div className="flex flex-col gap-3">
-      <dl className="grid grid-cols-2 gap-x-6 gap-y-2 rounded border border-ink-200 bg-white p-4 md:grid-cols-4">
-        <Fact label="Track">
-          <Link to={`/s/${studioId}/tracks/${run.trackId}`} className="text-tealdeep-600 underline">
-            {run.trackTitle}
-          </Link>
-        </Fact>
-        <Fact label="Take">
-          <span className="font-mono">#{run.take.number}</span> {run.take.fileName}
-          <span className="block text-xs text-ink-600">
-            {formatDuration_s(run.take.duration_s)} · {formatBytes(run.take.sizeBytes)} ·{' '}
-            <span className="font-mono" title={run.take.sha256}>
-              {shortSha(run.take.sha256)}
-            </span>
-          </span>
-        </Fact>
-        <Fact label="Venue">
-          <Link to={`/s/${studioId}/venues/${run.venueId}`} className="text-tealdeep-600 underline">
-            {run.venueName}
-          </Link>
-        </Fact>
-        <Fact label="State">
-          <RunStateBadge state={run.state} />
-        </Fact>
-        <Fact label="Cueing profile">
-          {run.cueingVersion
-            ? `${run.cueingVersion.name} v${run.cueingVersion.version}`
-            : 'none (the take is already a pose or legs track)'}
-        </Fact>
-        <Fact label="Budget profile">
-          {run.budgetVersion.name} v{run.budgetVersion.version}
-        </Fact>
-        <Fact label="Worst use">
-          <UseRatioBar ratio={run.worstRatio} label={run.worstCheck ?? undefined} />
-          {run.worstCheck ? (
-            <span className="ml-2 text-xs text-ink-600">{checkLabel(run.worstCheck)}</span>
-          ) : null}
-        </Fact>
-        <Fact label="Queued / finished">
-          <span className="text-xs">
-            {formatVenueTime(run.createdAt, timeZone)}
-            {run.finishedAt ? ` / ${formatVenueTime(run.finishedAt, timeZone)}` : ''}
-          </span>
-        </Fact>
-      </dl>
       {run.stalled ? (
         <div
           role="alert"

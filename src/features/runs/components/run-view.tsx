@@ -1,6 +1,14 @@
-import { useMemo } from 'react';
+// The run page as a review workbench: the decision and the findings first, then the take on one time
+// axis with every finding marked, then the motion charts on the window of the finding selected, and
+// the reference material (spectra, comfort tables, touch-up, notes, files) folded away below.
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import type { ReactNode } from 'react';
 import { parseMotionBase } from '../../../../shared/schemas/motion-base';
 import type { MotionBase } from '../../../../shared/schemas/motion-base';
+import type { Finding } from '../../../../shared/schemas/findings';
+import type { FilmSync } from '../../../../shared/schemas/film-sync';
+import type { RunSeries } from '../../../../shared/schemas/run-series';
+import type { XRange } from '../../../components/charts/band-chart';
 import { CAUTION_TEXT } from '../../../components/layout/caution-strip';
 import { Section } from '../../../components/ui/section';
 import { ErrorNotice, Loading } from '../../../components/ui/status';
@@ -10,14 +18,17 @@ import { useRunSeries } from '../api/get-run-series';
 import { useVenue } from '../../../lib/queries/venues';
 import { BudgetTable } from './budget-table';
 import { ComfortSummary } from './comfort-summary';
+import { FindingReadout } from './finding-readout';
 import { FindingsTable } from './findings-table';
+import { Fold } from './fold';
 import { RunCharts } from './run-charts';
 import { RunFiles } from './run-files';
-import { RunHeader } from './run-header';
+import { RunAlerts, RunFacts } from './run-header';
 import { RunSpectra } from './run-spectra';
 import { FilmSyncPanel } from './film-sync-panel';
+import { TakeTimeline } from './take-timeline';
 import { TouchupSummary } from './touchup-summary';
-import type { FilmSync } from '../../../../shared/schemas/film-sync';
+import { findingWindow } from '../utils/finding-view';
 
 function readBase(base: unknown): MotionBase | null {
   try {
@@ -28,37 +39,156 @@ function readBase(base: unknown): MotionBase | null {
   }
 }
 
-function Charts({
+/** Which finding is selected and which window every chart shows, shared by the list, the timeline and the charts. */
+function useFindingFocus(findings: readonly Finding[]) {
+  const [selected, setSelected] = useState<number | null>(null);
+  const [view, setView] = useState<XRange | null>(null);
+  const order = useMemo(
+    () =>
+      findings
+        .map((f, i) => ({ f, i }))
+        .sort((a, b) => a.f.start_s - b.f.start_s || b.f.ratio - a.f.ratio)
+        .map((o) => o.i),
+    [findings],
+  );
+  const select = useCallback(
+    (index: number) => {
+      const f = findings[index];
+      if (!f) return;
+      setSelected(index);
+      setView(findingWindow(f));
+    },
+    [findings],
+  );
+  const onView = useCallback((next: XRange | null) => {
+    setView(next);
+    // The whole take again lets go of the finding too.
+    if (next === null) setSelected(null);
+  }, []);
+  const position = selected === null ? -1 : order.indexOf(selected);
+  const step = useCallback(
+    (by: -1 | 1) => {
+      const next = order[Math.min(Math.max(position + by, 0), order.length - 1)];
+      if (next !== undefined) select(next);
+    },
+    [order, position, select],
+  );
+  return { selected, view, select, onView, position, step };
+}
+
+function Workbench({
   studioId,
   runId,
   venueId,
+  takeDuration_s,
   findings,
   filmSync,
+  focus,
 }: {
   studioId: string;
   runId: string;
   venueId: string;
-  findings: Parameters<typeof RunCharts>[0]['findings'];
+  takeDuration_s: number;
+  findings: readonly Finding[];
   filmSync: FilmSync | null;
+  focus: ReturnType<typeof useFindingFocus>;
 }) {
   const series = useRunSeries(studioId, runId, true);
   const venue = useVenue(studioId, venueId);
   const base = useMemo(() => (venue.data ? readBase(venue.data.base) : null), [venue.data]);
-  if (series.isPending) return <Loading what="Loading the chart series" />;
-  if (series.isError) return <ErrorNotice error={series.error} retry={() => void series.refetch()} />;
-  return <RunCharts series={series.data} findings={findings} base={base} filmSync={filmSync} />;
+  const range = useMemo(() => takeRange(series.data, takeDuration_s), [series.data, takeDuration_s]);
+  const finding = focus.selected === null ? null : (findings[focus.selected] ?? null);
+  const focus_s = finding ? (finding.start_s + finding.end_s) / 2 : null;
+  return (
+    <>
+      <TakeTimeline
+        findings={findings}
+        range={range}
+        view={focus.view}
+        selected={focus.selected}
+        onSelect={focus.select}
+      />
+      <Section title="Motion" testId="motion-workbench">
+        {series.isPending ? <Loading what="Loading the chart series" /> : null}
+        {series.isError ? <ErrorNotice error={series.error} retry={() => void series.refetch()} /> : null}
+        {series.data ? (
+          <RunCharts
+            series={series.data}
+            findings={findings}
+            base={base}
+            filmSync={filmSync}
+            view={focus.view}
+            onView={focus.onView}
+            selected={focus.selected}
+            focus_s={focus_s}
+            selection={
+              <FindingReadout
+                finding={finding}
+                position={focus.position}
+                count={findings.length}
+                filmSync={filmSync}
+                onStep={focus.step}
+              />
+            }
+          />
+        ) : null}
+      </Section>
+    </>
+  );
 }
 
-/** Everything about one cue run: header, live progress, charts, budget, findings, comfort, files and the caution. */
-export function RunView({ studioId, runId }: { studioId: string; runId: string }) {
+/** The take's whole time axis: the series' (ramps included) once loaded, else 0 to the take's length. */
+function takeRange(series: RunSeries | undefined, takeDuration_s: number): XRange {
+  const first = series?.time_s[0];
+  const last = series?.time_s[series.time_s.length - 1];
+  if (first !== undefined && last !== undefined && last > first) return { min: first, max: last };
+  return { min: 0, max: Math.max(takeDuration_s, 1) };
+}
+
+/**
+ * Everything about one cue run. `decision` (the review feature's panel, placed by the route) leads
+ * the page beside the findings.
+ */
+export function RunView({
+  studioId,
+  runId,
+  decision = null,
+}: {
+  studioId: string;
+  runId: string;
+  decision?: ReactNode;
+}) {
   const run = useRun(studioId, runId);
-  if (run.isPending) return <Loading what="Loading the run" />;
+  const findings = run.data?.result?.findings ?? NO_FINDINGS;
+  const focus = useFindingFocus(findings);
+  const list = useRef<HTMLDivElement>(null);
+  // The selected finding's row scrolls into the list's own view (never the page: the reader may be
+  // at the charts, stepping through the findings with the arrow keys).
+  useEffect(() => {
+    const box = list.current;
+    const row = box?.querySelector<HTMLElement>('tr[aria-current="true"]');
+    if (!box || !row) return;
+    const top = row.getBoundingClientRect().top - box.getBoundingClientRect().top + box.scrollTop;
+    if (top < box.scrollTop) box.scrollTop = top;
+    else if (top + row.offsetHeight > box.scrollTop + box.clientHeight)
+      box.scrollTop = top + row.offsetHeight - box.clientHeight;
+  }, [focus.selected]);
+  if (run.isPending)
+    return (
+      <>
+        {decision}
+        <Loading what="Loading the run" />
+      </>
+    );
   if (run.isError && !run.data) {
     return (
-      <ErrorNotice
-        error={run.error}
-        retry={isUnauthorized(run.error) ? undefined : () => void run.refetch()}
-      />
+      <>
+        {decision}
+        <ErrorNotice
+          error={run.error}
+          retry={isUnauthorized(run.error) ? undefined : () => void run.refetch()}
+        />
+      </>
     );
   }
   const detail = run.data;
@@ -69,34 +199,13 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
 
   return (
     <>
-      <RunHeader studioId={studioId} run={detail} />
+      <RunAlerts studioId={studioId} run={detail} />
       {run.isError ? <ErrorNotice error={run.error} /> : null}
-      <FilmSyncPanel studioId={studioId} run={detail} />
-      {detail.params.touchup ? (
-        <Section title="Touch-up">
-          <TouchupSummary touchup={detail.params.touchup} />
-        </Section>
-      ) : null}
-      {finished ? (
-        <Section title="Motion">
-          <Charts
-            studioId={studioId}
-            runId={runId}
-            venueId={detail.venueId}
-            findings={result?.findings ?? []}
-            filmSync={detail.filmSync}
-          />
-        </Section>
-      ) : null}
-      {finished && detail.files.some((file) => file.name === 'spectra.json') ? (
-        <Section title="Spectra">
-          <RunSpectra studioId={studioId} runId={runId} />
-        </Section>
-      ) : null}
-      {result ? (
-        <>
+      <div className="grid grid-cols-1 items-start gap-4 min-[1360px]:grid-cols-[minmax(0,7fr)_minmax(0,5fr)]">
+        <div className="flex min-w-0 flex-col gap-4">{decision}</div>
+        {result ? (
           <Section
-            title="Budget"
+            title={`Findings (${findings.length})`}
             aside={
               <span
                 className={`text-sm font-medium ${result.within ? 'text-tealdeep-700' : 'text-stop-700'}`}
@@ -105,31 +214,69 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
               </span>
             }
           >
-            <BudgetTable uses={result.uses} />
+            <div
+              ref={list}
+              className="max-h-72 overflow-y-auto min-[1360px]:max-h-[26rem]"
+              data-testid="findings-list"
+            >
+              <FindingsTable
+                findings={findings}
+                filmSync={detail.filmSync}
+                selected={focus.selected}
+                onSelect={focus.select}
+              />
+            </div>
           </Section>
-          <Section title={`Findings (${result.findings.length})`}>
-            <FindingsTable findings={result.findings} filmSync={detail.filmSync} />
-          </Section>
-          {result.comfort ? (
-            <Section title="Comfort and motion sickness (ISO 2631-1)">
-              <ComfortSummary comfort={result.comfort} />
-            </Section>
-          ) : null}
-          {notes.length > 0 ? (
-            <Section title="Notes">
-              <ul className="list-disc pl-5 text-sm text-ink-800">
-                {notes.map((note) => (
-                  <li key={note}>{note}</li>
-                ))}
-              </ul>
-            </Section>
-          ) : null}
-        </>
+        ) : (
+          <RunFacts studioId={studioId} run={detail} />
+        )}
+      </div>
+      <FilmSyncPanel studioId={studioId} run={detail} />
+      {finished ? (
+        <Workbench
+          studioId={studioId}
+          runId={runId}
+          venueId={detail.venueId}
+          takeDuration_s={detail.take.duration_s}
+          findings={findings}
+          filmSync={detail.filmSync}
+          focus={focus}
+        />
+      ) : null}
+      {result ? <RunFacts studioId={studioId} run={detail} /> : null}
+      {result ? (
+        <Section title="Budget">
+          <BudgetTable uses={result.uses} />
+        </Section>
+      ) : null}
+      {finished && detail.files.some((file) => file.name === 'spectra.json') ? (
+        <Fold title="Spectra">
+          <RunSpectra studioId={studioId} runId={runId} />
+        </Fold>
+      ) : null}
+      {result?.comfort ? (
+        <Fold title="Comfort and motion sickness (ISO 2631-1)">
+          <ComfortSummary comfort={result.comfort} />
+        </Fold>
+      ) : null}
+      {detail.params.touchup ? (
+        <Fold title="Touch-up">
+          <TouchupSummary touchup={detail.params.touchup} />
+        </Fold>
+      ) : null}
+      {notes.length > 0 ? (
+        <Fold title={`Notes (${notes.length})`}>
+          <ul className="list-disc pl-5 text-sm text-ink-800">
+            {notes.map((note) => (
+              <li key={note}>{note}</li>
+            ))}
+          </ul>
+        </Fold>
       ) : null}
       {detail.files.length > 0 ? (
-        <Section title="Files">
+        <Fold title={`Files and hashes (${detail.files.length})`}>
           <RunFiles studioId={studioId} runId={runId} files={detail.files} />
-        </Section>
+        </Fold>
       ) : null}
       <p
         role="note"
@@ -142,3 +289,5 @@ export function RunView({ studioId, runId }: { studioId: string; runId: string }
     </>
   );
 }
+
+const NO_FINDINGS: readonly Finding[] = [];
