@@ -42,9 +42,14 @@ function Change({ delta, shift }: { delta: number | null; shift: BudgetRow['shif
 /** The budget uses of every run side by side, with each run's change from the first and its findings. */
 export function CompareBudget({ runs, shortList = 15 }: { runs: readonly RunDetail[]; shortList?: number }) {
   const [all, setAll] = useState(false);
+  const venuesDiffer = new Set(runs.map((r) => r.venueId)).size > 1;
   const rows = useMemo(
-    () => budgetRows(runs.map((r) => ({ uses: r.result?.uses ?? [], findings: r.result?.findings ?? [] }))),
-    [runs],
+    () =>
+      budgetRows(
+        runs.map((r) => ({ uses: r.result?.uses ?? [], findings: r.result?.findings ?? [] })),
+        { legsComparable: !venuesDiffer },
+      ),
+    [runs, venuesDiffer],
   );
   const budgetsDiffer = new Set(runs.map((r) => r.budgetVersion.id)).size > 1;
   const shown = all ? rows : rows.slice(0, shortList);
@@ -55,6 +60,12 @@ export function CompareBudget({ runs, shortList = 15 }: { runs: readonly RunDeta
           The runs are checked against different budgets (
           {runs.map((r, k) => `${runLetter(k)}: ${versionWords(r.budgetVersion)}`).join('; ')}): each use is
           of that run’s own limit, shown where a finding gives it.
+        </p>
+      ) : null}
+      {venuesDiffer ? (
+        <p className="text-xs text-ink-800">
+          The runs play on different motion bases: actuator checks (stroke, leg speed, acceleration and force)
+          show each run’s own use but no change, as a leg of one base is not the same leg of another.
         </p>
       ) : null}
       <Table caption="Budget uses side by side">

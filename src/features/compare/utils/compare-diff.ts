@@ -4,14 +4,21 @@
 import { CHECK_SEVERITY } from '../../../../shared/schemas/findings';
 import type { CheckName, Finding, Severity, Use } from '../../../../shared/schemas/findings';
 
+import { ratioTone } from '../../../components/charts/run-badges';
+
 export { COMPARE_MAX_RUNS, compareSelection } from '../../../lib/compare-selection';
 
-/** The tiers of a use ratio, as the app's use bars draw them: below 0.8, 0.8 to 1, 1 and above. */
-export type UseTone = 'ok' | 'close' | 'over';
-export function useTone(ratio: number): UseTone {
-  if (ratio >= 1) return 'over';
-  return ratio >= 0.8 ? 'close' : 'ok';
-}
+/** The tiers of a use ratio, exactly as the app's use bars draw them (below 0.8, 0.8 to 1, 1 and above). */
+export type UseTone = ReturnType<typeof ratioTone>;
+export const useTone = ratioTone;
+
+/** Checks whose subject is an actuator of the base. */
+export const LEG_CHECKS: ReadonlySet<CheckName> = new Set<CheckName>([
+  'stroke',
+  'legSpeed',
+  'legAccel',
+  'legForce',
+]);
 
 const TONE_RANK: Record<UseTone, number> = { ok: 0, close: 1, over: 2 };
 
@@ -55,7 +62,9 @@ export function rowKey(use: Pick<Use, 'check' | 'subject' | 'axis'>): string {
  */
 export function budgetRows(
   runs: readonly { uses: readonly Use[]; findings: readonly Finding[] }[],
+  options: { legsComparable?: boolean } = {},
 ): BudgetRow[] {
+  const legsComparable = options.legsComparable ?? true;
   const rows = new Map<string, BudgetRow>();
   runs.forEach((run, k) => {
     for (const use of run.uses) {
@@ -89,6 +98,8 @@ export function budgetRows(
     row.ratios.forEach((ratio, k) => {
       if (ratio !== null) row.worst = Math.max(row.worst, ratio);
       if (k === 0 || ratio === null || first === null) return;
+      // Leg 2 of one base is not leg 2 of another: the use is shown, its change is not.
+      if (!legsComparable && LEG_CHECKS.has(row.check)) return;
       row.deltas[k] = ratio - first;
       const shift = TONE_RANK[useTone(ratio)] - TONE_RANK[useTone(first)];
       row.shifts[k] = shift > 0 ? 'worse' : shift < 0 ? 'better' : 'same';

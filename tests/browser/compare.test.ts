@@ -1,0 +1,136 @@
+// A producer compares two runs of one take from the demo track: the first cut cued for both venues.
+// The track page offers the comparison only for runs of one take, and the comparison names both runs,
+// overlays both in every chart's read-out, sets both columns in the budget table and keeps the caution.
+import type { Browser, ConsoleMessage, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
+import { DEMO_PASSWORD, DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
+import { trackDetailSchema } from '../../shared/schemas/pipeline';
+import { CAUTION_TEXT } from '../../src/components/layout/caution-strip';
+
+const baseUrl = process.env.LEGWORK_BASE_URL;
+const producer = DEMO_USERS.find((u) => u.roles.includes('producer'));
+let browser: Browser | undefined;
+
+beforeAll(async () => {
+  requireBaseUrl();
+  browser = await launchChromium();
+});
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function signIn(page: Page, email: string) {
+  await page.goto(new URL('/sign-in', baseUrl).href);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await page.getByRole('navigation', { name: 'Studio pages' }).waitFor({ state: 'visible', timeout: 15_000 });
+}
+
+describe('run comparison', () => {
+  it('compares the first cut at both venues from the track page', async () => {
+    if (!browser || !baseUrl || !producer)
+      throw new Error('The browser did not start; see the error of beforeAll.');
+    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const page = await context.newPage();
+    const consoleErrors: string[] = [];
+    page.on('console', (message: ConsoleMessage) => {
+      if (message.type() === 'error') consoleErrors.push(`${message.text()} (${message.location().url})`);
+    });
+    page.on('pageerror', (error) => consoleErrors.push(`uncaught: ${error.message}`));
+    try {
+      await signIn(page, producer.email);
+      await page
+        .getByRole('navigation', { name: 'Studio pages' })
+        .getByRole('link', { name: 'Tracks' })
+        .click();
+      await page.getByRole('link', { name: DEMO_TRACK.title }).first().click();
+      await page.getByRole('heading', { name: DEMO_TRACK.title, level: 1 }).waitFor({ timeout: 15_000 });
+      const [, studioId, trackId] = /\/s\/([^/]+)\/tracks\/([^/?#]+)/.exec(page.url()) ?? [];
+      const track = trackDetailSchema.parse(
+        await (
+          await page.request.get(new URL(`/api/studios/${studioId}/tracks/${trackId}`, baseUrl).href)
+        ).json(),
+      );
+      const take1 = track.runs.filter((r) => r.takeNumber === 1);
+      const dome = take1.find((r) => r.venueName === 'Harbour Lights Dome');
+      const arcade = take1.find((r) => r.venueName === 'Tidewater Arcade');
+      const otherTake = track.runs.find((r) => r.takeNumber !== 1 && r.venueName === 'Harbour Lights Dome');
+      if (!dome || !arcade || !otherTake)
+        throw new Error('The demo track lacks the first cut at both venues.');
+
+      const compare = page.getByRole('button', { name: 'Compare selected' });
+      const reason = page.getByRole('group', { name: 'Compare runs' });
+      const box = (takeNumber: number, venue: string) =>
+        page.getByRole('checkbox', { name: new RegExp(`^Select run of take ${takeNumber} at ${venue} `) });
+      expect(await compare.isDisabled()).toBe(true);
+
+      // Runs of two takes: refused, and the reason is said.
+      await box(1, 'Harbour Lights Dome').check();
+      await box(otherTake.takeNumber, 'Harbour Lights Dome').check();
+      expect(await compare.isDisabled()).toBe(true);
+      expect(await reason.textContent()).toContain('different takes');
+      await box(otherTake.takeNumber, 'Harbour Lights Dome').uncheck();
+
+      await box(1, 'Tidewater Arcade').check();
+      expect(await compare.isEnabled()).toBe(true);
+      expect(await reason.textContent()).toContain('Compare 2 runs of take 1.');
+      await compare.click();
+
+      await page.getByRole('heading', { name: 'Compare runs', level: 1 }).waitFor();
+      expect(new URL(page.url()).searchParams.get('runs')).toBe(`${dome.id},${arcade.id}`);
+      const cards = page.getByRole('list', { name: 'Compared runs' }).getByRole('listitem');
+      await cards.nth(1).waitFor({ timeout: 15_000 });
+      expect(await cards.count()).toBe(2);
+      expect(await cards.nth(0).getAttribute('aria-label')).toBe('Run A: take 1 at Harbour Lights Dome');
+      expect(await cards.nth(1).getAttribute('aria-label')).toBe('Run B: take 1 at Tidewater Arcade');
+      for (const card of await cards.all())
+        expect(await card.textContent()).toMatch(/Cueing.*Budget.*Verdict/);
+
+      const charts = page.getByTestId('compare-charts');
+      await charts.locator('canvas').first().waitFor({ timeout: 15_000 });
+      // Three force charts and the pose axes both bases have, each with one line pair per run.
+      const figures = charts.locator('[data-chart]');
+      expect(await figures.count()).toBeGreaterThanOrEqual(4);
+      for (const figure of await figures.all())
+        expect(await figure.getAttribute('data-runs')).toBe('Run A|Run B');
+      // Different bases: the legs are not overlaid, and the page says why.
+      expect(await charts.getByRole('note', { name: 'Not compared' }).textContent()).toContain(
+        'different motion bases',
+      );
+
+      // The shared cursor: hovering one chart gives every chart a value for both runs.
+      const firstCanvas = charts.locator('.uplot .u-over').first();
+      const boxAt = await firstCanvas.boundingBox();
+      if (!boxAt) throw new Error('The first chart has no box.');
+      await page.mouse.move(boxAt.x + boxAt.width * 0.4, boxAt.y + boxAt.height / 2);
+      const readout = page.getByRole('list', { name: 'Seat specific force z (heave): values at the cursor' });
+      await readout.getByText(/ s$/).waitFor();
+      const items = await readout.getByRole('listitem').allTextContents();
+      expect(items[0]).toMatch(/^Run A.*-?\d+\.\d+ .*m\/s²$/);
+      expect(items[1]).toMatch(/^Run B.*-?\d+\.\d+ .*m\/s²$/);
+      // The far chart (another axis) follows the same cursor.
+      const surge = page.getByRole('list', { name: 'Seat specific force x (surge): values at the cursor' });
+      expect((await surge.getByRole('listitem').allTextContents())[1]).toMatch(/^Run B.*m\/s²$/);
+
+      const budget = page.getByRole('table', { name: 'Budget uses side by side' });
+      const headers = await budget.locator('thead th').allTextContents();
+      expect(headers.slice(3)).toEqual(['Run Atake 1, Harbour Lights Dome', 'Run Btake 1, Tidewater Arcade']);
+      expect(await budget.locator('tbody tr').first().getByRole('meter').count()).toBe(2);
+      expect(await budget.locator('[data-findings="Run A"]').textContent()).toMatch(/\d+ hard, \d+ comfort/);
+      expect(await budget.locator('[data-findings="Run B"]').textContent()).toMatch(/\d+ hard, \d+ comfort/);
+      expect(await page.getByRole('note', { name: 'Run caution' }).textContent()).toContain(CAUTION_TEXT);
+
+      await page.screenshot({ path: `${screenshotDir}/compare-1440.png`, fullPage: true });
+      await page.setViewportSize({ width: 1024, height: 800 });
+      await page.mouse.move(0, 0);
+      await page.waitForTimeout(300);
+      await page.screenshot({ path: `${screenshotDir}/compare-1024.png`, fullPage: true });
+      expect(consoleErrors).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  }, 120_000);
+});
