@@ -1,6 +1,8 @@
 // A producer compares two runs of one take from the demo track: the first cut cued for both venues.
 // The track page offers the comparison only for runs of one take, and the comparison names both runs,
 // overlays both in every chart's read-out, sets both columns in the budget table and keeps the caution.
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import type { Browser, ConsoleMessage, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
@@ -11,6 +13,29 @@ import { CAUTION_TEXT } from '../../src/components/layout/caution-strip';
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const producer = DEMO_USERS.find((u) => u.roles.includes('producer'));
 let browser: Browser | undefined;
+const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
+
+/** axe-core's (Deque's WCAG 2.1 A/AA rules) serious and critical violations on the page as it is now. */
+async function seriousViolations(page: Page): Promise<string[]> {
+  await page.evaluate(axeSource);
+  const violations = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (o: unknown) => Promise<{ violations: unknown[] }> } })
+      .axe;
+    const r = await axe.run({
+      runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] },
+    });
+    return r.violations;
+  });
+  return (violations as { id: string; impact: string | null; nodes: { target: string[] }[] }[])
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map(
+      (v) =>
+        `${v.impact} ${v.id} at ${v.nodes
+          .map((n) => n.target.join(' '))
+          .slice(0, 3)
+          .join('; ')}`,
+    );
+}
 
 beforeAll(async () => {
   requireBaseUrl();
@@ -77,6 +102,7 @@ describe('run comparison', () => {
       await box(1, 'Tidewater Arcade').check();
       expect(await compare.isEnabled()).toBe(true);
       expect(await reason.textContent()).toContain('Compare 2 runs of take 1.');
+      await page.screenshot({ path: `${screenshotDir}/compare-track-selection.png`, fullPage: true });
       await compare.click();
 
       await page.getByRole('heading', { name: 'Compare runs', level: 1 }).waitFor();
@@ -123,6 +149,7 @@ describe('run comparison', () => {
       expect(await budget.locator('[data-findings="Run B"]').textContent()).toMatch(/\d+ hard, \d+ comfort/);
       expect(await page.getByRole('note', { name: 'Run caution' }).textContent()).toContain(CAUTION_TEXT);
 
+      expect(await seriousViolations(page)).toEqual([]);
       await page.screenshot({ path: `${screenshotDir}/compare-1440.png`, fullPage: true });
       await page.setViewportSize({ width: 1024, height: 800 });
       await page.mouse.move(0, 0);
