@@ -7,7 +7,9 @@ import type { Browser, ConsoleMessage, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
 import { DEMO_PASSWORD, DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
-import { trackDetailSchema } from '../../shared/schemas/pipeline';
+import { z } from 'zod';
+import { appPaths } from '../../shared/app-paths';
+import { runSummarySchema, trackDetailSchema } from '../../shared/schemas/pipeline';
 import { CAUTION_TEXT } from '../../src/components/layout/caution-strip';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
@@ -79,7 +81,10 @@ describe('run comparison', () => {
           await page.request.get(new URL(`/api/studios/${studioId}/tracks/${trackId}`, baseUrl).href)
         ).json(),
       );
-      const take1 = track.runs.filter((r) => r.takeNumber === 1);
+      // The seeded runs are the oldest of take 1 at each venue (a later walk may add a touch-up run).
+      const take1 = track.runs
+        .filter((r) => r.takeNumber === 1)
+        .sort((a, b) => a.createdAt.localeCompare(b.createdAt));
       const dome = take1.find((r) => r.venueName === 'Harbour Lights Dome');
       const arcade = take1.find((r) => r.venueName === 'Tidewater Arcade');
       const otherTake = track.runs.find((r) => r.takeNumber !== 1 && r.venueName === 'Harbour Lights Dome');
@@ -88,18 +93,21 @@ describe('run comparison', () => {
 
       const compare = page.getByRole('button', { name: 'Compare selected' });
       const reason = page.getByRole('group', { name: 'Compare runs' });
-      const box = (takeNumber: number, venue: string) =>
-        page.getByRole('checkbox', { name: new RegExp(`^Select run of take ${takeNumber} at ${venue} `) });
+      // A run's checkbox, by the row that links to the run.
+      const box = (runId: string) =>
+        page
+          .locator('tr', { has: page.locator(`a[href$="/runs/${runId}"]`) })
+          .getByRole('checkbox', { name: /^Select run of take \d+ at / });
       expect(await compare.isDisabled()).toBe(true);
 
       // Runs of two takes: refused, and the reason is said.
-      await box(1, 'Harbour Lights Dome').check();
-      await box(otherTake.takeNumber, 'Harbour Lights Dome').check();
+      await box(dome.id).check();
+      await box(otherTake.id).check();
       expect(await compare.isDisabled()).toBe(true);
       expect(await reason.textContent()).toContain('different takes');
-      await box(otherTake.takeNumber, 'Harbour Lights Dome').uncheck();
+      await box(otherTake.id).uncheck();
 
-      await box(1, 'Tidewater Arcade').check();
+      await box(arcade.id).check();
       expect(await compare.isEnabled()).toBe(true);
       expect(await reason.textContent()).toContain('Compare 2 runs of take 1.');
       await page.screenshot({ path: `${screenshotDir}/compare-track-selection.png`, fullPage: true });
@@ -160,4 +168,77 @@ describe('run comparison', () => {
       await context.close();
     }
   }, 120_000);
+
+  it('overlays the legs of two runs at one venue: the first cut with and without a heave touch-up', async () => {
+    if (!browser || !baseUrl || !producer)
+      throw new Error('The browser did not start; see the error of beforeAll.');
+    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const page = await context.newPage();
+    const consoleErrors: string[] = [];
+    page.on('console', (message: ConsoleMessage) => {
+      if (message.type() === 'error') consoleErrors.push(`${message.text()} (${message.location().url})`);
+    });
+    page.on('pageerror', (error) => consoleErrors.push(`uncaught: ${error.message}`));
+    try {
+      await signIn(page, producer.email);
+      await page
+        .getByRole('navigation', { name: 'Studio pages' })
+        .getByRole('link', { name: 'Tracks' })
+        .click();
+      await page.getByRole('link', { name: DEMO_TRACK.title }).first().click();
+      await page.getByRole('heading', { name: DEMO_TRACK.title, level: 1 }).waitFor({ timeout: 15_000 });
+      const [, studioId, trackId] = /\/s\/([^/]+)\/tracks\/([^/?#]+)/.exec(page.url()) ?? [];
+      const trackUrl = new URL(`/api/studios/${studioId}/tracks/${trackId}`, baseUrl).href;
+      const readTrack = async () => trackDetailSchema.parse(await (await page.request.get(trackUrl)).json());
+      const first = (await readTrack()).runs
+        .filter((r) => r.takeNumber === 1 && r.venueName === 'Harbour Lights Dome')
+        .sort((a, b) => a.createdAt.localeCompare(b.createdAt))[0];
+      if (!first) throw new Error('The demo track lacks the first cut at the dome.');
+      // A second run of the same take at the same venue, asked for as the cue form does (the same
+      // request again returns the same run, so the walk can be repeated).
+      const csrf = (await (await page.request.get(new URL('/api/auth/csrf', baseUrl).href)).json()) as {
+        csrfToken: string;
+      };
+      const asked = await page.request.post(
+        new URL(`/api/studios/${studioId}/takes/${first.takeId}/runs`, baseUrl).href,
+        {
+          headers: { 'x-csrf-token': csrf.csrfToken },
+          data: { venueIds: [first.venueId], touchup: { gain: { fz: 0.8 } } },
+        },
+      );
+      expect(asked.status()).toBeLessThan(300);
+      const [second] = z.array(runSummarySchema).parse(await asked.json());
+      if (!second) throw new Error('No run was queued.');
+      expect(second.id).not.toBe(first.id);
+      await expect
+        .poll(async () => (await readTrack()).runs.find((r) => r.id === second.id)?.state, {
+          timeout: 90_000,
+        })
+        .toMatch(/awaiting_review|held_by_budget|held|cleared/);
+
+      await page.goto(
+        new URL(appPaths.compareRuns(studioId ?? '', trackId ?? '', [first.id, second.id]), baseUrl).href,
+      );
+      const cards = page.getByRole('list', { name: 'Compared runs' }).getByRole('listitem');
+      await cards.nth(1).waitFor({ timeout: 15_000 });
+      expect(await cards.nth(1).textContent()).toContain('fz × 0.8');
+      const charts = page.getByTestId('compare-charts');
+      await charts.locator('canvas').first().waitFor({ timeout: 15_000 });
+      // One base: all six pose axes and the six legs are overlaid, nothing is left out.
+      const titles = await charts
+        .locator('[data-chart]')
+        .evaluateAll((els) => els.map((e) => e.getAttribute('data-chart')));
+      expect(titles.filter((t) => t?.startsWith('Platform'))).toHaveLength(6);
+      expect(titles.filter((t) => /^Leg \d length$/.test(t ?? ''))).toHaveLength(6);
+      expect(await charts.getByRole('note', { name: 'Not compared' }).count()).toBe(0);
+      // Actuator rows carry their change from Run A on one base.
+      const budget = page.getByRole('table', { name: 'Budget uses side by side' });
+      const strokeRow = budget.locator('tbody tr').filter({ hasText: 'Leg stroke' }).first();
+      expect(await strokeRow.locator('td').nth(4).textContent()).toMatch(/[▲▼=] [+−]?\d\.\d\d/);
+      await page.screenshot({ path: `${screenshotDir}/compare-one-venue-1440.png`, fullPage: true });
+      expect(consoleErrors).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  }, 180_000);
 });
