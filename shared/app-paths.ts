@@ -6,6 +6,9 @@ export const appPaths = {
   release: (studioId: string, releaseId: string) => `/s/${studioId}/releases/${releaseId}`,
   releases: (studioId: string) => `/s/${studioId}/releases`,
   track: (studioId: string, trackId: string) => `/s/${studioId}/tracks/${trackId}`,
+  /** Runs of one take of the track side by side, in the order given. */
+  compareRuns: (studioId: string, trackId: string, runIds: readonly string[]) =>
+    `/s/${studioId}/tracks/${trackId}/compare?runs=${runIds.map(encodeURIComponent).join(',')}`,
   home: (studioId: string) => `/s/${studioId}`,
   audit: (studioId: string) => `/s/${studioId}/audit`,
   account: () => '/account',

@@ -26,6 +26,7 @@ import { AuditRoute, MembersRoute, VenuesRoute } from './routes/studio-pages';
 import { ProfilesRoute } from './routes/profiles';
 import { ReleaseRoute, ReleasesRoute } from './routes/releases';
 import { RunRoute } from './routes/run';
+import { CompareRoute } from './routes/compare';
 import { TokensRoute } from './routes/tokens';
 import { TrackRoute } from './routes/track';
 import { TracksRoute } from './routes/tracks';
@@ -93,6 +94,7 @@ export function createAppRouter(queryClient: QueryClient) {
             { path: 'audit', element: <AuditRoute /> },
             { path: 'tracks', element: <TracksRoute />, loader: venuesLoader },
             { path: 'tracks/:trackId', element: <TrackRoute />, loader: trackLoader },
+            { path: 'tracks/:trackId/compare', element: <CompareRoute /> },
             { path: 'runs/:runId', element: <RunRoute />, loader: runLoader },
             { path: 'releases', element: <ReleasesRoute />, loader: venuesLoader },
             { path: 'releases/:releaseId', element: <ReleaseRoute />, loader: releaseLoader },

@@ -1,9 +1,13 @@
-import { Link } from 'react-router-dom';
+import { useState } from 'react';
+import { Link, useNavigate } from 'react-router-dom';
+import { appPaths } from '../../../../shared/app-paths';
 import type { RunSummary } from '../../../../shared/schemas/pipeline';
 import { ProgressBar, RunStateBadge, UseRatioBar } from '../../../components/charts/run-badges';
+import { Button } from '../../../components/ui/button';
 import { Empty } from '../../../components/ui/status';
 import { Table, Td, Th } from '../../../components/ui/table';
 import { checkLabel, formatVenueTime } from '../../../lib/format';
+import { compareSelection } from '../../../lib/compare-selection';
 import { useVenues } from '../../../lib/queries/venues';
 
 function groupByVenue(
@@ -53,10 +57,51 @@ function RunStatus({ run }: { run: RunSummary }) {
 /** Every cue run of the track, grouped per venue, newest first, with live progress while the worker runs them. */
 export function TrackRuns({ studioId, runs }: { studioId: string; runs: readonly RunSummary[] }) {
   const venues = useVenues(studioId);
+  const navigate = useNavigate();
+  const [picked, setPicked] = useState<readonly string[]>([]);
   if (runs.length === 0) return <Empty>No cue runs yet. Choose “Cue for venues” on a take.</Empty>;
   const zoneOf = (venueId: string) => venues.data?.find((venue) => venue.id === venueId)?.timeZone;
+  // Runs keep the order they were ticked in, so the first ticked is the one the others are measured against.
+  const selected = picked
+    .map((id) => runs.find((run) => run.id === id))
+    .filter((run): run is RunSummary => run !== undefined);
+  const selection = compareSelection(selected);
+  const toggle = (id: string, on: boolean) =>
+    setPicked((now) => (on ? [...now.filter((x) => x !== id), id] : now.filter((x) => x !== id)));
+  const trackId = runs[0]?.trackId ?? '';
   return (
     <div className="flex flex-col gap-4">
+      <div
+        role="group"
+        aria-label="Compare runs"
+        className="flex flex-wrap items-center gap-3 rounded border border-ink-200 bg-white px-3 py-2"
+      >
+        <Button
+          size="sm"
+          variant="primary"
+          disabled={!selection.ok}
+          aria-describedby="compare-selection-reason"
+          onClick={() =>
+            navigate(
+              appPaths.compareRuns(
+                studioId,
+                trackId,
+                selected.map((run) => run.id),
+              ),
+            )
+          }
+        >
+          Compare selected
+        </Button>
+        <span id="compare-selection-reason" className="text-xs text-ink-600">
+          {selection.reason}
+        </span>
+        {selected.length > 0 ? (
+          <Button size="sm" variant="quiet" onClick={() => setPicked([])}>
+            Clear selection
+          </Button>
+        ) : null}
+      </div>
       {groupByVenue(runs).map((group) => (
         <div key={group.venueId} className="flex flex-col gap-1.5">
           <h3 className="text-sm font-medium text-ink-800">
@@ -67,6 +112,9 @@ export function TrackRuns({ studioId, runs }: { studioId: string; runs: readonly
           <Table caption={`Runs at ${group.venueName}`}>
             <thead>
               <tr>
+                <Th>
+                  <span className="sr-only">Compare</span>
+                </Th>
                 <Th className="text-right">Take</Th>
                 <Th>State</Th>
                 <Th>Worst use / progress</Th>
@@ -79,6 +127,15 @@ export function TrackRuns({ studioId, runs }: { studioId: string; runs: readonly
             <tbody>
               {group.runs.map((run) => (
                 <tr key={run.id}>
+                  <Td className="w-8">
+                    <input
+                      type="checkbox"
+                      className="h-4 w-4 accent-tealdeep-600"
+                      checked={picked.includes(run.id)}
+                      onChange={(e) => toggle(run.id, e.target.checked)}
+                      aria-label={`Select run of take ${run.takeNumber} at ${run.venueName} (queued ${formatVenueTime(run.createdAt, zoneOf(run.venueId))}) to compare`}
+                    />
+                  </Td>
                   <Td className="text-right font-mono">{run.takeNumber}</Td>
                   <Td>
                     <RunStateBadge state={run.state} />
