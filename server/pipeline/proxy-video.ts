@@ -1,4 +1,4 @@
-// A take's proxy video: a copy of the ride film to watch in step with the motion on the run page.
+// Stored files sent back, and a take's proxy video: a copy of the ride film to watch in step with the motion on the run page.
 // It is streamed to object storage as it arrives (never held whole), checked by its first bytes
 // against the type the upload declares, and served back with byte ranges, which a <video> element
 // needs to seek.
@@ -117,6 +117,33 @@ export function byteRange(
   return { start, end };
 }
 
+/** Answers a GET with a stored object, whole, as a download named `fileName`. */
+export async function sendStoredFile(
+  res: Response,
+  opts: { storage: Storage; key: string; type: string; fileName: string; sizeBytes: number },
+): Promise<void> {
+  const got = await opts.storage.client.send(
+    new GetObjectCommand({ Bucket: opts.storage.bucket, Key: opts.key }),
+  );
+  res.status(200);
+  res.set('content-type', opts.type);
+  res.set('content-length', String(opts.sizeBytes));
+  res.set('cache-control', 'private, max-age=3600');
+  res.attachment(opts.fileName);
+  await pipeBody(got.Body as Readable, res);
+}
+
+function pipeBody(body: Readable, res: Response): Promise<void> {
+  return new Promise<void>((resolve, reject) => {
+    body.on('error', reject);
+    res.on('close', () => {
+      body.destroy();
+      resolve();
+    });
+    body.pipe(res);
+  });
+}
+
 /** Answers a GET for the stored video: the whole file (200) or the asked range (206). */
 export async function sendProxyVideo(
   res: Response,
@@ -150,13 +177,5 @@ export async function sendProxyVideo(
     res.status(200);
     res.set('content-length', String(opts.sizeBytes));
   }
-  const body = got.Body as Readable;
-  await new Promise<void>((resolve, reject) => {
-    body.on('error', reject);
-    res.on('close', () => {
-      body.destroy();
-      resolve();
-    });
-    body.pipe(res);
-  });
+  await pipeBody(got.Body as Readable, res);
 }

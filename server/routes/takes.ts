@@ -15,7 +15,13 @@ import { actorOf } from '../lib/actor';
 import { requestRunsBody } from '../../shared/schemas/pipeline';
 import { queueRuns } from '../pipeline/queue-runs';
 import { toRunSummary, toTake } from '../pipeline/views';
-import { declaredVideoType, receiveProxyVideo, sendProxyVideo } from '../pipeline/proxy-video';
+import {
+  declaredVideoType,
+  receiveProxyVideo,
+  sendProxyVideo,
+  sendStoredFile,
+} from '../pipeline/proxy-video';
+import { isGzipName } from '../pipeline/track-stream';
 import { recordAudit } from '../audit';
 import { storageHttpError } from '../storage';
 
@@ -83,6 +89,24 @@ export function takesRouter(deps: AppDeps): Router {
     });
     if (take.proxyVideoKey) await removeObject(take.proxyVideoKey);
     res.status(200).json(toTake(row));
+  });
+
+  /** GET /takes/:takeId/file: the take's file as uploaded (byte for byte; its SHA-256 is on the take). */
+  r.get('/:takeId/file', requirePermission('tracks.read'), async (req, res) => {
+    const take = await findTake(req);
+    await sendStoredFile(res, {
+      storage: deps.storage,
+      key: take.storageKey,
+      type: isGzipName(take.fileName) ? 'application/gzip' : 'text/csv; charset=utf-8',
+      fileName: take.fileName,
+      sizeBytes: take.sizeBytes,
+    }).catch((e: unknown) => {
+      if (res.headersSent) {
+        res.destroy();
+        return;
+      }
+      throw storageHttpError(e, `the file of take ${take.number}`);
+    });
   });
 
   /** GET /takes/:takeId/proxy-video: the video, with byte ranges (206) for seeking. */

@@ -19,6 +19,8 @@ let engineer: Client;
 let operator: Client;
 let base: string;
 let takeId: string;
+let csv: Buffer;
+let takeSha: string;
 
 /** An MP4-looking file: a 24-byte `ftyp` box (size, type, major brand, version, a brand) and filler. */
 function mp4(bytes: number): Buffer {
@@ -70,11 +72,23 @@ beforeAll(async () => {
   const take = await producer
     .raw('post', `${base}/tracks/${track.id}/takes?fileName=proxy.csv`)
     .set('content-type', 'application/octet-stream')
-    .send(Buffer.from(makeVehicleCsv({ duration_s: 2 })));
+    .send((csv = Buffer.from(makeVehicleCsv({ duration_s: 2 }))));
   expect(take.status, JSON.stringify(take.body)).toBe(201);
   takeId = (take.body as { id: string }).id;
+  takeSha = (take.body as { sha256: string }).sha256;
 });
 afterAll(async () => t.close());
+
+describe("the take's own file", () => {
+  it('comes back byte for byte as uploaded, named as uploaded', async () => {
+    const r = await engineer.get(`${base}/takes/${takeId}/file`).expect(200);
+    const got = Buffer.from(r.text, 'utf8');
+    expect(Buffer.compare(got, csv)).toBe(0);
+    expect(sha(got)).toBe(takeSha);
+    expect(r.headers['content-disposition']).toMatch(/proxy\.csv/);
+    expect((await operator.get(`${base}/takes/${takeId}/file`)).status).toBe(403);
+  });
+});
 
 describe('proxy video', () => {
   const first = mp4(200_000);

@@ -258,6 +258,13 @@ const ROUTES: RouteCase[] = [
     ok: 415,
   },
   {
+    name: "download a take's file",
+    method: 'get',
+    path: (i) => `/api/studios/${i.studio}/takes/00000000-0000-4000-8000-000000000000/file`,
+    allowed: DESK,
+    ok: 404,
+  },
+  {
     name: "watch a take's proxy video",
     method: 'get',
     path: (i) => `/api/studios/${i.studio}/takes/00000000-0000-4000-8000-000000000000/proxy-video`,

@@ -1,3 +1,4 @@
+import { Button } from '../../../components/ui/button';
 import { useEffect, useId, useMemo, useState } from 'react';
 import { CHECK_LABELS, subjectLabel } from '../../../../shared/labels';
 import { budgetSchema } from '../../../../shared/schemas/budget';
@@ -222,6 +223,26 @@ export function ProfilePreview({
   const busy = preview.motionBusy;
   const fileId = useId();
 
+  const [fetching, setFetching] = useState(false);
+  /** The take's stored file, fetched and read in the browser exactly as a file opened from disk. */
+  const loadStoredFile = async () => {
+    if (!take) return;
+    setFileError(null);
+    setFetching(true);
+    try {
+      const answer = await fetch(
+        `/api/studios/${encodeURIComponent(studioId)}/takes/${encodeURIComponent(take.id)}/file`,
+        { credentials: 'same-origin' },
+      );
+      if (!answer.ok) throw new Error(`The take's file could not be loaded (HTTP ${answer.status}).`);
+      await openFile(new File([await answer.blob()], take.fileName));
+    } catch (e) {
+      setFileError(e instanceof Error ? e.message : String(e));
+    } finally {
+      setFetching(false);
+    }
+  };
+
   const openFile = async (file: File | undefined) => {
     setFileError(null);
     if (!file || !take) return;
@@ -315,8 +336,11 @@ export function ProfilePreview({
           ) : null}
           {runData.isPending && run && !data ? <Loading what="Loading the take's samples" /> : null}
           <div className="flex flex-wrap items-center gap-2">
+            <Button size="sm" busy={fetching} onClick={() => void loadStoredFile()}>
+              Load take {take.number}’s file from Legwork (full rate)
+            </Button>
             <label htmlFor={fileId} className="font-medium">
-              Open the take file for the full take:
+              or open a take file from disk:
             </label>
             <input
               id={fileId}
