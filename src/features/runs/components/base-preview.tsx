@@ -10,6 +10,8 @@ import type { ThreeModule } from '../utils/preview-geometry';
 
 interface Scene {
   show: (joints: { base: Float64Array; platform: Float64Array }, legOk: readonly boolean[]) => void;
+  /** Turns the view about the platform: azimuth about the vertical, then elevation (rad). */
+  turn: (azimuth_rad: number, elevation_rad: number) => void;
   dispose: () => void;
 }
 
@@ -69,6 +71,42 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
   controls.update();
   const render = () => renderer.render(scene, camera);
   controls.addEventListener('change', render);
+  const up = new three.Vector3(0, 0, 1);
+  const turn = (azimuth_rad: number, elevation_rad: number) => {
+    const offset = camera.position.clone().sub(controls.target);
+    offset.applyAxisAngle(up, azimuth_rad);
+    const side = offset.clone().cross(up).normalize();
+    const tilted = offset.clone().applyAxisAngle(side, elevation_rad);
+    // Never over the top or under the floor: keep 5 deg off the vertical.
+    const fromUp = tilted.angleTo(up);
+    if (fromUp > (5 * Math.PI) / 180 && fromUp < (175 * Math.PI) / 180) offset.copy(tilted);
+    camera.position.copy(controls.target).add(offset);
+    camera.lookAt(controls.target);
+    controls.update();
+    render();
+  };
+  // Turnable by keyboard as well as by mouse: the canvas takes focus; arrow keys turn 5 deg a press.
+  const canvas = renderer.domElement;
+  canvas.tabIndex = 0;
+  canvas.setAttribute('role', 'img');
+  canvas.setAttribute(
+    'aria-label',
+    'Motion base in 3-D: drag, or focus and use the arrow keys, to turn the view',
+  );
+  const step_rad = (5 * Math.PI) / 180;
+  const onKey = (event: KeyboardEvent) => {
+    const turns: Record<string, [number, number]> = {
+      ArrowLeft: [-step_rad, 0],
+      ArrowRight: [step_rad, 0],
+      ArrowUp: [0, -step_rad],
+      ArrowDown: [0, step_rad],
+    };
+    const t = turns[event.key];
+    if (!t) return;
+    event.preventDefault();
+    turn(t[0], t[1]);
+  };
+  canvas.addEventListener('keydown', onKey);
 
   const observer =
     typeof ResizeObserver === 'undefined'
@@ -113,7 +151,9 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
       lc.needsUpdate = true;
       render();
     },
+    turn,
     dispose: () => {
+      canvas.removeEventListener('keydown', onKey);
       observer?.disconnect();
       controls.dispose();
       renderer.dispose();
@@ -122,18 +162,34 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
   };
 }
 
-/** The motion base at bucket `index` of the run: legs outside the stroke band are drawn red. */
+/** A take's proxy video and where the motion sits on it. */
+export interface ProxyVideoClip {
+  url: string;
+  /** Picture time at motion time 0 (s): the film sync offset. */
+  offset_s: number;
+}
+
+const SPEEDS = [0.25, 0.5, 1, 2] as const;
+
+/**
+ * The motion base at bucket `index` of the run: legs outside the stroke band are drawn red. Plays at
+ * a chosen speed; a take's proxy video, when there is one, plays and seeks in step with it.
+ */
 export function BasePreview({
   base,
   series,
   index,
   onIndex,
+  video = null,
 }: {
   base: MotionBase;
   series: RunSeries;
   index: number;
   onIndex: (index: number) => void;
+  video?: ProxyVideoClip | null;
 }) {
+  const [speed, setSpeed] = useState<number>(1);
+  const film = useRef<HTMLVideoElement>(null);
   const holder = useRef<HTMLDivElement>(null);
   const scene = useRef<Scene | null>(null);
   const [three, setThree] = useState<ThreeModule | null>(null);
@@ -208,28 +264,75 @@ export function BasePreview({
     const startedAt = performance.now();
     let frame = 0;
     let k = at;
+    const clip = film.current;
+    if (clip && video) {
+      clip.playbackRate = speed;
+      clip.currentTime = Math.max(0, start_s + video.offset_s);
+      void clip.play().catch(() => undefined);
+    }
     const step = (now: number) => {
-      const t = start_s + (now - startedAt) / 1000;
+      const t = start_s + ((now - startedAt) / 1000) * speed;
+      // The motion's clock leads; the picture is pulled back in line when it drifts by 0.1 s.
+      if (clip && video && Math.abs(clip.currentTime - (t + video.offset_s)) > 0.1) {
+        clip.currentTime = Math.max(0, t + video.offset_s);
+      }
       while (k < last && (times[k + 1] ?? Infinity) <= t) k++;
       onIndex(k);
       if (k >= last) setPlaying(false);
       else frame = requestAnimationFrame(step);
     };
     frame = requestAnimationFrame(step);
-    return () => cancelAnimationFrame(frame);
+    return () => {
+      cancelAnimationFrame(frame);
+      clip?.pause();
+    };
     // Restart only when play is pressed, not on every index it sets itself.
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [playing]);
 
   const time_s = series.time_s[at] ?? 0;
+  // Scrubbing (a chart's cursor, the slider) moves the picture to the same instant.
+  useEffect(() => {
+    const clip = film.current;
+    if (!clip || !video || playing) return;
+    clip.currentTime = Math.max(0, time_s + video.offset_s);
+  }, [time_s, video, playing]);
   return (
     <div className="flex flex-col gap-2" data-testid="base-preview">
       <div ref={holder} className="min-h-20 rounded border border-ink-100" />
+      {video ? (
+        <video
+          ref={film}
+          src={video.url}
+          muted
+          playsInline
+          preload="metadata"
+          aria-label="Proxy of the ride film, in step with the motion"
+          className="w-full max-w-xl rounded border border-ink-100 bg-ink-900"
+        />
+      ) : null}
       {problem ? <p className="text-xs text-ink-600">{problem}</p> : null}
       <div className="flex flex-wrap items-center gap-3">
         <Button size="sm" onClick={() => setPlaying(!playing)} disabled={!three}>
           {playing ? 'Pause' : 'Play'}
         </Button>
+        <label className="flex items-center gap-1 text-xs text-ink-600">
+          Speed
+          <select
+            value={speed}
+            onChange={(event) => {
+              setPlaying(false);
+              setSpeed(Number(event.target.value));
+            }}
+            className="rounded border border-ink-200 bg-white px-1 py-0.5 text-xs text-ink-900"
+          >
+            {SPEEDS.map((s) => (
+              <option key={s} value={s}>
+                {s} x
+              </option>
+            ))}
+          </select>
+        </label>
         <label className="flex flex-1 items-center gap-2 text-xs text-ink-600">
           Time
           <input
@@ -262,7 +365,8 @@ export function BasePreview({
         </ul>
       ) : null}
       <p className="text-xs text-ink-400">
-        Pose from the middle of each chart bucket; drag to turn the view. Hover a chart to move the time.
+        Pose from the middle of each chart bucket; drag, or use the arrow keys on the view, to turn it. Hover
+        a chart to move the time.
       </p>
     </div>
   );

@@ -10,6 +10,7 @@ import type { ChartBand, ChartLine, ChartSpan, XRange } from '../../../component
 import { CHART_COLORS, withAlpha } from '../../../components/charts/palette';
 import type { FilmSync } from '../../../../shared/schemas/film-sync';
 import { BasePreview } from './base-preview';
+import type { ProxyVideoClip } from './base-preview';
 import { runTimecode } from '../utils/film-time';
 import { nearestIndex } from '../utils/finding-view';
 import { Button } from '../../../components/ui/button';
@@ -164,6 +165,7 @@ export function RunCharts({
   findings,
   base = null,
   filmSync = null,
+  video = null,
   view = null,
   onView,
   selected = null,
@@ -174,6 +176,8 @@ export function RunCharts({
   findings: readonly Finding[];
   /** The run's film sync: the cursor read-out shows the picture's timecode beside the seconds. */
   filmSync?: FilmSync | null;
+  /** The take's proxy video, played in step with the 3-D preview; none, no video. */
+  video?: ProxyVideoClip | null;
   /** The venue's motion base for the 3-D preview; none, no preview. */
   base?: MotionBase | null;
   /** The x window every chart shows; null, the whole take. */
@@ -407,7 +411,7 @@ export function RunCharts({
                 <h4 className="text-sm font-semibold text-ink-900">
                   Motion base at the cursor (the venue&apos;s current geometry)
                 </h4>
-                <BasePreview base={base} series={series} index={index} onIndex={setIndex} />
+                <BasePreview base={base} series={series} index={index} onIndex={setIndex} video={video} />
               </div>
             ) : null}
           </ChartGroup>

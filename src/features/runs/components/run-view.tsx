@@ -1,6 +1,8 @@
 // The run page as a review workbench: the decision and the findings first, then the take on one time
 // axis with every finding marked, then the motion charts on the window of the finding selected, and
 // the reference material (spectra, comfort tables, touch-up, notes, files) folded away below.
+import { FRAME_RATES } from '../../../../shared/motion/timecode';
+import type { ProxyVideoClip } from './base-preview';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import type { ReactNode } from 'react';
 import { parseMotionBase } from '../../../../shared/schemas/motion-base';
@@ -84,6 +86,7 @@ function Workbench({
   findings,
   filmSync,
   focus,
+  video,
 }: {
   studioId: string;
   runId: string;
@@ -92,6 +95,7 @@ function Workbench({
   findings: readonly Finding[];
   filmSync: FilmSync | null;
   focus: ReturnType<typeof useFindingFocus>;
+  video: ProxyVideoClip | null;
 }) {
   const series = useRunSeries(studioId, runId, true);
   const venue = useVenue(studioId, venueId);
@@ -117,6 +121,7 @@ function Workbench({
             findings={findings}
             base={base}
             filmSync={filmSync}
+            video={video}
             view={focus.view}
             onView={focus.onView}
             selected={focus.selected}
@@ -241,6 +246,18 @@ export function RunView({
           findings={findings}
           filmSync={detail.filmSync}
           focus={focus}
+          video={
+            detail.take.proxyVideo
+              ? {
+                  url: `/api/studios/${encodeURIComponent(studioId)}/takes/${encodeURIComponent(detail.take.id)}/proxy-video`,
+                  // The picture runs `offset` ahead of the motion: a positive offset plays the motion later.
+                  offset_s: detail.filmSync
+                    ? (detail.filmSync.offset_frames * FRAME_RATES[detail.filmSync.frameRate].den) /
+                      FRAME_RATES[detail.filmSync.frameRate].num
+                    : 0,
+                }
+              : null
+          }
         />
       ) : null}
       {result ? <RunFacts studioId={studioId} run={detail} /> : null}

@@ -5,7 +5,40 @@ import { Button } from '../../../components/ui/button';
 import { Empty } from '../../../components/ui/status';
 import { Table, Td, Th } from '../../../components/ui/table';
 import { formatDateTime } from '../../../lib/format';
+import { useCan } from '../../../lib/membership';
+import { useSetProxyVideo } from '../api/set-proxy-video';
 import { CueVenuesForm } from './cue-venues-form';
+
+/** The take's film proxy (watched in step with the motion on run pages); producers may set it. */
+function ProxyVideoCell({ studioId, take }: { studioId: string; take: Take }) {
+  const canUpload = useCan('takes.upload');
+  const set = useSetProxyVideo(studioId);
+  const v = take.proxyVideo;
+  return (
+    <div className="flex flex-col gap-1 text-xs">
+      <span className={v ? 'text-ink-800' : 'text-ink-400'}>
+        {v ? `${v.type === 'video/mp4' ? 'MP4' : 'WebM'}, ${formatBytes(v.sizeBytes)}` : 'none'}
+      </span>
+      {canUpload ? (
+        <label className="cursor-pointer text-tealdeep-600 underline">
+          {set.isPending ? 'Uploading…' : v ? 'Replace' : 'Add a proxy video'}
+          <input
+            type="file"
+            accept="video/mp4,video/webm,.mp4,.m4v,.webm"
+            className="sr-only"
+            disabled={set.isPending}
+            onChange={(e) => {
+              const file = e.target.files?.[0];
+              if (file) set.mutate({ studioId, takeId: take.id, file });
+              e.target.value = '';
+            }}
+          />
+        </label>
+      ) : null}
+      {set.error ? <span className="text-stop-700">{set.error.message}</span> : null}
+    </div>
+  );
+}
 
 const KIND_LABELS: Record<Take['kind'], string> = {
   vehicle: 'Vehicle motion',
@@ -38,6 +71,7 @@ export function TakesTable({
           <Th className="text-right">Size</Th>
           <Th>SHA-256</Th>
           <Th>Uploaded</Th>
+          <Th>Film proxy</Th>
           {canCue ? (
             <Th>
               <span className="sr-only">Actions</span>
@@ -69,6 +103,9 @@ export function TakesTable({
                   via {take.uploadedVia === 'token' ? 'API token' : 'browser'}
                 </span>
               </Td>
+              <Td>
+                <ProxyVideoCell studioId={studioId} take={take} />
+              </Td>
               {canCue ? (
                 <Td className="text-right">
                   <Button
@@ -83,7 +120,7 @@ export function TakesTable({
             </tr>
             {canCue && open === take.id ? (
               <tr className="bg-ink-50">
-                <Td colSpan={9}>
+                <Td colSpan={10}>
                   <CueVenuesForm studioId={studioId} take={take} />
                 </Td>
               </tr>
