@@ -5,8 +5,8 @@ import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import type { Browser, ConsoleMessage, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
-import { DEMO_PASSWORD, DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
+import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import { DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
 import { z } from 'zod';
 import { appPaths } from '../../shared/app-paths';
 import { runSummarySchema, trackDetailSchema } from '../../shared/schemas/pipeline';
@@ -47,14 +47,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
-
-async function signIn(page: Page, email: string) {
-  await page.goto(new URL('/sign-in', baseUrl).href);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-  await page.getByRole('navigation', { name: 'Studio pages' }).waitFor({ state: 'visible', timeout: 15_000 });
-}
 
 describe('run comparison', () => {
   it('compares the first cut at both venues from the track page', async () => {

@@ -1,11 +1,11 @@
 // A producer takes a track from nothing to a finished cue run through the real built client in
 // Chromium: create the track, upload a refused take and a good one, queue runs for both venues, wait
 // for the worker, and read the run page's charts and budget, with no error in the browser console.
-import type { Browser, ConsoleMessage, Page } from 'playwright-core';
+import type { Browser, ConsoleMessage } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
+import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
 import { gentleVehicleCsv } from './support/takes';
-import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
+import { DEMO_USERS } from '../../shared/demo';
 import { runDetailSchema } from '../../shared/schemas/pipeline';
 import { runSeriesSchema } from '../../shared/schemas/run-series';
 
@@ -32,14 +32,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
-
-async function signIn(page: Page, email: string) {
-  await page.goto(new URL('/sign-in', baseUrl).href);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-  await page.getByRole('navigation', { name: 'Studio pages' }).waitFor({ state: 'visible', timeout: 15_000 });
-}
 
 describe('pipeline screens', () => {
   it('a producer creates a track, uploads takes, queues runs and reads a finished run', async () => {

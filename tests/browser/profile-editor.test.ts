@@ -4,8 +4,8 @@
 // can be opened for the full take, and saving makes a new version of the profile.
 import type { Browser, ConsoleMessage, Locator, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
-import { DEMO_PASSWORD, DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
+import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import { DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
 import { demoRideCsv } from '../../shared/demo-ride';
 import { profileSchema } from '../../shared/schemas/pipeline';
 
@@ -21,14 +21,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
-
-async function signIn(page: Page, email: string) {
-  await page.goto(new URL('/sign-in', baseUrl).href);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-  await page.getByRole('navigation', { name: 'Studio pages' }).waitFor({ state: 'visible', timeout: 15_000 });
-}
 
 /** The preview's state once its newest computation is shown (data attributes on the section). */
 async function readPreview(preview: Locator) {
@@ -126,7 +118,7 @@ describe('cueing profile editor', () => {
       // The take's own file, read in the browser: the full 100 Hz take, recognised by its SHA-256.
       const cut = DEMO_TRACK.takes[DEMO_TRACK.takes.length - 1]!;
       const generation = (await readPreview(preview)).generation;
-      await preview.getByLabel('Open the take file for the full take:').setInputFiles({
+      await preview.getByLabel('or open a take file from disk:').setInputFiles({
         name: cut.file,
         mimeType: 'text/csv',
         buffer: Buffer.from(
@@ -150,6 +142,18 @@ describe('cueing profile editor', () => {
           { timeout: 30_000 },
         )
         .toBe(true);
+
+      // The same take fetched from Legwork's store (GET .../takes/:take/file) instead of from disk.
+      await preview.getByRole('button', { name: /^Load take \d+’s file from Legwork/ }).click();
+      await expect
+        .poll(
+          async () =>
+            preview.getByText(/loaded from Legwork and read in the browser.*SHA-256 matches/).count(),
+          {
+            timeout: 30_000,
+          },
+        )
+        .toBe(1);
 
       const versionsBefore = await cueingVersions(page, studioId!);
       await form

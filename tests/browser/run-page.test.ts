@@ -3,10 +3,10 @@
 // every chart's time axis to that finding's span with a margin (read from the uPlot scale each chart
 // exposes), its numbers are read out as the API gives them, the shared cursor's legend reads every
 // band's value from the run's series, and "Show whole take" brings the whole take back.
-import type { Browser, ConsoleMessage, Locator, Page } from 'playwright-core';
+import type { Browser, ConsoleMessage, Locator } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
-import { DEMO_PASSWORD, DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
+import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import { DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
 import type { Finding } from '../../shared/schemas/findings';
 import { runDetailSchema, trackDetailSchema, trackPageSchema } from '../../shared/schemas/pipeline';
 import { runSeriesSchema } from '../../shared/schemas/run-series';
@@ -23,14 +23,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
-
-async function signIn(page: Page, email: string) {
-  await page.goto(new URL('/sign-in', baseUrl).href);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-  await page.getByRole('navigation', { name: 'Studio pages' }).waitFor({ state: 'visible', timeout: 15_000 });
-}
 
 /**
  * The window the page promises for a finding: its span with max(0.5 s, half the span) of context on

@@ -2,7 +2,8 @@
 // `npm test` serves at LEGWORK_BASE_URL.
 import { mkdirSync } from 'node:fs';
 import { chromium } from 'playwright-core';
-import type { Browser } from 'playwright-core';
+import type { Browser, Page } from 'playwright-core';
+import { DEMO_PASSWORD } from '../../../shared/demo';
 
 export const screenshotDir = 'test-output/screenshots';
 
@@ -32,4 +33,13 @@ export async function launchChromium(): Promise<Browser> {
       '--disable-sync',
     ],
   });
+}
+
+/** Signs `email` in with the demo password through the sign-in page; waits for the studio navigation. */
+export async function signIn(page: Page, email: string): Promise<void> {
+  await page.goto(new URL('/sign-in', requireBaseUrl()).href);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await page.getByRole('navigation', { name: 'Studio pages' }).waitFor({ state: 'visible', timeout: 15_000 });
 }

@@ -235,7 +235,10 @@ export function ProfilePreview({
         { credentials: 'same-origin' },
       );
       if (!answer.ok) throw new Error(`The take's file could not be loaded (HTTP ${answer.status}).`);
-      await openFile(new File([await answer.blob()], take.fileName));
+      await openFile(
+        new File([await answer.blob()], take.fileName),
+        'loaded from Legwork and read in the browser',
+      );
     } catch (e) {
       setFileError(e instanceof Error ? e.message : String(e));
     } finally {
@@ -243,7 +246,7 @@ export function ProfilePreview({
     }
   };
 
-  const openFile = async (file: File | undefined) => {
+  const openFile = async (file: File | undefined, origin = 'read in the browser') => {
     setFileError(null);
     if (!file || !take) return;
     try {
@@ -256,7 +259,7 @@ export function ProfilePreview({
           track: t,
           fullRate: true,
           source:
-            `${file.name}: ${t.length} samples read in the browser` +
+            `${file.name}: ${t.length} samples ${origin}` +
             (same
               ? `, the same bytes as take ${take.number} (SHA-256 matches).`
               : `. Its SHA-256 differs from take ${take.number}'s: it is another file.`),
