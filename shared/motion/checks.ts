@@ -209,11 +209,15 @@ class Collector {
   ): void {
     const n = this.time_s.length;
     let worst = 0;
+    let worstAt = -1;
     let first = -1;
     let peak = 0;
     for (let i = 0; i <= n; i++) {
       const r = i < n ? (ratio[i] as number) : 0;
-      if (r > worst) worst = r;
+      if (r > worst) {
+        worst = r;
+        worstAt = i;
+      }
       if (r >= 1) {
         if (first < 0) {
           first = i;
@@ -232,7 +236,11 @@ class Collector {
         first = -1;
       }
     }
-    this.uses.push({ check, subject, ratio: worst });
+    this.uses.push(
+      worstAt >= 0
+        ? { check, subject, ratio: worst, value: valueAt(worstAt), limit: limitAt(worstAt) }
+        : { check, subject, ratio: worst },
+    );
   }
 
   /** scan() of |signal| (any unit) against a constant limit in the same unit; `ratio` is scratch of length n. */
@@ -250,7 +258,7 @@ class Collector {
   whole(check: CheckName, subject: string, value: number, limit: number): void {
     const ratio = value / limit;
     const n = this.time_s.length;
-    this.uses.push({ check, subject, ratio });
+    this.uses.push({ check, subject, ratio, value, limit });
     if (ratio >= 1 && n > 0) {
       this.findings.push({
         check,

@@ -3,7 +3,7 @@
 import type { Budget } from '../schemas/budget';
 import type { CheckResult, Finding } from '../schemas/findings';
 import { CHECK_UNIT } from '../schemas/findings';
-import { CHECK_LABELS } from '../labels';
+import { CHECK_LABELS, checkUnit } from '../labels';
 
 /** The cautions every delivered package carries, in plain words. */
 export const REPORT_CAUTION = [
@@ -115,14 +115,20 @@ export function buildReport(result: CheckResult, ctx: ReportContext): string {
   out.push('');
 
   out.push('Budget use: the worst value of each check over its limit (100 % = at the limit).');
-  const byCheck = new Map<string, { subject: string; ratio: number }>();
+  const byCheck = new Map<string, CheckResult['uses'][number]>();
   for (const u of result.uses) {
     const prev = byCheck.get(u.check);
-    if (!prev || u.ratio > prev.ratio) byCheck.set(u.check, { subject: u.subject, ratio: u.ratio });
+    if (!prev || u.ratio > prev.ratio) byCheck.set(u.check, u);
   }
   for (const [check, u] of byCheck) {
+    // The worst value against its limit where the check has one number for both (not the envelope).
+    const unit = checkUnit(u.check);
+    const measured =
+      u.value !== undefined && u.limit !== undefined
+        ? `: ${Number(u.value.toPrecision(4))} of ${Number(u.limit.toPrecision(4))}${unit ? ` ${unit}` : ''}`
+        : '';
     out.push(
-      `  ${CHECK_WORDS[check as Finding['check']].padEnd(44)} ${pct(u.ratio).padStart(8)}  (${u.subject})`,
+      `  ${CHECK_WORDS[check as Finding['check']].padEnd(44)} ${pct(u.ratio).padStart(8)}  (${u.subject}${measured})`,
     );
   }
   out.push('');

@@ -93,6 +93,13 @@ export const useSchema = z.object({
   subject: z.string().min(1),
   ratio: finiteNumber,
   axis: z.enum(['x', 'y', 'z']).optional(),
+  /**
+   * The worst value and the limit it was measured against, in the check's unit (absent on envelope
+   * uses, whose limit depends on the row and the excursion's duration, and on start/end uses, whose
+   * worst quantity may be a position, an angle or a speed).
+   */
+  value: finiteNumber.optional(),
+  limit: finiteNumber.optional(),
   /** Envelope uses: the row that gave the worst ratio, with its whole time outside (s) and excursions. */
   row: z.number().int().nonnegative().optional(),
   totalOutside_s: finiteNumber.optional(),

@@ -58,6 +58,10 @@ describe('a quiet track', () => {
     // Usable band [1.5 + 0.02, 2.3 - 0.02] m: middle 1.90 m, half-width 0.38 m; 1.874 m at neutral
     // lies 0.026 m below the middle, so the use is 0.026 / 0.38 (the definition of stroke use).
     expect(uses.get('stroke/leg1')).toBeCloseTo(Math.abs(heaveLegLength(0) - 1.9) / 0.38, 9);
+    // The use carries the worst value and the limit behind the ratio, in metres here.
+    const stroke1 = r.check.uses.find((u) => u.check === 'stroke' && u.subject === 'leg1');
+    expect(stroke1?.value).toBeCloseTo(Math.abs(heaveLegLength(0) - 1.9), 9);
+    expect(stroke1?.limit).toBeCloseTo(0.38, 12);
     // At rest the rider feels exactly 1 g up; round-off in the filters leaves at most ~1e-14.
     for (const key of ['envelope/seat1', 'wrms/z', 'msdv/z', 'jerk/z', 'legSpeed/leg1']) {
       expect(uses.get(key)).toBeLessThan(1e-9);

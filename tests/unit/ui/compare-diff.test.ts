@@ -76,6 +76,7 @@ describe('budgetRows', () => {
     expect(jerk?.ratios).toEqual([0.79, 1.1]);
     expect(jerk?.deltas[1]).toBeCloseTo(1.1 - 0.79, 12);
     expect(jerk?.limits).toEqual([null, 12]);
+    expect(jerk?.values).toEqual([null, null]);
     // Largest use first.
     expect(rows.map((r) => r.worst)).toEqual([...rows.map((r) => r.worst)].sort((x, y) => y - x));
     const stroke = rows.find((r) => r.check === 'stroke');
@@ -84,6 +85,21 @@ describe('budgetRows', () => {
     const wrms = rows.find((r) => r.check === 'wrms');
     expect(wrms?.ratios).toEqual([null, 0.2]);
     expect(wrms?.deltas).toEqual([null, null]);
+  });
+
+  it('takes each run’s worst value and limit from its use, the limit of a finding only where the use has none', () => {
+    const rows = budgetRows([
+      { uses: [{ check: 'legSpeed', subject: 'leg2', ratio: 0.5, value: 0.2, limit: 0.4 }], findings: [] },
+      {
+        uses: [
+          { check: 'legSpeed', subject: 'leg2', ratio: 0.25, value: 0.1, limit: 0.4 },
+          { check: 'legSpeed', subject: 'leg2', ratio: 0.75, value: 0.3, limit: 0.4 },
+        ],
+        findings: [],
+      },
+    ]);
+    expect(rows[0]?.values).toEqual([0.2, 0.3]);
+    expect(rows[0]?.limits).toEqual([0.4, 0.4]);
   });
 
   it('names a move into another tier with the same bands as the app’s use bars', () => {

@@ -127,7 +127,7 @@ function makeRun(overrides: Partial<RunDetail> = {}): RunDetail {
       ],
       uses: [
         { check: 'wrms', subject: 'z', ratio: 0.41 },
-        { check: 'stroke', subject: 'leg3', ratio: 1.014 },
+        { check: 'stroke', subject: 'leg3', ratio: 1.014, value: 0.3853, limit: 0.38 },
         { check: 'jerk', subject: 'seat2', ratio: 1.04 },
         { check: 'legSpeed', subject: 'leg1', ratio: 0.86 },
       ],
@@ -218,6 +218,9 @@ describe('run page', () => {
     expect(tiers[2]!.firstElementChild).toHaveClass('text-ink-600');
     expect(tiers[3]!.firstElementChild).toHaveClass('text-ink-600');
     expect(within(rows[1]!).getByRole('meter')).toHaveAttribute('aria-valuenow', '1.014');
+    // The worst value against its limit where the use carries them, a dash where it does not.
+    expect(within(rows[1]!).getAllByRole('cell')[4]).toHaveTextContent('0.385 of 0.38 m');
+    expect(within(rows[0]!).getAllByRole('cell')[4]).toHaveTextContent('—');
 
     const findings = screen.getByRole('table', { name: 'Findings' });
     const strokeRow = within(findings).getByText('Leg 3').closest('tr')!;

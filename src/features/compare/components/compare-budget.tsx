@@ -39,6 +39,19 @@ function Change({ delta, shift }: { delta: number | null; shift: BudgetRow['shif
   );
 }
 
+/** "0.231 of 0.25 m", or "limit 0.25 m" when only the limit is known. */
+function ValueOfLimit({ value, limit, unit }: { value: number | null; limit: number | null; unit: string }) {
+  if (limit === null) return null;
+  const n = (x: number) => Number(x.toPrecision(3));
+  return (
+    <span className="text-xs text-ink-600" data-limit={limit}>
+      {value !== null ? `${n(value)} of ` : 'limit '}
+      {n(limit)}
+      {unit ? ` ${unit}` : ''}
+    </span>
+  );
+}
+
 /** The budget uses of every run side by side, with each run's change from the first and its findings. */
 export function CompareBudget({ runs, shortList = 15 }: { runs: readonly RunDetail[]; shortList?: number }) {
   const [all, setAll] = useState(false);
@@ -101,11 +114,11 @@ export function CompareBudget({ runs, shortList = 15 }: { runs: readonly RunDeta
                         label={`${runLetter(k)}, ${CHECK_LABELS[row.check]}, ${subjectText(row)}`}
                       />
                       <Change delta={row.deltas[k] ?? null} shift={row.shifts[k] ?? null} />
-                      {row.limits[k] !== null && row.limits[k] !== undefined ? (
-                        <span className="text-xs text-ink-600">
-                          limit {Number(row.limits[k]?.toPrecision(3))} {checkUnit(row.check)}
-                        </span>
-                      ) : null}
+                      <ValueOfLimit
+                        value={row.values[k] ?? null}
+                        limit={row.limits[k] ?? null}
+                        unit={checkUnit(row.check)}
+                      />
                     </span>
                   )}
                 </Td>

@@ -45,7 +45,12 @@ export interface BudgetRow {
   deltas: (number | null)[];
   /** How each run's tier compares with the first run's: worse, better, same, or null when not comparable. */
   shifts: ('worse' | 'better' | 'same' | null)[];
-  /** The limit a finding of this row gave in each run (the check's unit), where there was one. */
+  /** Each run's worst value on this row (the check's unit), where the run reports one. */
+  values: (number | null)[];
+  /**
+   * The limit in each run (the check's unit): the one its worst value was measured against, or else
+   * the one a finding of this row gave; null where neither says (envelope rows, start/end).
+   */
   limits: (number | null)[];
   /** The largest ratio over the runs, for sorting. */
   worst: number;
@@ -80,13 +85,18 @@ export function budgetRows(
           ratios: runs.map(() => null),
           deltas: runs.map(() => null),
           shifts: runs.map(() => null),
+          values: runs.map(() => null),
           limits: runs.map(() => null),
           worst: Number.NEGATIVE_INFINITY,
         };
         rows.set(key, row);
       }
       const had = row.ratios[k];
-      row.ratios[k] = had === null || had === undefined ? use.ratio : Math.max(had, use.ratio);
+      if (had === null || had === undefined || use.ratio > had) {
+        row.ratios[k] = use.ratio;
+        row.values[k] = use.value ?? null;
+        row.limits[k] = use.limit ?? null;
+      }
     }
     for (const finding of run.findings) {
       const row = rows.get(rowKey(finding));

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { CHECK_SEVERITY } from '../../../../shared/schemas/findings';
-import { CHECK_LABELS, TIER_LABELS, subjectLabel } from '../../../../shared/labels';
+import { CHECK_LABELS, TIER_LABELS, checkUnit, subjectLabel } from '../../../../shared/labels';
 import type { Use } from '../../../../shared/schemas/findings';
 import { UseRatioBar } from '../../../components/charts/run-badges';
 import { Button } from '../../../components/ui/button';
@@ -31,6 +31,14 @@ export function TierText({ severity }: { severity: 'hard' | 'comfort' }) {
   return <span className="text-xs text-ink-600">{TIER_LABELS[severity]}</span>;
 }
 
+/** "0.231 of 0.38 m": the worst value against its limit, or a dash where the check has no single limit. */
+function valueText(use: Use): string {
+  if (use.value === undefined || use.limit === undefined) return '—';
+  const n = (x: number) => Number(x.toPrecision(3));
+  const unit = checkUnit(use.check);
+  return `${n(use.value)} of ${n(use.limit)}${unit ? ` ${unit}` : ''}`;
+}
+
 /** Every check's worst use of its limit, largest first: the budget at a glance. */
 export function BudgetTable({ uses, shortList = 12 }: { uses: readonly Use[]; shortList?: number }) {
   const [all, setAll] = useState(false);
@@ -47,6 +55,7 @@ export function BudgetTable({ uses, shortList = 12 }: { uses: readonly Use[]; sh
             <Th>Subject</Th>
             <Th>Use of limit</Th>
             <Th>Tier</Th>
+            <Th>Worst value</Th>
           </tr>
         </thead>
         <tbody>
@@ -64,6 +73,7 @@ export function BudgetTable({ uses, shortList = 12 }: { uses: readonly Use[]; sh
                   <TierText severity={CHECK_SEVERITY[use.check]} />
                 )}
               </Td>
+              <Td className="font-mono text-xs text-ink-600">{valueText(use)}</Td>
             </tr>
           ))}
         </tbody>
