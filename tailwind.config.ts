@@ -19,9 +19,16 @@ export default {
           800: '#22303e',
           900: '#141d26',
         },
+        // The use scale (a budget use within, near or over its limit; a finding's tier): teal, amber,
+        // red. Nothing else in the app borrows these three for another meaning.
         tealdeep: { 500: '#0f766e', 600: '#0b5f59', 700: '#084a45' },
         signal: { 400: '#f2a93b', 600: '#8f5405' },
         stop: { 500: '#c2412d', 700: '#8e2a1c' },
+        // The state scale (where a run or a release is in its life), kept apart from the use scale
+        // so a state badge is never read as a budget verdict: indigo from waiting to done, plum for a
+        // failure of the machinery, ink for what is retired. Each state also carries a mark shape.
+        lane: { 50: '#f0f1fb', 200: '#c9ccef', 500: '#5a5fb8', 700: '#3a3d86', 900: '#24265a' },
+        plum: { 500: '#8c2f6f', 700: '#6b2054' },
       },
     },
   },

@@ -1,28 +1,28 @@
 // Small status graphics shared by the tracks table, the track page and the run page.
 import { RUN_STATE_LABELS } from '../../../shared/schemas/pipeline';
 import type { RunStateName } from '../../../shared/schemas/pipeline';
+import { StateBadge } from '../ui/state-badge';
+import type { StateGroup } from '../ui/state-badge';
 
-const STATE_TONE: Record<RunStateName, string> = {
-  queued: 'border-ink-200 bg-ink-50 text-ink-600',
-  cueing: 'border-ink-400 bg-ink-50 text-ink-800',
-  awaiting_review: 'border-tealdeep-500 bg-white text-tealdeep-700',
-  held_by_budget: 'border-signal-400 bg-signal-400/15 text-signal-600',
-  failed: 'border-stop-500 bg-white text-stop-700',
-  cleared: 'border-tealdeep-600 bg-tealdeep-600 text-white',
-  held: 'border-signal-400 bg-signal-400/15 text-signal-600',
-  released: 'border-tealdeep-700 bg-tealdeep-700 text-white',
-  withdrawn: 'border-ink-200 bg-white text-ink-400',
-  superseded: 'border-ink-200 bg-white text-ink-400',
+const STATE_GROUP: Record<RunStateName, StateGroup> = {
+  queued: 'waiting',
+  cueing: 'waiting',
+  awaiting_review: 'decide',
+  held_by_budget: 'decide',
+  held: 'decide',
+  cleared: 'done',
+  released: 'done',
+  failed: 'broken',
+  withdrawn: 'retired',
+  superseded: 'retired',
 };
 
-/** A run state as a small labelled badge. */
+/** A run state as a small labelled badge (the state scale, never the use scale). */
 export function RunStateBadge({ state }: { state: RunStateName }) {
   return (
-    <span
-      className={`inline-flex items-center rounded border px-1.5 py-px text-xs font-medium whitespace-nowrap ${STATE_TONE[state]}`}
-    >
+    <StateBadge group={STATE_GROUP[state]} state={state}>
       {RUN_STATE_LABELS[state]}
-    </span>
+    </StateBadge>
   );
 }
 

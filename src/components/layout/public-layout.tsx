@@ -22,7 +22,7 @@ export function PublicLayout({
       <main
         className={`mx-auto flex w-full flex-1 flex-col gap-4 px-4 py-8 ${wide ? 'max-w-5xl' : 'max-w-md'}`}
       >
-        <h1 className="text-lg font-semibold text-ink-900">{title}</h1>
+        <h1 className="text-xl font-semibold tracking-tight text-ink-900">{title}</h1>
         {children}
       </main>
       <CautionStrip />

@@ -1,22 +1,22 @@
 import { RELEASE_STATE_LABELS } from '../../../shared/schemas/release';
 import type { ReleaseState } from '../../../shared/schemas/release';
+import { StateBadge } from '../ui/state-badge';
+import type { StateGroup } from '../ui/state-badge';
 
-const TONE: Record<ReleaseState, string> = {
-  building: 'border-ink-400 bg-ink-50 text-ink-800',
-  ready: 'border-tealdeep-700 bg-tealdeep-700 text-white',
-  failed: 'border-stop-500 bg-white text-stop-700',
-  superseded: 'border-ink-200 bg-white text-ink-400',
-  withdrawn: 'border-stop-500 bg-white text-stop-700',
+const GROUP: Record<ReleaseState, StateGroup> = {
+  building: 'waiting',
+  ready: 'done',
+  failed: 'broken',
+  superseded: 'retired',
+  withdrawn: 'retired',
 };
 
-/** A release state as a small labelled badge. */
+/** A release state as a small labelled badge (the state scale, never the use scale). */
 export function ReleaseStateBadge({ state }: { state: ReleaseState }) {
   return (
-    <span
-      className={`inline-flex items-center rounded border px-1.5 py-px text-xs font-medium whitespace-nowrap ${TONE[state]}`}
-    >
+    <StateBadge group={GROUP[state]} state={state}>
       {RELEASE_STATE_LABELS[state]}
-    </span>
+    </StateBadge>
   );
 }
 

@@ -49,7 +49,7 @@ export function Stat({
 export function PageHeading({ title, subtitle }: { title: string; subtitle?: ReactNode }) {
   return (
     <header className="flex flex-col gap-0.5">
-      <h1 className="text-lg font-semibold text-ink-900">{title}</h1>
+      <h1 className="text-xl font-semibold tracking-tight text-ink-900">{title}</h1>
       {subtitle ? <p className="text-sm text-ink-600">{subtitle}</p> : null}
     </header>
   );
