@@ -20,7 +20,8 @@ export default {
           900: '#141d26',
         },
         // The use scale (a budget use within, near or over its limit; a finding's tier): teal, amber,
-        // red. Nothing else in the app borrows these three for another meaning.
+        // red. Amber and red mean nothing else; teal is also the accent of links, focus rings and the
+        // current page in the navigation, never of a state.
         tealdeep: { 500: '#0f766e', 600: '#0b5f59', 700: '#084a45' },
         signal: { 400: '#f2a93b', 600: '#8f5405' },
         stop: { 500: '#c2412d', 700: '#8e2a1c' },

@@ -37,7 +37,7 @@ export function Stat({
     <div className="flex min-w-32 flex-col rounded border border-ink-100 bg-ink-50 px-3 py-2">
       <span className="text-xs text-ink-600">{label}</span>
       <span
-        className={`font-mono text-2xl ${tone === 'hold' && value > 0 ? 'text-signal-600' : 'text-ink-900'}`}
+        className={`font-mono text-2xl ${tone === 'hold' && value > 0 ? 'text-lane-700' : 'text-ink-900'}`}
       >
         {value}
       </span>

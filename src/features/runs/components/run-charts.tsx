@@ -1,8 +1,8 @@
 // The run's charts from its decimated series. Values stay SI in the data; millimetres and degrees
 // exist only here, for display.
-import { useCallback, useMemo, useRef, useState } from 'react';
+import { Fragment, useCallback, useMemo, useRef, useState } from 'react';
 import type { KeyboardEvent, ReactNode } from 'react';
-import type { Finding } from '../../../../shared/schemas/findings';
+import type { Finding, Use } from '../../../../shared/schemas/findings';
 import type { MotionBase } from '../../../../shared/schemas/motion-base';
 import type { RunSeries, SeriesBand } from '../../../../shared/schemas/run-series';
 import { BandChart } from '../../../components/charts/band-chart';
@@ -13,6 +13,8 @@ import { BasePreview } from './base-preview';
 import type { ProxyVideoClip } from './base-preview';
 import { runTimecode } from '../utils/film-time';
 import { nearestIndex } from '../utils/finding-view';
+import { chartGroupOrder } from '../utils/chart-order';
+import { UseRatioBar } from '../../../components/charts/run-badges';
 import { Button } from '../../../components/ui/button';
 
 const M_TO_MM = 1000;
@@ -82,15 +84,33 @@ const GROUP_QUESTIONS: Record<Exclude<ChartGroupId, 'all'>, string> = {
   touchup: 'What the touch-up changed in the take, column by column.',
 };
 
-function ChartGroup({ id, children }: { id: Exclude<ChartGroupId, 'all'>; children: ReactNode }) {
+function ChartGroup({
+  id,
+  worst,
+  children,
+}: {
+  id: Exclude<ChartGroupId, 'all'>;
+  /** The largest use among the checks this group's charts show, when the run reports one. */
+  worst?: number | undefined;
+  children: ReactNode;
+}) {
   const label = CHART_GROUPS.find((g) => g.id === id)?.label ?? id;
   return (
     <section className="flex flex-col gap-2" aria-label={label} data-chart-group={id}>
-      <header className="flex flex-wrap items-baseline gap-x-3 border-b border-ink-100 pb-1">
+      <header className="flex flex-wrap items-center gap-x-3 gap-y-1 border-b border-ink-100 pb-1">
         <h3 className="text-sm font-semibold text-ink-900">{label}</h3>
         <p className="text-xs text-ink-600">{GROUP_QUESTIONS[id]}</p>
+        {worst !== undefined ? (
+          <span
+            className="ml-auto inline-flex items-center gap-1 text-xs text-ink-600"
+            data-group-worst={worst}
+          >
+            largest use here
+            <UseRatioBar ratio={worst} label={`largest use, ${label}`} />
+          </span>
+        ) : null}
       </header>
-      <div className="grid grid-cols-1 gap-x-6 gap-y-5 xl:grid-cols-2">{children}</div>
+      <div className="grid grid-cols-1 gap-x-6 gap-y-5 2xl:grid-cols-2">{children}</div>
     </section>
   );
 }
@@ -163,6 +183,7 @@ function GroupTabs({
 export function RunCharts({
   series,
   findings,
+  uses = [],
   base = null,
   filmSync = null,
   video = null,
@@ -174,6 +195,8 @@ export function RunCharts({
 }: {
   series: RunSeries;
   findings: readonly Finding[];
+  /** The run's budget uses: the chart groups come largest use first. */
+  uses?: readonly Use[];
   /** The run's film sync: the cursor read-out shows the picture's timecode beside the seconds. */
   filmSync?: FilmSync | null;
   /** The take's proxy video, played in step with the 3-D preview; none, no video. */
@@ -309,6 +332,8 @@ export function RunCharts({
     onZoom: onView ? zoom : undefined,
   };
   const groups = CHART_GROUPS.filter((g) => g.id !== 'touchup' || touchupCharts.length > 0);
+  // The group closest to (or over) a limit comes first.
+  const ordered = useMemo(() => chartGroupOrder(uses), [uses]);
   const shows = (id: ChartGroupId) => group === 'all' || group === id;
   const panelId = 'run-chart-panel';
 
@@ -352,86 +377,113 @@ export function RunCharts({
         aria-labelledby={`${panelId}-tab-${group}`}
         className="flex flex-col gap-6"
       >
-        {shows('rider') ? (
-          <ChartGroup id="rider">
-            {force.map(({ axis, bands }) => (
-              <BandChart
-                key={axis}
-                title={`Specific force ${AXIS_NAMES[axis]}`}
-                yLabel="m/s²"
-                bands={bands}
-                {...shared}
-              />
-            ))}
-          </ChartGroup>
-        ) : null}
-        {shows('pose') && (translation.length > 0 || rotation.length > 0) ? (
-          <ChartGroup id="pose">
-            {translation.length > 0 ? (
-              <BandChart
-                title="Pose offset, translation"
-                yLabel="mm"
-                bands={translation}
-                {...shared}
-                scale={M_TO_MM}
-              />
-            ) : null}
-            {rotation.length > 0 ? (
-              <BandChart
-                title="Pose offset, rotation"
-                yLabel="deg"
-                bands={rotation}
-                {...shared}
-                scale={RAD_TO_DEG}
-              />
-            ) : null}
-          </ChartGroup>
-        ) : null}
-        {shows('actuators') ? (
-          <ChartGroup id="actuators">
-            <BandChart
-              title="Leg lengths inside the stroke band"
-              yLabel="m"
-              bands={legs}
-              {...shared}
-              lines={strokeLines}
-            />
-            {legForce.length > 0 ? (
-              <BandChart
-                title="Actuator forces (compression positive)"
-                yLabel="kN"
-                bands={legForce}
-                {...shared}
-                lines={forceLines}
-                scale={1e-3}
-              />
-            ) : null}
-            {base ? (
-              <div className="flex min-w-0 flex-col gap-1">
-                <h4 className="text-sm font-semibold text-ink-900">
-                  Motion base at the cursor (the venue&apos;s current geometry)
-                </h4>
-                <BasePreview base={base} series={series} index={index} onIndex={setIndex} video={video} />
+        <div
+          className={`grid grid-cols-1 gap-6 ${base ? 'xl:grid-cols-[minmax(0,1fr)_minmax(18rem,32%)]' : ''}`}
+          data-testid="run-charts-layout"
+        >
+          <div className="flex min-w-0 flex-col gap-6" data-testid="chart-groups">
+            {ordered.order.map((id) => {
+              if (id === 'rider')
+                return (
+                  <Fragment key={id}>
+                    {shows('rider') ? (
+                      <ChartGroup id="rider" worst={ordered.worst.rider}>
+                        {force.map(({ axis, bands }) => (
+                          <BandChart
+                            key={axis}
+                            title={`Specific force ${AXIS_NAMES[axis]}`}
+                            yLabel="m/s²"
+                            bands={bands}
+                            {...shared}
+                          />
+                        ))}
+                      </ChartGroup>
+                    ) : null}
+                  </Fragment>
+                );
+              if (id === 'pose')
+                return (
+                  <Fragment key={id}>
+                    {shows('pose') && (translation.length > 0 || rotation.length > 0) ? (
+                      <ChartGroup id="pose" worst={ordered.worst.pose}>
+                        {translation.length > 0 ? (
+                          <BandChart
+                            title="Pose offset, translation"
+                            yLabel="mm"
+                            bands={translation}
+                            {...shared}
+                            scale={M_TO_MM}
+                          />
+                        ) : null}
+                        {rotation.length > 0 ? (
+                          <BandChart
+                            title="Pose offset, rotation"
+                            yLabel="deg"
+                            bands={rotation}
+                            {...shared}
+                            scale={RAD_TO_DEG}
+                          />
+                        ) : null}
+                      </ChartGroup>
+                    ) : null}
+                  </Fragment>
+                );
+              return (
+                <Fragment key={id}>
+                  {shows('actuators') ? (
+                    <ChartGroup id="actuators" worst={ordered.worst.actuators}>
+                      <BandChart
+                        title="Leg lengths inside the stroke band"
+                        yLabel="m"
+                        bands={legs}
+                        {...shared}
+                        lines={strokeLines}
+                      />
+                      {legForce.length > 0 ? (
+                        <BandChart
+                          title="Actuator forces (compression positive)"
+                          yLabel="kN"
+                          bands={legForce}
+                          {...shared}
+                          lines={forceLines}
+                          scale={1e-3}
+                        />
+                      ) : null}
+                    </ChartGroup>
+                  ) : null}
+                </Fragment>
+              );
+            })}
+            {shows('touchup') && touchupCharts.length > 0 ? (
+              <div data-testid="touchup-charts">
+                <ChartGroup id="touchup">
+                  {touchupCharts.map((c) => (
+                    <BandChart
+                      key={c.name}
+                      title={`Touch-up ${c.label}`}
+                      yLabel={c.unit}
+                      bands={c.bands}
+                      {...shared}
+                      scale={c.scale}
+                    />
+                  ))}
+                </ChartGroup>
               </div>
             ) : null}
-          </ChartGroup>
-        ) : null}
-        {shows('touchup') && touchupCharts.length > 0 ? (
-          <div data-testid="touchup-charts">
-            <ChartGroup id="touchup">
-              {touchupCharts.map((c) => (
-                <BandChart
-                  key={c.name}
-                  title={`Touch-up ${c.label}`}
-                  yLabel={c.unit}
-                  bands={c.bands}
-                  {...shared}
-                  scale={c.scale}
-                />
-              ))}
-            </ChartGroup>
           </div>
-        ) : null}
+          {base ? (
+            <aside
+              className="flex min-w-0 flex-col gap-1 self-start xl:sticky xl:top-32"
+              aria-label="Motion base at the cursor"
+              data-testid="base-aside"
+            >
+              <h3 className="text-sm font-semibold text-ink-900">
+                Motion base at the cursor (the venue&apos;s current geometry)
+              </h3>
+              <BasePreview base={base} series={series} index={index} onIndex={setIndex} video={video} />
+            </aside>
+          ) : null}
+        </div>
       </div>
     </div>
   );

@@ -7,7 +7,7 @@ import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import type { ReactNode } from 'react';
 import { parseMotionBase } from '../../../../shared/schemas/motion-base';
 import type { MotionBase } from '../../../../shared/schemas/motion-base';
-import type { Finding } from '../../../../shared/schemas/findings';
+import type { Finding, Use } from '../../../../shared/schemas/findings';
 import type { FilmSync } from '../../../../shared/schemas/film-sync';
 import type { RunSeries } from '../../../../shared/schemas/run-series';
 import type { XRange } from '../../../components/charts/band-chart';
@@ -78,12 +78,15 @@ function useFindingFocus(findings: readonly Finding[]) {
   return { selected, view, select, onView, position, step };
 }
 
+const NO_USES: readonly Use[] = [];
+
 function Workbench({
   studioId,
   runId,
   venueId,
   takeDuration_s,
   findings,
+  uses,
   filmSync,
   focus,
   video,
@@ -93,6 +96,7 @@ function Workbench({
   venueId: string;
   takeDuration_s: number;
   findings: readonly Finding[];
+  uses: readonly Use[];
   filmSync: FilmSync | null;
   focus: ReturnType<typeof useFindingFocus>;
   video: ProxyVideoClip | null;
@@ -119,6 +123,7 @@ function Workbench({
           <RunCharts
             series={series.data}
             findings={findings}
+            uses={uses}
             base={base}
             filmSync={filmSync}
             video={video}
@@ -244,6 +249,7 @@ export function RunView({
           venueId={detail.venueId}
           takeDuration_s={detail.take.duration_s}
           findings={findings}
+          uses={detail.result?.uses ?? NO_USES}
           filmSync={detail.filmSync}
           focus={focus}
           video={
