@@ -72,9 +72,13 @@ export function AppShell({ switcher, account, nav, children }: AppShellProps) {
         <div className="min-w-0 flex-1">{switcher}</div>
         {account}
       </header>
-      <div className="flex flex-1">
-        <nav aria-label="Studio pages" className="w-48 shrink-0 border-r border-ink-200 bg-white px-2 py-3">
-          <ul className="flex flex-col gap-0.5">
+      {/* Below 1024 px (a tablet held upright) the navigation runs along the top, so the page keeps the width. */}
+      <div className="flex flex-1 flex-col lg:flex-row">
+        <nav
+          aria-label="Studio pages"
+          className="shrink-0 border-b border-ink-200 bg-white px-2 py-2 lg:w-48 lg:border-r lg:border-b-0 lg:py-3"
+        >
+          <ul className="flex flex-row flex-wrap gap-0.5 lg:flex-col">
             {nav.map((item) => (
               <li key={item.to}>
                 <NavLink
