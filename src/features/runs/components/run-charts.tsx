@@ -254,8 +254,24 @@ export function RunCharts({
       }),
     [series],
   );
-  const translation = useMemo(() => poseBands(series.pose, '_m'), [series]);
-  const rotation = useMemo(() => poseBands(series.pose, '_rad'), [series]);
+  const poseCharts = useMemo(
+    () =>
+      [
+        {
+          title: 'Pose offset, translation',
+          yLabel: 'mm',
+          bands: poseBands(series.pose, '_m'),
+          scale: M_TO_MM,
+        },
+        {
+          title: 'Pose offset, rotation',
+          yLabel: 'deg',
+          bands: poseBands(series.pose, '_rad'),
+          scale: RAD_TO_DEG,
+        },
+      ].filter((c) => c.bands.length > 0),
+    [series],
+  );
   const legs = useMemo(
     () =>
       series.legs.map((band, i) => ({
@@ -315,6 +331,16 @@ export function RunCharts({
       })),
     [series],
   );
+  const actuatorCharts = [
+    { title: 'Leg lengths inside the stroke band', yLabel: 'm', bands: legs, lines: strokeLines, scale: 1 },
+    {
+      title: 'Actuator forces (compression positive)',
+      yLabel: 'kN',
+      bands: legForce,
+      lines: forceLines,
+      scale: 1e-3,
+    },
+  ].filter((c, k) => k === 0 || c.bands.length > 0);
   const zoom = useCallback((range: XRange) => onView?.(range), [onView]);
   const cursor_s = series.time_s[index] ?? null;
   const cursorTimecode = cursor_s === null ? null : runTimecode(cursor_s, filmSync);
@@ -404,26 +430,11 @@ export function RunCharts({
               if (id === 'pose')
                 return (
                   <Fragment key={id}>
-                    {shows('pose') && (translation.length > 0 || rotation.length > 0) ? (
+                    {shows('pose') && poseCharts.length > 0 ? (
                       <ChartGroup id="pose" worst={ordered.worst.pose}>
-                        {translation.length > 0 ? (
-                          <BandChart
-                            title="Pose offset, translation"
-                            yLabel="mm"
-                            bands={translation}
-                            {...shared}
-                            scale={M_TO_MM}
-                          />
-                        ) : null}
-                        {rotation.length > 0 ? (
-                          <BandChart
-                            title="Pose offset, rotation"
-                            yLabel="deg"
-                            bands={rotation}
-                            {...shared}
-                            scale={RAD_TO_DEG}
-                          />
-                        ) : null}
+                        {poseCharts.map((c) => (
+                          <BandChart key={c.title} {...c} {...shared} />
+                        ))}
                       </ChartGroup>
                     ) : null}
                   </Fragment>
@@ -432,23 +443,9 @@ export function RunCharts({
                 <Fragment key={id}>
                   {shows('actuators') ? (
                     <ChartGroup id="actuators" worst={ordered.worst.actuators}>
-                      <BandChart
-                        title="Leg lengths inside the stroke band"
-                        yLabel="m"
-                        bands={legs}
-                        {...shared}
-                        lines={strokeLines}
-                      />
-                      {legForce.length > 0 ? (
-                        <BandChart
-                          title="Actuator forces (compression positive)"
-                          yLabel="kN"
-                          bands={legForce}
-                          {...shared}
-                          lines={forceLines}
-                          scale={1e-3}
-                        />
-                      ) : null}
+                      {actuatorCharts.map((c) => (
+                        <BandChart key={c.title} {...c} {...shared} />
+                      ))}
                     </ChartGroup>
                   ) : null}
                 </Fragment>
