@@ -35,9 +35,13 @@ export function siUnit(unit: string): string {
   return unit.replace(/\^([23])(?![\d.])/g, (_m, p: string) => SUPERSCRIPTS[p] ?? `^${p}`);
 }
 
-/** The unit of a check's value and limit, as SI writes it. */
+/**
+ * The unit of a check's value and limit, as SI writes it; empty for a quantity of dimension one
+ * (the condition number), whose unit 1 is not written (BIPM SI Brochure, 9th ed., section 2.3.3).
+ */
 export function checkUnit(check: CheckName): string {
-  return siUnit(CHECK_UNIT[check]);
+  const unit = CHECK_UNIT[check];
+  return unit === '1' ? '' : siUnit(unit);
 }
 
 /** "leg3" → "Leg 3", "seat2" → "Seat 2", "x" → "x axis", "start" → "Start"; anything else as it is. */

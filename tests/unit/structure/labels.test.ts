@@ -24,6 +24,8 @@ describe('labels', () => {
     expect(siUnit('m/s^1.75')).toBe('m/s^1.75');
     expect(checkUnit('legAccel')).toBe('m/s²');
     expect(checkUnit('legSpeed')).toBe('m/s');
+    // A quantity of dimension one has no unit written (BIPM SI Brochure, 9th ed., 2.3.3).
+    expect(checkUnit('conditioning')).toBe('');
   });
 
   it('names legs, seats and axes', () => {
