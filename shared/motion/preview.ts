@@ -13,14 +13,14 @@ import type { CueingProfile } from '../schemas/cueing-profile';
 import type { Use } from '../schemas/findings';
 import type { MotionBase } from '../schemas/motion-base';
 import type { SeriesBand } from '../schemas/run-series';
-import { strokeBand, strokeUse } from './checks';
+import { strokeBand } from './checks';
 import { withNeutralRamps } from './controller-output';
 import type { PoseColumns } from './hexapod';
 import { hexapodGeometry, hexapodInverse } from './hexapod';
 import { planar3Geometry, planar3Inverse } from './planar3';
 import { ProcessInputError, processTrack, sig } from './process';
 import { GAP_MAX_S, findGaps, medianSpacing, resampleAntiAlias } from './resample';
-import { minMaxOnEdges, seriesBucketEdges } from './run-series';
+import { seriesBucketEdges } from './run-series';
 import { platformMotion, seatForceFromMotion } from './seat-force';
 import type { Track } from './track-reader';
 import { trackColumn } from './track-reader';
@@ -131,6 +131,14 @@ const POSE_KEYS = ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as c
 
 /** The motion of one profile on a prepared take (see the file comment: processTrack's steps, in its order). */
 export function computePreviewMotion(take: PreviewTake, settings: PreviewSettings): PreviewMotion {
+  const m = previewMotion(take, settings);
+  const band = strokeBand(settings.base.leg, settings.strokeMargin_m);
+  // strokeUse(L) = |L - mid| / half-width grows with |L - mid|, so the worst use is the largest excursion
+  // over the half-width (a rounded division by one positive number keeps the order: the same value).
+  return { ...m, strokeUse: m.legs.map((leg) => peakAbs(leg, band.mid_m) / band.halfWidth_m) };
+}
+
+function previewMotion(take: PreviewTake, settings: PreviewSettings): Omit<PreviewMotion, 'strokeUse'> {
   const { base, profile } = settings;
   const rate_hz = take.rate_hz;
   if (rate_hz !== base.controllerRate_hz) {
@@ -162,22 +170,18 @@ export function computePreviewMotion(take: PreviewTake, settings: PreviewSetting
       pose = r.pose;
     }
   }
+  // The platform's motion first: inverse kinematics reads its rotation matrices instead of computing
+  // the same ones again.
+  const motion = platformMotion({ rate_hz, ...pose });
   const legs =
     base.kind === 'hexapod'
-      ? hexapodInverse(hexapodGeometry(base), pose)
+      ? hexapodInverse(hexapodGeometry(base), pose, undefined, motion.rotation)
       : planar3Inverse(planar3Geometry(base), { x_m: pose.x_m, y_m: pose.y_m, yaw_rad: pose.yaw_rad });
-  const motion = platformMotion({ rate_hz, ...pose });
   const seatForce_mps2 = base.seats_m.map((seat) => {
     const f = seatForceFromMotion(motion, seat);
     return [f.x, f.y, f.z] as const;
   });
-  const band = strokeBand(base.leg, settings.strokeMargin_m);
-  const use = legs.map((leg) => {
-    let worst = 0;
-    for (let i = 0; i < leg.length; i++) worst = Math.max(worst, strokeUse(leg[i] as number, band));
-    return worst;
-  });
-  return { rate_hz, time_s, pose, legs, seatForce_mps2, strokeUse: use };
+  return { rate_hz, time_s, pose, legs, seatForce_mps2 };
 }
 
 function peakAbs(a: Float64Array, offset = 0): number {
@@ -186,52 +190,93 @@ function peakAbs(a: Float64Array, offset = 0): number {
   return m;
 }
 
+/** Min and max per bucket of `edges` (a chart band, unrounded) and over the whole signal, in one pass. */
+function bandAndRange(signal: Float64Array, edges: Int32Array): { band: SeriesBand; lo: number; hi: number } {
+  const count = edges.length - 1;
+  if (signal.length !== (edges[count] as number)) {
+    throw new RangeError(`a chart signal of ${signal.length} samples on a time axis of ${edges[count]}`);
+  }
+  const min = new Array<number>(count);
+  const max = new Array<number>(count);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let b = 0; b < count; b++) {
+    let bl = Infinity;
+    let bh = -Infinity;
+    const end = edges[b + 1] as number;
+    for (let i = edges[b] as number; i < end; i++) {
+      const v = signal[i] as number;
+      if (v < bl) bl = v;
+      if (v > bh) bh = v;
+    }
+    min[b] = bl;
+    max[b] = bh;
+    if (bl < lo) lo = bl;
+    if (bh > hi) hi = bh;
+  }
+  return { band: { min, max }, lo, hi };
+}
+
 /**
- * The preview for one profile: the motion (computePreviewMotion) reduced to chart bands and read-outs.
- * This is the function the editor's Web Worker calls on every change.
+ * The preview for one profile: the motion (computePreviewMotion's steps) reduced to chart bands and
+ * read-outs. This is the function the editor's Web Worker calls on every change. The bands are the exact
+ * min and max of each bucket; each peak |v| is the larger of |min| and |max| over the take, and each
+ * leg's stroke use the larger excursion of its longest and shortest length from mid-stroke, which are
+ * the same numbers a pass of |v| (or strokeUse) over every sample gives.
  */
 export function computeProfilePreview(take: PreviewTake, settings: PreviewSettings): PreviewOutput {
-  const m = computePreviewMotion(take, settings);
-  const edges = seriesBucketEdges(m.time_s.length, PREVIEW_BUCKETS);
-  const b = (a: Float64Array) => minMaxOnEdges(a, edges);
+  const m = previewMotion(take, settings);
+  const n = m.time_s.length;
+  const edges = seriesBucketEdges(n, PREVIEW_BUCKETS);
   const time_s: number[] = [];
   for (let k = 0; k + 1 < edges.length; k++) time_s.push(m.time_s[edges[k] as number] as number);
-  const seat = m.seatForce_mps2[0];
-  const zero = new Float64Array(m.time_s.length);
   const stroke = strokeBand(settings.base.leg, settings.strokeMargin_m);
+  const peak = (r: { lo: number; hi: number }) => Math.max(Math.abs(r.lo), Math.abs(r.hi));
+  const pose = Object.fromEntries(POSE_KEYS.map((k) => [k, bandAndRange(m.pose[k], edges)])) as Record<
+    keyof PoseColumns,
+    ReturnType<typeof bandAndRange>
+  >;
+  const legs = m.legs.map((leg) => bandAndRange(leg, edges));
+  const use = legs.map((r) => Math.max(r.hi - stroke.mid_m, stroke.mid_m - r.lo) / stroke.halfWidth_m);
+  const seat = m.seatForce_mps2[0];
+  const zero = new Float64Array(n);
+  const force = [0, 1, 2].map((a) => bandAndRange(seat?.[a] ?? zero, edges));
+  const [fx, fy, fz] = force as [
+    ReturnType<typeof bandAndRange>,
+    ReturnType<typeof bandAndRange>,
+    ReturnType<typeof bandAndRange>,
+  ];
   let strokeLeg = 0;
-  m.strokeUse.forEach((u, i) => {
-    if (u > (m.strokeUse[strokeLeg] ?? 0)) strokeLeg = i;
+  use.forEach((u, i) => {
+    if (u > (use[strokeLeg] ?? 0)) strokeLeg = i;
   });
   return {
-    samples: m.time_s.length,
+    samples: n,
     rate_hz: m.rate_hz,
     series: {
       time_s,
       pose: {
-        x_m: b(m.pose.x_m),
-        y_m: b(m.pose.y_m),
-        z_m: b(m.pose.z_m),
-        roll_rad: b(m.pose.roll_rad),
-        pitch_rad: b(m.pose.pitch_rad),
-        yaw_rad: b(m.pose.yaw_rad),
+        x_m: pose.x_m.band,
+        y_m: pose.y_m.band,
+        z_m: pose.z_m.band,
+        roll_rad: pose.roll_rad.band,
+        pitch_rad: pose.pitch_rad.band,
+        yaw_rad: pose.yaw_rad.band,
       },
-      legs: m.legs.map(b),
-      seatForce: { x: b(seat?.[0] ?? zero), y: b(seat?.[1] ?? zero), z: b(seat?.[2] ?? zero) },
+      legs: legs.map((r) => r.band),
+      seatForce: { x: fx.band, y: fy.band, z: fz.band },
       stroke: { low_m: stroke.low_m, high_m: stroke.high_m, mid_m: stroke.mid_m },
     },
     peaks: {
-      pose: Object.fromEntries(POSE_KEYS.map((k) => [k, sig(peakAbs(m.pose[k]))])) as Record<
+      pose: Object.fromEntries(POSE_KEYS.map((k) => [k, sig(peak(pose[k]))])) as Record<
         keyof PoseColumns,
         number
       >,
-      seatForce: seat
-        ? { x: sig(peakAbs(seat[0])), y: sig(peakAbs(seat[1])), z: sig(peakAbs(seat[2])) }
-        : { x: 0, y: 0, z: 0 },
-      strokeUse: sig(m.strokeUse[strokeLeg] ?? 0),
+      seatForce: seat ? { x: sig(peak(fx)), y: sig(peak(fy)), z: sig(peak(fz)) } : { x: 0, y: 0, z: 0 },
+      strokeUse: sig(use[strokeLeg] ?? 0),
       strokeLeg: strokeLeg + 1,
     },
-    strokeUse: m.strokeUse.map(sig),
+    strokeUse: use.map(sig),
   };
 }
 

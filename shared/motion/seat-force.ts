@@ -5,9 +5,9 @@
 // past both ends by linear prediction), so a sinusoid up to 0.4 x the rate keeps its true amplitude in
 // the middle and at the ends alike. w is the base-frame angular velocity from the Euler angle rates.
 
-import { bandLimitedDerivativeInto, differentiator } from './band-limit';
+import { bandLimitedDerivatives3Into, differentiator } from './band-limit';
 import type { PoseColumns } from './hexapod';
-import { rotationInto } from './rotation';
+import { rotationFromTrigInto } from './rotation';
 import { G0_MPS2 } from './units';
 
 // A module-local copy: live import bindings can compile to property reads in hot loops.
@@ -72,26 +72,23 @@ export function platformMotion(pose: PoseOffsetTrack): PlatformMotion {
   const omega = new Float64Array(3 * n);
   const alpha = new Float64Array(3 * n);
   const D = differentiator(rate);
-  bandLimitedDerivativeInto(D, 2, pose.x_m, accel, 3, 0);
-  bandLimitedDerivativeInto(D, 2, pose.y_m, accel, 3, 1);
-  bandLimitedDerivativeInto(D, 2, pose.z_m, accel, 3, 2);
+  bandLimitedDerivatives3Into(D, pose.x_m, pose.y_m, pose.z_m, null, accel);
   // Angle rates go into omega and angle accelerations into alpha as scratch; each sample then turns
   // them into w = E rates and alpha = dE/dt rates + E accels (E as in eulerRateToBaseOmegaInto), so
   // alpha needs no derivative of a derivative.
-  bandLimitedDerivativeInto(D, 1, pose.roll_rad, omega, 3, 0);
-  bandLimitedDerivativeInto(D, 1, pose.pitch_rad, omega, 3, 1);
-  bandLimitedDerivativeInto(D, 1, pose.yaw_rad, omega, 3, 2);
-  bandLimitedDerivativeInto(D, 2, pose.roll_rad, alpha, 3, 0);
-  bandLimitedDerivativeInto(D, 2, pose.pitch_rad, alpha, 3, 1);
-  bandLimitedDerivativeInto(D, 2, pose.yaw_rad, alpha, 3, 2);
+  bandLimitedDerivatives3Into(D, pose.roll_rad, pose.pitch_rad, pose.yaw_rad, omega, alpha);
+  const rollCol = pose.roll_rad;
+  const pitchCol = pose.pitch_rad;
+  const yawCol = pose.yaw_rad;
   for (let i = 0; i < n; i++) {
-    const pitch = pose.pitch_rad[i] as number;
-    const yaw = pose.yaw_rad[i] as number;
-    rotationInto(pose.roll_rad[i] as number, pitch, yaw, rotation, 9 * i);
+    const roll = rollCol[i] as number;
+    const pitch = pitchCol[i] as number;
+    const yaw = yawCol[i] as number;
     const cp = Math.cos(pitch);
     const sp = Math.sin(pitch);
     const cy = Math.cos(yaw);
     const sy = Math.sin(yaw);
+    rotationFromTrigInto(Math.cos(roll), Math.sin(roll), cp, sp, cy, sy, rotation, 9 * i);
     const o = 3 * i;
     const dr = omega[o] as number;
     const dp = omega[o + 1] as number;

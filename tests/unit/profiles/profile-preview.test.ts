@@ -13,9 +13,11 @@ import { defaultCueingProfile } from '../../../shared/schemas/cueing-profile';
 import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
 import { demoHexapodBase, demoPlanar3Base } from '../../../shared/schemas/motion-base';
 import type { MotionBase } from '../../../shared/schemas/motion-base';
-import { processTrack } from '../../../shared/motion/process';
+import { processTrack, sig } from '../../../shared/motion/process';
+import { seriesBucketEdges } from '../../../shared/motion/run-series';
 import {
   computePreviewMotion,
+  PREVIEW_BUCKETS,
   computeProfilePreview,
   preparePreviewTake,
   previewChecks,
@@ -102,6 +104,52 @@ describe('profile preview against the worker path (processTrack as worker/jobs/c
       }
     });
   }
+
+  it("what the Web Worker answers (computeProfilePreview) is the run's own series, bucket by bucket", () => {
+    // Reference: processTrack's pose, legs and seat 1 force, reduced here with a plain min/max per
+    // bucket of seriesBucketEdges; the peaks are max |v| over the take and the stroke use the run's
+    // stroke ratio, all rounded by sig as the preview rounds them. Tolerance 0: the preview must show
+    // the very numbers of the run, for each of several profiles given in turn.
+    const base = demoHexapodBase;
+    const take = preparePreviewTake(track, base.controllerRate_hz);
+    for (const profile of [stiffer(defaultCueingProfile()), defaultCueingProfile()]) {
+      const out = computeProfilePreview(take, {
+        base,
+        profile,
+        ramp: RAMP,
+        strokeMargin_m: DEMO_BUDGET.strokeMargin_m,
+      });
+      const ref = processTrack({ track, base, budget: DEMO_BUDGET, profile, ramp: RAMP });
+      const n = ref.time_s.length;
+      expect(out.samples).toBe(n);
+      const edges = seriesBucketEdges(n, PREVIEW_BUCKETS);
+      expect(out.series.time_s).toEqual(Array.from(edges.subarray(0, -1), (e) => ref.time_s[e]));
+      const expectBand = (band: { min: number[]; max: number[] }, a: Float64Array) => {
+        expect(band.min.length).toBe(edges.length - 1);
+        for (let k = 0; k + 1 < edges.length; k++) {
+          const part = Array.from(a.subarray(edges[k], edges[k + 1]));
+          expect(band.min[k]).toBe(Math.min(...part));
+          expect(band.max[k]).toBe(Math.max(...part));
+        }
+      };
+      const peak = (a: Float64Array) => sig(a.reduce((m, v) => Math.max(m, Math.abs(v)), 0));
+      for (const k of ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const) {
+        expectBand(out.series.pose[k], ref.pose[k]);
+        expect(out.peaks.pose[k]).toBe(peak(ref.pose[k]));
+      }
+      ref.legs.forEach((leg, i) => expectBand(out.series.legs[i]!, leg));
+      const seat = ref.seatForce_mps2[0]!;
+      (['x', 'y', 'z'] as const).forEach((a, j) => {
+        expectBand(out.series.seatForce[a], seat[j]!);
+        expect(out.peaks.seatForce[a]).toBe(peak(seat[j]!));
+      });
+      const refStroke = ref.check.uses.filter((u) => u.check === 'stroke');
+      expect(out.strokeUse).toEqual(
+        ref.legs.map((_, i) => sig(refStroke.find((u) => u.subject === `leg${i + 1}`)!.ratio)),
+      );
+      expect(out.peaks.strokeUse).toBe(Math.max(...out.strokeUse));
+    }
+  });
 
   it('the budget uses of previewChecks are the run summary uses of the same inputs', () => {
     const profile = stiffer(defaultCueingProfile());
