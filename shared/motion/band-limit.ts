@@ -460,3 +460,108 @@ export function bandLimitedDerivative(diff: Differentiator, order: 1 | 2, src: F
   bandLimitedDerivativeInto(diff, order, src, out);
   return out;
 }
+
+/**
+ * The first and/or second derivatives (as bandLimitedDerivativeInto) of three signals of one length in
+ * one pass, interleaved: sample i of signal j goes to d1Out[3 i + j] and d2Out[3 i + j] (pass null for an
+ * order not wanted). Each output is summed in the same order as bandLimitedDerivativeInto sums it, so the
+ * values are the same to the bit; reading the three signals and both orders together only saves the
+ * repeated passes over memory and lets the sums run side by side.
+ */
+export function bandLimitedDerivatives3Into(
+  diff: Differentiator,
+  a: Float64Array,
+  b: Float64Array,
+  c: Float64Array,
+  d1Out: Float64Array | null,
+  d2Out: Float64Array | null,
+): void {
+  const n = a.length;
+  if (b.length !== n || c.length !== n) {
+    throw new RangeError(`three signals of ${n}, ${b.length} and ${c.length} samples: they must agree`);
+  }
+  if (n < 2) {
+    for (let i = 0; i < 3 * n; i++) {
+      if (d1Out) d1Out[i] = 0;
+      if (d2Out) d2Out[i] = 0;
+    }
+    return;
+  }
+  const M = (diff.d1.length - 1) / 2;
+  if ((diff.d2.length - 1) / 2 !== M)
+    throw new RangeError('first and second derivative taps differ in width');
+  const e0 = extendByPrediction(a, M);
+  const e1 = extendByPrediction(b, M);
+  const e2 = extendByPrediction(c, M);
+  const h1 = diff.d1.slice(M);
+  const h2 = diff.d2.slice(M);
+  const c2 = h2[0] as number;
+  if (d1Out && d2Out) {
+    for (let i = 0; i < n; i++) {
+      const m = i + M;
+      let p0 = 0;
+      let p1 = 0;
+      let p2 = 0;
+      let q0 = c2 * (e0[m] as number);
+      let q1 = c2 * (e1[m] as number);
+      let q2 = c2 * (e2[m] as number);
+      for (let k = 1; k <= M; k++) {
+        const g = h1[k] as number;
+        const h = h2[k] as number;
+        let u = e0[m + k] as number;
+        let v = e0[m - k] as number;
+        p0 += g * (u - v);
+        q0 += h * (u + v);
+        u = e1[m + k] as number;
+        v = e1[m - k] as number;
+        p1 += g * (u - v);
+        q1 += h * (u + v);
+        u = e2[m + k] as number;
+        v = e2[m - k] as number;
+        p2 += g * (u - v);
+        q2 += h * (u + v);
+      }
+      const o = 3 * i;
+      d1Out[o] = p0;
+      d1Out[o + 1] = p1;
+      d1Out[o + 2] = p2;
+      d2Out[o] = q0;
+      d2Out[o + 1] = q1;
+      d2Out[o + 2] = q2;
+    }
+  } else if (d2Out) {
+    for (let i = 0; i < n; i++) {
+      const m = i + M;
+      let q0 = c2 * (e0[m] as number);
+      let q1 = c2 * (e1[m] as number);
+      let q2 = c2 * (e2[m] as number);
+      for (let k = 1; k <= M; k++) {
+        const h = h2[k] as number;
+        q0 += h * ((e0[m + k] as number) + (e0[m - k] as number));
+        q1 += h * ((e1[m + k] as number) + (e1[m - k] as number));
+        q2 += h * ((e2[m + k] as number) + (e2[m - k] as number));
+      }
+      const o = 3 * i;
+      d2Out[o] = q0;
+      d2Out[o + 1] = q1;
+      d2Out[o + 2] = q2;
+    }
+  } else if (d1Out) {
+    for (let i = 0; i < n; i++) {
+      const m = i + M;
+      let p0 = 0;
+      let p1 = 0;
+      let p2 = 0;
+      for (let k = 1; k <= M; k++) {
+        const g = h1[k] as number;
+        p0 += g * ((e0[m + k] as number) - (e0[m - k] as number));
+        p1 += g * ((e1[m + k] as number) - (e1[m - k] as number));
+        p2 += g * ((e2[m + k] as number) - (e2[m - k] as number));
+      }
+      const o = 3 * i;
+      d1Out[o] = p0;
+      d1Out[o + 1] = p1;
+      d1Out[o + 2] = p2;
+    }
+  }
+}

@@ -171,6 +171,67 @@ export interface RampedPose {
 const POSE_KEYS = ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const;
 
 /**
+ * The time axis of withNeutralRamps (which calls this): the show's own times, with the r ramp samples
+ * before its first and after its last at the uniform rate; time_s itself when there is no ramp.
+ */
+export function rampedTime(
+  time_s: Float64Array,
+  rate_hz: number,
+  ramp: ControllerOutput['ramp'],
+): Float64Array {
+  const n = time_s.length;
+  const r = Math.round(ramp.duration_s * rate_hz);
+  if (r === 0 || n < 3) return time_s;
+  const dt = 1 / rate_hz;
+  const out = new Float64Array(n + 2 * r);
+  const t0 = time_s[0] as number;
+  const t1 = time_s[n - 1] as number;
+  out.set(time_s, r);
+  for (let k = 0; k < r; k++) {
+    out[k] = t0 - (r - k) * dt;
+    out[n + r + k] = t1 + (k + 1) * dt;
+  }
+  return out;
+}
+
+/**
+ * One pose column with the ramps of withNeutralRamps (which calls this for each column): r =
+ * round(duration x rate) samples from neutral at rest before it and as many back to neutral after it.
+ * The column itself is returned unchanged when there is no ramp (r = 0 or fewer than 3 samples).
+ * `previous` (a column this returned before) is written over when it has the ramped length.
+ */
+export function rampedColumn(
+  src: Float64Array,
+  rate_hz: number,
+  ramp: ControllerOutput['ramp'],
+  previous?: Float64Array,
+): Float64Array {
+  const n = src.length;
+  const r = Math.round(ramp.duration_s * rate_hz);
+  if (r === 0 || n < 3) return src;
+  const dt = 1 / rate_hz;
+  const d = r * dt;
+  const m = n + 2 * r;
+  // Every sample is written below, so the previous column of this length can take the new one.
+  const col = previous && previous.length === m && previous !== src ? previous : new Float64Array(m);
+  col.set(src, r);
+  // One-sided speed and acceleration of the show at its ends, scaled to the ramp's unit time.
+  const v0 = (((src[1] as number) - (src[0] as number)) / dt) * d;
+  const a0 = (((src[2] as number) - 2 * (src[1] as number) + (src[0] as number)) / (dt * dt)) * d * d;
+  const v1 = (((src[n - 1] as number) - (src[n - 2] as number)) / dt) * d;
+  const a1 =
+    (((src[n - 1] as number) - 2 * (src[n - 2] as number) + (src[n - 3] as number)) / (dt * dt)) * d * d;
+  for (let k = 0; k < r; k++) {
+    // Ramp in: u from 0 (neutral, k = 0) towards 1 (the show's first sample at k = r).
+    col[k] = rampValue(ramp.profile, k / r, src[0] as number, v0, a0);
+    // Ramp out, mirrored in time: from the last sample (u = 1) down to neutral (u = 0) at the end.
+    const u = (r - 1 - k) / r;
+    col[n + r + k] = rampValue(ramp.profile, u, src[n - 1] as number, -v1, a1);
+  }
+  return col;
+}
+
+/**
  * Adds a ramp from neutral at rest (pose offset 0) into the first pose and one from the last pose back
  * to neutral at rest, at the uniform rate of the show. The quintic ramp meets the show's position,
  * speed and acceleration at the join, so nothing steps there; the raised cosine meets the position only.
@@ -186,37 +247,10 @@ export function withNeutralRamps(
   if (r === 0 || n < 3) {
     return { time_s, pose, rampIn_s: 0, rampOut_s: 0, showStartFrame: 0, showEndFrame: n - 1 };
   }
-  const dt = 1 / rate_hz;
-  const d = r * dt;
-  const m = n + 2 * r;
-  const out = new Float64Array(m);
-  const t0 = time_s[0] as number;
-  const t1 = time_s[n - 1] as number;
-  out.set(time_s, r);
-  for (let k = 0; k < r; k++) {
-    out[k] = t0 - (r - k) * dt;
-    out[n + r + k] = t1 + (k + 1) * dt;
-  }
+  const d = r * (1 / rate_hz);
+  const out = rampedTime(time_s, rate_hz, ramp);
   const ramped = {} as Record<(typeof POSE_KEYS)[number], Float64Array>;
-  for (const key of POSE_KEYS) {
-    const src = pose[key];
-    const col = new Float64Array(m);
-    col.set(src, r);
-    // One-sided speed and acceleration of the show at its ends, scaled to the ramp's unit time.
-    const v0 = (((src[1] as number) - (src[0] as number)) / dt) * d;
-    const a0 = (((src[2] as number) - 2 * (src[1] as number) + (src[0] as number)) / (dt * dt)) * d * d;
-    const v1 = (((src[n - 1] as number) - (src[n - 2] as number)) / dt) * d;
-    const a1 =
-      (((src[n - 1] as number) - 2 * (src[n - 2] as number) + (src[n - 3] as number)) / (dt * dt)) * d * d;
-    for (let k = 0; k < r; k++) {
-      // Ramp in: u from 0 (neutral, k = 0) towards 1 (the show's first sample at k = r).
-      col[k] = rampValue(ramp.profile, k / r, src[0] as number, v0, a0);
-      // Ramp out, mirrored in time: from the last sample (u = 1) down to neutral (u = 0) at the end.
-      const u = (r - 1 - k) / r;
-      col[n + r + k] = rampValue(ramp.profile, u, src[n - 1] as number, -v1, a1);
-    }
-    ramped[key] = col;
-  }
+  for (const key of POSE_KEYS) ramped[key] = rampedColumn(pose[key], rate_hz, ramp);
   return {
     time_s: out,
     pose: ramped,

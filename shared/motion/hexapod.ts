@@ -119,9 +119,21 @@ export function hexapodLegLengthsInto(
   }
 }
 
-/** Inverse kinematics of a pose track: six leg-length columns (m), written into `out` when given. */
-export function hexapodInverse(g: HexapodGeometry, pose: PoseColumns, out?: Float64Array[]): Float64Array[] {
+/**
+ * Inverse kinematics of a pose track: six leg-length columns (m), written into `out` when given.
+ * `rotation` may hold the pose's rotation matrices already (rotationInto, row-major, 9 per sample, as
+ * platformMotion keeps them); they are then read instead of being computed again.
+ */
+export function hexapodInverse(
+  g: HexapodGeometry,
+  pose: PoseColumns,
+  out?: Float64Array[],
+  rotation?: Float64Array,
+): Float64Array[] {
   const n = poseLength(pose);
+  if (rotation && rotation.length < 9 * n) {
+    throw new RangeError(`hexapodInverse: ${rotation.length / 9} rotation matrices for ${n} poses`);
+  }
   const legs = out ?? newColumns(6, n);
   const l0 = legs[0];
   const l1 = legs[1];
@@ -137,20 +149,25 @@ export function hexapodInverse(g: HexapodGeometry, pose: PoseColumns, out?: Floa
   const h0 = g.neutralHeight_m;
   const { x_m, y_m, z_m, roll_rad, pitch_rad, yaw_rad } = pose;
   const r = rot;
+  const R = rotation ?? r;
   for (let s = 0; s < n; s++) {
-    rotationInto(roll_rad[s] as number, pitch_rad[s] as number, yaw_rad[s] as number, r, 0);
+    let m = 9 * s;
+    if (!rotation) {
+      rotationInto(roll_rad[s] as number, pitch_rad[s] as number, yaw_rad[s] as number, r, 0);
+      m = 0;
+    }
     const px = x_m[s] as number;
     const py = y_m[s] as number;
     const pz = (z_m[s] as number) + h0;
-    const r0 = r[0] as number;
-    const r1 = r[1] as number;
-    const r2 = r[2] as number;
-    const r3 = r[3] as number;
-    const r4 = r[4] as number;
-    const r5 = r[5] as number;
-    const r6 = r[6] as number;
-    const r7 = r[7] as number;
-    const r8 = r[8] as number;
+    const r0 = R[m] as number;
+    const r1 = R[m + 1] as number;
+    const r2 = R[m + 2] as number;
+    const r3 = R[m + 3] as number;
+    const r4 = R[m + 4] as number;
+    const r5 = R[m + 5] as number;
+    const r6 = R[m + 6] as number;
+    const r7 = R[m + 7] as number;
+    const r8 = R[m + 8] as number;
     for (let i = 0; i < 6; i++) {
       const qx = P[3 * i] as number;
       const qy = P[3 * i + 1] as number;

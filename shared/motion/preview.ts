@@ -2,26 +2,36 @@
 // change of the profile. The take is prepared once per take and controller rate (the gap check and the
 // anti-alias resampling of processTrack, which do not depend on the profile); each change then runs
 // the same motion code as processTrack, in the same order: the classical washout (cueClassical), the
-// planar stage's dropped axes, the controller's ramps from and to neutral (withNeutralRamps), inverse
-// kinematics (hexapodInverse / planar3Inverse) and the seat specific force (platformMotion,
-// seatForceFromMotion). The budget's full checks (runChecks with every comfort figure) take about a
-// second on a 10-minute take, so the editor runs them apart, through processTrack itself
-// (previewChecks), and shows the stroke use computed here until they arrive.
+// planar stage's dropped axes, the controller's ramps from and to neutral (rampedColumn, the columns
+// of withNeutralRamps), the platform's motion (platformAcceleration and platformRotation, the two
+// halves of platformMotion), inverse kinematics (hexapodInverse / planar3Inverse) and the seat
+// specific force (seatForceFromMotion).
+// Between changes the prepared take keeps the stages' results (StageCache): the washout's channels,
+// each ramped column and both halves of the platform's motion are computed again only when something
+// they read has changed, so a change of the tilt limits, say, leaves the translational channel, its
+// ramps and the origin's acceleration as they were. Stages computed again write into their previous
+// arrays, which keeps the garbage collector out of the way. The numbers are the same as without any
+// reuse (tests/unit/profiles/profile-preview.test.ts compares them with processTrack's).
+// The budget's full checks (runChecks with every comfort figure) take about a second on a 10-minute
+// take, so the editor runs them apart, through processTrack itself (previewChecks), and shows the
+// stroke use computed here until they arrive.
 import type { Budget } from '../schemas/budget';
 import type { ControllerOutput } from '../schemas/controller-output';
 import type { CueingProfile } from '../schemas/cueing-profile';
 import type { Use } from '../schemas/findings';
 import type { MotionBase } from '../schemas/motion-base';
 import type { SeriesBand } from '../schemas/run-series';
-import { strokeBand, strokeUse } from './checks';
-import { withNeutralRamps } from './controller-output';
+import { strokeBand } from './checks';
+import { rampedColumn, rampedTime } from './controller-output';
 import type { PoseColumns } from './hexapod';
 import { hexapodGeometry, hexapodInverse } from './hexapod';
 import { planar3Geometry, planar3Inverse } from './planar3';
 import { ProcessInputError, processTrack, sig } from './process';
 import { GAP_MAX_S, findGaps, medianSpacing, resampleAntiAlias } from './resample';
-import { minMaxOnEdges, seriesBucketEdges } from './run-series';
-import { platformMotion, seatForceFromMotion } from './seat-force';
+import { seriesBucketEdges } from './run-series';
+import type { PlatformMotion, PlatformRotation } from './seat-force';
+import { platformAcceleration, platformRotation, seatForceFromMotion } from './seat-force';
+import { NO_STAGE_CACHE, StageCache } from './stage-cache';
 import type { Track } from './track-reader';
 import { trackColumn } from './track-reader';
 import { cueClassical } from './washout';
@@ -39,6 +49,11 @@ export interface PreviewTake {
   wx_radps: Float64Array;
   wy_radps: Float64Array;
   wz_radps: Float64Array;
+  /**
+   * The stages of the last previews on this take (washout channels, ramps, platform motion), reused by
+   * the next preview where its inputs are the same; absent, every preview computes every stage.
+   */
+  cache?: StageCache;
 }
 
 /**
@@ -74,6 +89,7 @@ export function preparePreviewTake(track: Track, rate_hz: number): PreviewTake {
     wx_radps: trackColumn(rs, 'wx_radps'),
     wy_radps: trackColumn(rs, 'wy_radps'),
     wz_radps: trackColumn(rs, 'wz_radps'),
+    cache: new StageCache(),
   };
 }
 
@@ -129,8 +145,25 @@ export interface PreviewOutput {
 
 const POSE_KEYS = ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const;
 
-/** The motion of one profile on a prepared take (see the file comment: processTrack's steps, in its order). */
+/**
+ * The motion of one profile on a prepared take (see the file comment: processTrack's steps, in its
+ * order). With the take's cache, the arrays returned belong to it: read them before the next preview
+ * on the same take, which may write over them.
+ */
 export function computePreviewMotion(take: PreviewTake, settings: PreviewSettings): PreviewMotion {
+  const m = previewMotion(take, settings, 'all');
+  const band = strokeBand(settings.base.leg, settings.strokeMargin_m);
+  // strokeUse(L) = |L - mid| / half-width grows with |L - mid|, so the worst use is the largest excursion
+  // over the half-width (a rounded division by one positive number keeps the order: the same value).
+  return { ...m, strokeUse: m.legs.map((leg) => peakAbs(leg, band.mid_m) / band.halfWidth_m) };
+}
+
+/** computePreviewMotion's steps; `seats` says whether every seat's force is wanted or seat 1's alone. */
+function previewMotion(
+  take: PreviewTake,
+  settings: PreviewSettings,
+  seats: 'all' | 'first',
+): Omit<PreviewMotion, 'strokeUse'> {
   const { base, profile } = settings;
   const rate_hz = take.rate_hz;
   if (rate_hz !== base.controllerRate_hz) {
@@ -138,9 +171,9 @@ export function computePreviewMotion(take: PreviewTake, settings: PreviewSetting
       `the take was prepared at ${rate_hz} Hz but the base runs at ${base.controllerRate_hz} Hz`,
     );
   }
-  let time_s = take.time_s;
-  const n = time_s.length;
-  const cued = cueClassical(take, profile);
+  const c = take.cache ?? NO_STAGE_CACHE;
+  const n = take.time_s.length;
+  const cued = cueClassical(take, profile, take.cache);
   const p = cued.pose;
   let pose: PoseColumns = {
     x_m: p.x_m,
@@ -151,33 +184,61 @@ export function computePreviewMotion(take: PreviewTake, settings: PreviewSetting
     yaw_rad: p.yaw_rad,
   };
   if (base.kind === 'planar3') {
-    pose.z_m = new Float64Array(n);
-    pose.roll_rad = new Float64Array(n);
-    pose.pitch_rad = new Float64Array(n);
+    // Read-only zeros, shared by the previews of this take.
+    const zeros = c.stage('planar.zeros', [n], () => new Float64Array(n));
+    pose.z_m = zeros;
+    pose.roll_rad = zeros;
+    pose.pitch_rad = zeros;
   }
-  if (settings.ramp && settings.ramp.duration_s > 0) {
-    const r = withNeutralRamps(time_s, pose, rate_hz, settings.ramp);
-    if (r.rampIn_s > 0) {
-      time_s = r.time_s;
-      pose = r.pose;
-    }
+  let time_s = take.time_s;
+  const ramp = settings.ramp;
+  if (ramp && ramp.duration_s > 0) {
+    // withNeutralRamps, column by column, so an unchanged column keeps its ramped copy.
+    const rampInputs = [rate_hz, ramp.duration_s, ramp.profile];
+    time_s = c.stage('ramp.time', [take.time_s, ...rampInputs], () => rampedTime(take.time_s, rate_hz, ramp));
+    const col = (k: keyof PoseColumns) =>
+      c.stage<Float64Array>(`ramp.${k}`, [pose[k], ...rampInputs], (prev) =>
+        rampedColumn(pose[k], rate_hz, ramp, prev),
+      );
+    pose = {
+      x_m: col('x_m'),
+      y_m: col('y_m'),
+      z_m: col('z_m'),
+      roll_rad: col('roll_rad'),
+      pitch_rad: col('pitch_rad'),
+      yaw_rad: col('yaw_rad'),
+    };
   }
+  // platformMotion in its two parts, each reused while its three columns are the same; inverse
+  // kinematics then reads the rotation matrices instead of computing the same ones again.
+  const accel_mps2 = c.stage<Float64Array>('motion.accel', [pose.x_m, pose.y_m, pose.z_m, rate_hz], (prev) =>
+    platformAcceleration({ rate_hz, ...pose }, prev),
+  );
+  const rot = c.stage(
+    'motion.rotation',
+    [pose.roll_rad, pose.pitch_rad, pose.yaw_rad, rate_hz, pose.x_m.length],
+    (prev: PlatformRotation | undefined) => platformRotation({ rate_hz, ...pose }, pose.x_m.length, prev),
+  );
+  const m = pose.x_m.length;
+  const motion: PlatformMotion = { length: m, rate_hz, accel_mps2, ...rot };
   const legs =
     base.kind === 'hexapod'
-      ? hexapodInverse(hexapodGeometry(base), pose)
+      ? hexapodInverse(
+          hexapodGeometry(base),
+          pose,
+          [0, 1, 2, 3, 4, 5].map((i) => c.buffer(`legs.${i}`, m)),
+          motion.rotation,
+        )
       : planar3Inverse(planar3Geometry(base), { x_m: pose.x_m, y_m: pose.y_m, yaw_rad: pose.yaw_rad });
-  const motion = platformMotion({ rate_hz, ...pose });
-  const seatForce_mps2 = base.seats_m.map((seat) => {
-    const f = seatForceFromMotion(motion, seat);
+  const seatForce_mps2 = (seats === 'all' ? base.seats_m : base.seats_m.slice(0, 1)).map((seat, s) => {
+    const f = seatForceFromMotion(motion, seat, {
+      x: c.buffer(`seat${s}.x`, m),
+      y: c.buffer(`seat${s}.y`, m),
+      z: c.buffer(`seat${s}.z`, m),
+    });
     return [f.x, f.y, f.z] as const;
   });
-  const band = strokeBand(base.leg, settings.strokeMargin_m);
-  const use = legs.map((leg) => {
-    let worst = 0;
-    for (let i = 0; i < leg.length; i++) worst = Math.max(worst, strokeUse(leg[i] as number, band));
-    return worst;
-  });
-  return { rate_hz, time_s, pose, legs, seatForce_mps2, strokeUse: use };
+  return { rate_hz, time_s, pose, legs, seatForce_mps2 };
 }
 
 function peakAbs(a: Float64Array, offset = 0): number {
@@ -186,52 +247,93 @@ function peakAbs(a: Float64Array, offset = 0): number {
   return m;
 }
 
+/** Min and max per bucket of `edges` (a chart band, unrounded) and over the whole signal, in one pass. */
+function bandAndRange(signal: Float64Array, edges: Int32Array): { band: SeriesBand; lo: number; hi: number } {
+  const count = edges.length - 1;
+  if (signal.length !== (edges[count] as number)) {
+    throw new RangeError(`a chart signal of ${signal.length} samples on a time axis of ${edges[count]}`);
+  }
+  const min = new Array<number>(count);
+  const max = new Array<number>(count);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let b = 0; b < count; b++) {
+    let bl = Infinity;
+    let bh = -Infinity;
+    const end = edges[b + 1] as number;
+    for (let i = edges[b] as number; i < end; i++) {
+      const v = signal[i] as number;
+      if (v < bl) bl = v;
+      if (v > bh) bh = v;
+    }
+    min[b] = bl;
+    max[b] = bh;
+    if (bl < lo) lo = bl;
+    if (bh > hi) hi = bh;
+  }
+  return { band: { min, max }, lo, hi };
+}
+
 /**
- * The preview for one profile: the motion (computePreviewMotion) reduced to chart bands and read-outs.
- * This is the function the editor's Web Worker calls on every change.
+ * The preview for one profile: the motion (computePreviewMotion's steps) reduced to chart bands and
+ * read-outs. This is the function the editor's Web Worker calls on every change. The bands are the exact
+ * min and max of each bucket; each peak |v| is the larger of |min| and |max| over the take, and each
+ * leg's stroke use the larger excursion of its longest and shortest length from mid-stroke, which are
+ * the same numbers a pass of |v| (or strokeUse) over every sample gives.
  */
 export function computeProfilePreview(take: PreviewTake, settings: PreviewSettings): PreviewOutput {
-  const m = computePreviewMotion(take, settings);
-  const edges = seriesBucketEdges(m.time_s.length, PREVIEW_BUCKETS);
-  const b = (a: Float64Array) => minMaxOnEdges(a, edges);
+  // The charts show seat 1's force: the other seats are not computed here.
+  const m = previewMotion(take, settings, 'first');
+  const n = m.time_s.length;
+  const edges = seriesBucketEdges(n, PREVIEW_BUCKETS);
   const time_s: number[] = [];
   for (let k = 0; k + 1 < edges.length; k++) time_s.push(m.time_s[edges[k] as number] as number);
-  const seat = m.seatForce_mps2[0];
-  const zero = new Float64Array(m.time_s.length);
   const stroke = strokeBand(settings.base.leg, settings.strokeMargin_m);
+  const peak = (r: { lo: number; hi: number }) => Math.max(Math.abs(r.lo), Math.abs(r.hi));
+  const pose = Object.fromEntries(POSE_KEYS.map((k) => [k, bandAndRange(m.pose[k], edges)])) as Record<
+    keyof PoseColumns,
+    ReturnType<typeof bandAndRange>
+  >;
+  const legs = m.legs.map((leg) => bandAndRange(leg, edges));
+  const use = legs.map((r) => Math.max(r.hi - stroke.mid_m, stroke.mid_m - r.lo) / stroke.halfWidth_m);
+  const seat = m.seatForce_mps2[0];
+  const force = [0, 1, 2].map((a) => bandAndRange(seat?.[a] ?? new Float64Array(n), edges));
+  const [fx, fy, fz] = force as [
+    ReturnType<typeof bandAndRange>,
+    ReturnType<typeof bandAndRange>,
+    ReturnType<typeof bandAndRange>,
+  ];
   let strokeLeg = 0;
-  m.strokeUse.forEach((u, i) => {
-    if (u > (m.strokeUse[strokeLeg] ?? 0)) strokeLeg = i;
+  use.forEach((u, i) => {
+    if (u > (use[strokeLeg] ?? 0)) strokeLeg = i;
   });
   return {
-    samples: m.time_s.length,
+    samples: n,
     rate_hz: m.rate_hz,
     series: {
       time_s,
       pose: {
-        x_m: b(m.pose.x_m),
-        y_m: b(m.pose.y_m),
-        z_m: b(m.pose.z_m),
-        roll_rad: b(m.pose.roll_rad),
-        pitch_rad: b(m.pose.pitch_rad),
-        yaw_rad: b(m.pose.yaw_rad),
+        x_m: pose.x_m.band,
+        y_m: pose.y_m.band,
+        z_m: pose.z_m.band,
+        roll_rad: pose.roll_rad.band,
+        pitch_rad: pose.pitch_rad.band,
+        yaw_rad: pose.yaw_rad.band,
       },
-      legs: m.legs.map(b),
-      seatForce: { x: b(seat?.[0] ?? zero), y: b(seat?.[1] ?? zero), z: b(seat?.[2] ?? zero) },
+      legs: legs.map((r) => r.band),
+      seatForce: { x: fx.band, y: fy.band, z: fz.band },
       stroke: { low_m: stroke.low_m, high_m: stroke.high_m, mid_m: stroke.mid_m },
     },
     peaks: {
-      pose: Object.fromEntries(POSE_KEYS.map((k) => [k, sig(peakAbs(m.pose[k]))])) as Record<
+      pose: Object.fromEntries(POSE_KEYS.map((k) => [k, sig(peak(pose[k]))])) as Record<
         keyof PoseColumns,
         number
       >,
-      seatForce: seat
-        ? { x: sig(peakAbs(seat[0])), y: sig(peakAbs(seat[1])), z: sig(peakAbs(seat[2])) }
-        : { x: 0, y: 0, z: 0 },
-      strokeUse: sig(m.strokeUse[strokeLeg] ?? 0),
+      seatForce: seat ? { x: sig(peak(fx)), y: sig(peak(fy)), z: sig(peak(fz)) } : { x: 0, y: 0, z: 0 },
+      strokeUse: sig(use[strokeLeg] ?? 0),
       strokeLeg: strokeLeg + 1,
     },
-    strokeUse: m.strokeUse.map(sig),
+    strokeUse: use.map(sig),
   };
 }
 

@@ -6,12 +6,32 @@ export type Mat3 = Float64Array;
 
 /** Writes R = Rz(yaw) Ry(pitch) Rx(roll) (angles in rad) row-major into `out` at `offset`. */
 export function rotationInto(roll: number, pitch: number, yaw: number, out: Float64Array, offset = 0): void {
-  const cr = Math.cos(roll);
-  const sr = Math.sin(roll);
-  const cp = Math.cos(pitch);
-  const sp = Math.sin(pitch);
-  const cy = Math.cos(yaw);
-  const sy = Math.sin(yaw);
+  rotationFromTrigInto(
+    Math.cos(roll),
+    Math.sin(roll),
+    Math.cos(pitch),
+    Math.sin(pitch),
+    Math.cos(yaw),
+    Math.sin(yaw),
+    out,
+    offset,
+  );
+}
+
+/**
+ * rotationInto from the cosines and sines of roll, pitch and yaw, for loops that need them anyway (the
+ * same products, so the same matrix to the bit).
+ */
+export function rotationFromTrigInto(
+  cr: number,
+  sr: number,
+  cp: number,
+  sp: number,
+  cy: number,
+  sy: number,
+  out: Float64Array,
+  offset = 0,
+): void {
   out[offset] = cy * cp;
   out[offset + 1] = cy * sp * sr - sy * cr;
   out[offset + 2] = cy * sp * cr + sy * sr;

@@ -5,9 +5,9 @@
 // past both ends by linear prediction), so a sinusoid up to 0.4 x the rate keeps its true amplitude in
 // the middle and at the ends alike. w is the base-frame angular velocity from the Euler angle rates.
 
-import { bandLimitedDerivativeInto, differentiator } from './band-limit';
+import { bandLimitedDerivatives3Into, differentiator } from './band-limit';
 import type { PoseColumns } from './hexapod';
-import { rotationInto } from './rotation';
+import { rotationFromTrigInto } from './rotation';
 import { G0_MPS2 } from './units';
 
 // A module-local copy: live import bindings can compile to property reads in hot loops.
@@ -39,22 +39,23 @@ export interface SeatForce {
   z: Float64Array;
 }
 
-/** Validates a pose track and returns its length; throws naming the column and sample at fault. */
-function checkPose(pose: PoseOffsetTrack): number {
-  const n = pose.x_m.length;
-  const rate = pose.rate_hz;
+/** Checks the rate of a pose track; throws naming it when it is not a positive number of Hz. */
+function checkRate(rate: number): void {
   if (!(rate > 0) || !Number.isFinite(rate)) {
     throw new RangeError(`pose rate must be a positive number of Hz, got ${rate}`);
   }
-  for (const key of ['x_m', 'y_m', 'z_m', 'roll_rad', 'pitch_rad', 'yaw_rad'] as const) {
-    const col = pose[key];
+}
+
+/** Checks pose columns against length n; throws naming the column and sample at fault. */
+function checkColumns(pose: Partial<PoseColumns>, keys: readonly (keyof PoseColumns)[], n: number): void {
+  for (const key of keys) {
+    const col = pose[key] as Float64Array;
     if (col.length !== n) throw new RangeError(`pose column ${key} has ${col.length} samples, x_m has ${n}`);
     for (let i = 0; i < n; i++) {
       if (!Number.isFinite(col[i]))
         throw new RangeError(`pose column ${key}, sample ${i}: not a finite number`);
     }
   }
-  return n;
 }
 
 function checkSeat(seat_m: readonly number[]): void {
@@ -63,35 +64,56 @@ function checkSeat(seat_m: readonly number[]): void {
   }
 }
 
-/** Rotation, origin acceleration (m/s^2), angular velocity (rad/s) and angular acceleration (rad/s^2), base frame, from a pose track. */
-export function platformMotion(pose: PoseOffsetTrack): PlatformMotion {
-  const n = checkPose(pose);
-  const rate = pose.rate_hz;
-  const rotation = new Float64Array(9 * n);
-  const accel = new Float64Array(3 * n);
-  const omega = new Float64Array(3 * n);
-  const alpha = new Float64Array(3 * n);
-  const D = differentiator(rate);
-  bandLimitedDerivativeInto(D, 2, pose.x_m, accel, 3, 0);
-  bandLimitedDerivativeInto(D, 2, pose.y_m, accel, 3, 1);
-  bandLimitedDerivativeInto(D, 2, pose.z_m, accel, 3, 2);
+/** The rotational part of PlatformMotion, which depends on the three angles only. */
+export type PlatformRotation = Pick<PlatformMotion, 'rotation' | 'omega_radps' | 'alpha_radps2'>;
+
+/** Acceleration of the platform origin (m/s^2, base frame, 3 per sample) from the position columns. */
+export function platformAcceleration(
+  pose: Pick<PoseOffsetTrack, 'rate_hz' | 'x_m' | 'y_m' | 'z_m'>,
+  previous?: Float64Array,
+): Float64Array {
+  checkRate(pose.rate_hz);
+  const n = pose.x_m.length;
+  checkColumns(pose, ['x_m', 'y_m', 'z_m'], n);
+  const accel = previous?.length === 3 * n ? previous : new Float64Array(3 * n);
+  bandLimitedDerivatives3Into(differentiator(pose.rate_hz), pose.x_m, pose.y_m, pose.z_m, null, accel);
+  return accel;
+}
+
+/**
+ * Rotation matrices, angular velocity (rad/s) and angular acceleration (rad/s^2), base frame, from the
+ * angle columns; n is the track's length (that of x_m). A `previous` result of the same length is
+ * written over (as is `previous` of platformAcceleration).
+ */
+export function platformRotation(
+  pose: Pick<PoseOffsetTrack, 'rate_hz' | 'roll_rad' | 'pitch_rad' | 'yaw_rad'>,
+  n: number = pose.roll_rad.length,
+  previous?: PlatformRotation,
+): PlatformRotation {
+  checkRate(pose.rate_hz);
+  checkColumns(pose, ['roll_rad', 'pitch_rad', 'yaw_rad'], n);
+  // Every value is written below, so a previous result of this length can take the new one.
+  const fits = previous?.rotation.length === 9 * n;
+  const rotation = fits ? previous.rotation : new Float64Array(9 * n);
+  const omega = fits ? previous.omega_radps : new Float64Array(3 * n);
+  const alpha = fits ? previous.alpha_radps2 : new Float64Array(3 * n);
+  const D = differentiator(pose.rate_hz);
   // Angle rates go into omega and angle accelerations into alpha as scratch; each sample then turns
   // them into w = E rates and alpha = dE/dt rates + E accels (E as in eulerRateToBaseOmegaInto), so
   // alpha needs no derivative of a derivative.
-  bandLimitedDerivativeInto(D, 1, pose.roll_rad, omega, 3, 0);
-  bandLimitedDerivativeInto(D, 1, pose.pitch_rad, omega, 3, 1);
-  bandLimitedDerivativeInto(D, 1, pose.yaw_rad, omega, 3, 2);
-  bandLimitedDerivativeInto(D, 2, pose.roll_rad, alpha, 3, 0);
-  bandLimitedDerivativeInto(D, 2, pose.pitch_rad, alpha, 3, 1);
-  bandLimitedDerivativeInto(D, 2, pose.yaw_rad, alpha, 3, 2);
+  bandLimitedDerivatives3Into(D, pose.roll_rad, pose.pitch_rad, pose.yaw_rad, omega, alpha);
+  const rollCol = pose.roll_rad;
+  const pitchCol = pose.pitch_rad;
+  const yawCol = pose.yaw_rad;
   for (let i = 0; i < n; i++) {
-    const pitch = pose.pitch_rad[i] as number;
-    const yaw = pose.yaw_rad[i] as number;
-    rotationInto(pose.roll_rad[i] as number, pitch, yaw, rotation, 9 * i);
+    const roll = rollCol[i] as number;
+    const pitch = pitchCol[i] as number;
+    const yaw = yawCol[i] as number;
     const cp = Math.cos(pitch);
     const sp = Math.sin(pitch);
     const cy = Math.cos(yaw);
     const sy = Math.sin(yaw);
+    rotationFromTrigInto(Math.cos(roll), Math.sin(roll), cp, sp, cy, sy, rotation, 9 * i);
     const o = 3 * i;
     const dr = omega[o] as number;
     const dp = omega[o + 1] as number;
@@ -106,19 +128,35 @@ export function platformMotion(pose: PoseOffsetTrack): PlatformMotion {
     alpha[o + 1] = (cy * cp * dy - sy * sp * dp) * dr - sy * dy * dp + sy * cp * ddr + cy * ddp;
     alpha[o + 2] = -cp * dp * dr - sp * ddr + ddy;
   }
-  return { length: n, rate_hz: rate, rotation, accel_mps2: accel, omega_radps: omega, alpha_radps2: alpha };
+  return { rotation, omega_radps: omega, alpha_radps2: alpha };
+}
+
+/**
+ * Rotation, origin acceleration (m/s^2), angular velocity (rad/s) and angular acceleration (rad/s^2),
+ * base frame, from a pose track: platformAcceleration and platformRotation.
+ */
+export function platformMotion(pose: PoseOffsetTrack): PlatformMotion {
+  const n = pose.x_m.length;
+  checkRate(pose.rate_hz);
+  const accel = platformAcceleration(pose);
+  const rot = platformRotation(pose, n);
+  return { length: n, rate_hz: pose.rate_hz, accel_mps2: accel, ...rot };
 }
 
 /** Specific force (m/s^2, platform axes) at seat point seat_m (platform frame, m) from derived platform motion. */
 export function seatForceFromMotion(
   motion: PlatformMotion,
   seat_m: readonly [number, number, number],
+  out?: SeatForce,
 ): SeatForce {
   const n = motion.length;
   checkSeat(seat_m);
-  const fx = new Float64Array(n);
-  const fy = new Float64Array(n);
-  const fz = new Float64Array(n);
+  if (out && (out.x.length < n || out.y.length < n || out.z.length < n)) {
+    throw new RangeError(`seatForceFromMotion: output columns shorter than the ${n} samples`);
+  }
+  const fx = out?.x ?? new Float64Array(n);
+  const fy = out?.y ?? new Float64Array(n);
+  const fz = out?.z ?? new Float64Array(n);
   const [rx, ry, rz] = seat_m;
   const R = motion.rotation;
   const A = motion.accel_mps2;

@@ -32,6 +32,8 @@ import { bodyOmegaToEulerRatesInto } from './rotation';
 import type { PoseOffsetTrack, SeatForce } from './seat-force';
 import { seatSpecificForce } from './seat-force';
 import { G0_MPS2, RAD_PER_DEG } from './units';
+import type { StageCache } from './stage-cache';
+import { NO_STAGE_CACHE, reuseArray, sectionKey as key } from './stage-cache';
 
 /** A vehicle track at a uniform rate: specific force (m/s^2) and angular velocity (rad/s), vehicle body axes. */
 export interface VehicleTrack {
@@ -119,8 +121,8 @@ function rotationalFilter(profile: CueingProfile, axis: Axis, rate_hz: number): 
     : design(field, () => highPass2(f, p.damping, rate_hz));
 }
 
-function runFrom(cascade: FilterCascade, input: Float64Array): Float64Array {
-  const out = new Float64Array(input.length);
+function runFrom(cascade: FilterCascade, input: Float64Array, previous?: Float64Array): Float64Array {
+  const out = reuseArray(previous, input.length);
   const state = input.length > 0 ? steadyState(cascade, input[0] as number) : undefined;
   filterInto(cascade, input, out, state);
   return out;
@@ -147,13 +149,34 @@ function checkTrack(v: VehicleTrack): number {
   return n;
 }
 
-/** Classical washout of a vehicle track (vehicle axes, SI) into platform pose offsets from neutral at the same rate. */
-export function cueClassical(vehicle: VehicleTrack, profile: CueingProfile): CueResult {
-  const n = checkTrack(vehicle);
+/**
+ * Classical washout of a vehicle track (vehicle axes, SI) into platform pose offsets from neutral at the
+ * same rate. With a cache (one per vehicle track), the stages (scaling per axis, each translational
+ * axis, tilt coordination, the rotational channel) whose inputs are unchanged since the previous call
+ * are reused rather than run again, and those run again write into their previous arrays; the result
+ * is the same either way. The arrays of a result given with a cache belong to the cache: read them,
+ * never write into them, and do not keep them past the next call with the same cache.
+ */
+export function cueClassical(vehicle: VehicleTrack, profile: CueingProfile, cache?: StageCache): CueResult {
+  const c = cache ?? NO_STAGE_CACHE;
+  const n = c.stage(
+    'check',
+    [
+      vehicle.fx_mps2,
+      vehicle.fy_mps2,
+      vehicle.fz_mps2,
+      vehicle.wx_radps,
+      vehicle.wy_radps,
+      vehicle.wz_radps,
+      vehicle.rate_hz,
+    ],
+    () => checkTrack(vehicle),
+  );
   const rate = vehicle.rate_hz;
   const dt = 1 / rate;
   const halfDt = 0.5 * dt;
 
+  // Every filter is designed first, so a bad field is named whatever the cache holds.
   const hpX = translationalFilter(profile, 'x', rate);
   const hpY = translationalFilter(profile, 'y', rate);
   const hpZ = translationalFilter(profile, 'z', rate);
@@ -168,110 +191,173 @@ export function cueClassical(vehicle: VehicleTrack, profile: CueingProfile): Cue
   const s = profile.scale;
   const fl = profile.inputLimit.specificForce_mps2;
   const wl = profile.inputLimit.angularRate_radps;
-  const sx = new Float64Array(n);
-  const sy = new Float64Array(n);
-  const sz = new Float64Array(n); // deviation from rest: translational demand along z
-  const sp = new Float64Array(n);
-  const sq = new Float64Array(n);
-  const sr = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    sx[i] = softLimit(s.surge * (vehicle.fx_mps2[i] as number), fl.limit, fl.knee);
-    sy[i] = softLimit(s.sway * (vehicle.fy_mps2[i] as number), fl.limit, fl.knee);
-    sz[i] = softLimit(s.heave * ((vehicle.fz_mps2[i] as number) - G0), fl.limit, fl.knee);
-    sp[i] = softLimit(s.roll * (vehicle.wx_radps[i] as number), wl.limit, wl.knee);
-    sq[i] = softLimit(s.pitch * (vehicle.wy_radps[i] as number), wl.limit, wl.knee);
-    sr[i] = softLimit(s.yaw * (vehicle.wz_radps[i] as number), wl.limit, wl.knee);
-  }
+  const scaleOne = (
+    col: Float64Array,
+    gain: number,
+    offset: number,
+    limit: { limit: number; knee: number },
+    previous: Float64Array | undefined,
+  ) => {
+    const out = reuseArray(previous, n);
+    for (let i = 0; i < n; i++)
+      out[i] = softLimit(gain * ((col[i] as number) - offset), limit.limit, limit.knee);
+    return out;
+  };
+  // x - 0 is x exactly, so the axes without an offset scale as gain * x.
+  const sx = c.stage<Float64Array>('scale.x', [vehicle.fx_mps2, s.surge, key(fl)], (prev) =>
+    scaleOne(vehicle.fx_mps2, s.surge, 0, fl, prev),
+  );
+  const sy = c.stage<Float64Array>('scale.y', [vehicle.fy_mps2, s.sway, key(fl)], (prev) =>
+    scaleOne(vehicle.fy_mps2, s.sway, 0, fl, prev),
+  );
+  // deviation from rest: translational demand along z
+  const sz = c.stage<Float64Array>('scale.z', [vehicle.fz_mps2, s.heave, key(fl)], (prev) =>
+    scaleOne(vehicle.fz_mps2, s.heave, G0, fl, prev),
+  );
+  const sp = c.stage<Float64Array>('scale.roll', [vehicle.wx_radps, s.roll, key(wl)], (prev) =>
+    scaleOne(vehicle.wx_radps, s.roll, 0, wl, prev),
+  );
+  const sq = c.stage<Float64Array>('scale.pitch', [vehicle.wy_radps, s.pitch, key(wl)], (prev) =>
+    scaleOne(vehicle.wy_radps, s.pitch, 0, wl, prev),
+  );
+  const sr = c.stage<Float64Array>('scale.yaw', [vehicle.wz_radps, s.yaw, key(wl)], (prev) =>
+    scaleOne(vehicle.wz_radps, s.yaw, 0, wl, prev),
+  );
 
   // 2. Translational channel: high-pass, integrate twice, soft-limit.
   const lim = profile.poseLimit;
-  const hx = runFrom(hpX, sx);
-  const hy = runFrom(hpY, sy);
-  const hz = runFrom(hpZ, sz);
-  const x = integrateTwiceLimited(hx, halfDt, lim.x_m, lim.knee);
-  const y = integrateTwiceLimited(hy, halfDt, lim.y_m, lim.knee);
-  const z = integrateTwiceLimited(hz, halfDt, lim.z_m, lim.knee);
+  const translate = (axis: Axis, scaled: Float64Array, hpf: FilterCascade, limit_m: number) =>
+    c.stage(
+      `translational.${axis}`,
+      [scaled, rate, key(profile.translational[axis]), limit_m, lim.knee],
+      (prev: { h: Float64Array; p: Float64Array } | undefined) => {
+        const h = runFrom(hpf, scaled, prev?.h);
+        return { h, p: integrateTwiceLimited(h, halfDt, limit_m, lim.knee, prev?.p) };
+      },
+    );
+  const tx = translate('x', sx, hpX, lim.x_m);
+  const ty = translate('y', sy, hpY, lim.y_m);
+  const tz = translate('z', sz, hpZ, lim.z_m);
 
-  // 3. Tilt coordination on the low-passed surge and sway force.
-  const lx = runFrom(lp, sx);
-  const ly = runFrom(lp, sy);
-  const tiltPitch = new Float64Array(n);
-  const tiltRoll = new Float64Array(n);
-  const tiltMax = profile.tilt.angleLimit_deg * RAD;
-  const limits = {
-    rate: profile.tilt.rateLimit_degps * RAD,
-    accel: profile.tilt.accelLimit_degps2 * RAD,
-  };
-  const pitchCmd = new Float64Array(n);
-  const rollCmd = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    pitchCmd[i] = clamp(-Math.asin(clamp((lx[i] as number) / G0, -1, 1)), -tiltMax, tiltMax);
-    rollCmd[i] = clamp(Math.asin(clamp((ly[i] as number) / G0, -1, 1)), -tiltMax, tiltMax);
-  }
-  smoothTiltInto(pitchCmd, dt, limits, tiltPitch);
-  smoothTiltInto(rollCmd, dt, limits, tiltRoll);
+  // 3. Tilt coordination on the low-passed surge and sway force: pitch from surge, roll from sway, each
+  // in two stages (the low-pass, then the angle and its limits) so a change of a limit keeps the low-pass.
+  const tilt = profile.tilt;
+  const lowPassKey = key({ f: tilt.lowPassFrequency_radps, d: tilt.damping });
+  const lx = c.stage<Float64Array>('tilt.lowPass.x', [sx, rate, lowPassKey], (prev) => runFrom(lp, sx, prev));
+  const ly = c.stage<Float64Array>('tilt.lowPass.y', [sy, rate, lowPassKey], (prev) => runFrom(lp, sy, prev));
+  const tiltMax = tilt.angleLimit_deg * RAD;
+  const limits = { rate: tilt.rateLimit_degps * RAD, accel: tilt.accelLimit_degps2 * RAD };
+  const limitKey = key(tilt);
+  type Tilt = { command: Float64Array; angle: Float64Array };
+  // pitch = -asin(f_x,lp / g0), roll = asin(f_y,lp / g0), clamped to the angle limit.
+  const tiltOf = (axis: 'pitch' | 'roll', lowPassed: Float64Array, sign: 1 | -1) =>
+    c.stage(`tilt.${axis}`, [lowPassed, rate, limitKey], (prev: Tilt | undefined) => {
+      const command = reuseArray(prev?.command, n);
+      const angle = reuseArray(prev?.angle, n);
+      for (let i = 0; i < n; i++) {
+        const a = Math.asin(clamp((lowPassed[i] as number) / G0, -1, 1));
+        command[i] = clamp(sign < 0 ? -a : a, -tiltMax, tiltMax);
+      }
+      smoothTiltInto(command, dt, limits, angle);
+      return { command, angle };
+    });
+  const tiltPitch = tiltOf('pitch', lx, -1).angle;
+  const tiltRoll = tiltOf('roll', ly, 1).angle;
 
   // 4. Rotational channel: high-pass the body rates, turn them into Euler rates at the platform's
   // current (limited, hence far from the pitch singularity) attitude, integrate, add the tilt.
-  const hp = runFrom(hpRoll, sp);
-  const hq = runFrom(hpPitch, sq);
-  const hr = runFrom(hpYaw, sr);
-  const roll = new Float64Array(n);
-  const pitch = new Float64Array(n);
-  const yaw = new Float64Array(n);
-  const rollMax = lim.roll_deg * RAD;
-  const pitchMax = lim.pitch_deg * RAD;
-  const yawMax = lim.yaw_deg * RAD;
-  const rates = new Float64Array(3);
-  let aRoll = 0;
-  let aPitch = 0;
-  let aYaw = 0;
-  let prevRoll = 0;
-  let prevPitch = 0;
-  let prevYaw = 0;
-  let outRoll = 0;
-  let outPitch = 0;
-  for (let i = 0; i < n; i++) {
-    bodyOmegaToEulerRatesInto(outRoll, outPitch, hp[i] as number, hq[i] as number, hr[i] as number, rates);
-    const dRoll = rates[0] as number;
-    const dPitch = rates[1] as number;
-    const dYaw = rates[2] as number;
-    if (i > 0) {
-      aRoll += halfDt * (prevRoll + dRoll);
-      aPitch += halfDt * (prevPitch + dPitch);
-      aYaw += halfDt * (prevYaw + dYaw);
+  const rotKey = key(profile.rotational);
+  const hp = c.stage<Float64Array>('rotational.highPass.x', [sp, rate, rotKey], (prev) =>
+    runFrom(hpRoll, sp, prev),
+  );
+  const hq = c.stage<Float64Array>('rotational.highPass.y', [sq, rate, rotKey], (prev) =>
+    runFrom(hpPitch, sq, prev),
+  );
+  const hr = c.stage<Float64Array>('rotational.highPass.z', [sr, rate, rotKey], (prev) =>
+    runFrom(hpYaw, sr, prev),
+  );
+  const rotInputs = [
+    hp,
+    hq,
+    hr,
+    tiltRoll,
+    tiltPitch,
+    rate,
+    lim.roll_deg,
+    lim.pitch_deg,
+    lim.yaw_deg,
+    lim.knee,
+  ];
+  type Rotational = Record<'roll' | 'pitch' | 'yaw', Float64Array>;
+  const { roll, pitch, yaw } = c.stage('rotational', rotInputs, (prev: Rotational | undefined) => {
+    const roll = reuseArray(prev?.roll, n);
+    const pitch = reuseArray(prev?.pitch, n);
+    const yaw = reuseArray(prev?.yaw, n);
+    const rollMax = lim.roll_deg * RAD;
+    const pitchMax = lim.pitch_deg * RAD;
+    const yawMax = lim.yaw_deg * RAD;
+    const rates = new Float64Array(3);
+    let aRoll = 0;
+    let aPitch = 0;
+    let aYaw = 0;
+    let prevRoll = 0;
+    let prevPitch = 0;
+    let prevYaw = 0;
+    let outRoll = 0;
+    let outPitch = 0;
+    for (let i = 0; i < n; i++) {
+      bodyOmegaToEulerRatesInto(outRoll, outPitch, hp[i] as number, hq[i] as number, hr[i] as number, rates);
+      const dRoll = rates[0] as number;
+      const dPitch = rates[1] as number;
+      const dYaw = rates[2] as number;
+      if (i > 0) {
+        aRoll += halfDt * (prevRoll + dRoll);
+        aPitch += halfDt * (prevPitch + dPitch);
+        aYaw += halfDt * (prevYaw + dYaw);
+      }
+      prevRoll = dRoll;
+      prevPitch = dPitch;
+      prevYaw = dYaw;
+      outRoll = softLimit(aRoll + (tiltRoll[i] as number), rollMax, lim.knee);
+      outPitch = softLimit(aPitch + (tiltPitch[i] as number), pitchMax, lim.knee);
+      roll[i] = outRoll;
+      pitch[i] = outPitch;
+      yaw[i] = softLimit(aYaw, yawMax, lim.knee);
     }
-    prevRoll = dRoll;
-    prevPitch = dPitch;
-    prevYaw = dYaw;
-    outRoll = softLimit(aRoll + (tiltRoll[i] as number), rollMax, lim.knee);
-    outPitch = softLimit(aPitch + (tiltPitch[i] as number), pitchMax, lim.knee);
-    roll[i] = outRoll;
-    pitch[i] = outPitch;
-    yaw[i] = softLimit(aYaw, yawMax, lim.knee);
-  }
+    return { roll, pitch, yaw };
+  });
 
   const pose: PoseOffsetTrack = {
     rate_hz: rate,
-    x_m: x,
-    y_m: y,
-    z_m: z,
+    x_m: tx.p,
+    y_m: ty.p,
+    z_m: tz.p,
     roll_rad: roll,
     pitch_rad: pitch,
     yaw_rad: yaw,
   };
-  const scaledZ = new Float64Array(n);
-  for (let i = 0; i < n; i++) scaledZ[i] = (sz[i] as number) + G0;
   const ref = profile.riderReference_m;
-  // The felt force at the rider reference needs the platform's whole motion (about as much work as the
-  // washout itself), and the pipeline does not read it: it is computed once, when first read.
+  // The scaled vertical force and the felt force at the rider reference are diagnostics the pipeline
+  // does not read; they are computed when first read (the felt force needs the platform's whole motion,
+  // about as much work as the washout itself).
+  let scaledZ: Float64Array | undefined;
   let riderForce: SeatForce | undefined;
   return {
     pose,
     diagnostics: {
-      scaledForce_mps2: { x: sx, y: sy, z: scaledZ },
+      scaledForce_mps2: {
+        x: sx,
+        y: sy,
+        get z(): Float64Array {
+          if (!scaledZ) {
+            scaledZ = new Float64Array(n);
+            for (let i = 0; i < n; i++) scaledZ[i] = (sz[i] as number) + G0;
+          }
+          return scaledZ;
+        },
+      },
       scaledOmega_radps: { x: sp, y: sq, z: sr },
-      highPassedForce_mps2: { x: hx, y: hy, z: hz },
+      highPassedForce_mps2: { x: tx.h, y: ty.h, z: tz.h },
       tiltRoll_rad: tiltRoll,
       tiltPitch_rad: tiltPitch,
       get riderForce_mps2(): SeatForce {
@@ -321,9 +407,16 @@ function clamp(v: number, lo: number, hi: number): number {
 }
 
 /** Trapezoidal double integral of an acceleration from rest, then the soft position limit (m). */
-function integrateTwiceLimited(a: Float64Array, halfDt: number, limit_m: number, knee: number): Float64Array {
+function integrateTwiceLimited(
+  a: Float64Array,
+  halfDt: number,
+  limit_m: number,
+  knee: number,
+  previous?: Float64Array,
+): Float64Array {
   const n = a.length;
-  const out = new Float64Array(n);
+  const out = reuseArray(previous, n);
+  if (n > 0) out[0] = 0;
   let v = 0;
   let p = 0;
   let prevA = n > 0 ? (a[0] as number) : 0;

@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import {
   antiAliasTaps,
   bandLimitedDerivative,
+  bandLimitedDerivatives3Into,
   besselI0,
   derivativeTaps,
   differentiator,
@@ -97,6 +98,38 @@ describe('band-limited derivatives', () => {
         expect(Math.abs(got[i]! - s)).toBeLessThan(1e-12 * rate ** order);
       }
     }
+  });
+
+  it('three signals at once, interleaved, give the single-signal derivatives to the bit, and the closed forms', () => {
+    // Closed form as above (x = sin(w t + p): x' = w cos, x'' = -w^2 sin), and the one-signal filter.
+    const rate = 100;
+    const D = differentiator(rate);
+    const n = 300;
+    const w = [2 * Math.PI * 0.7, 2 * Math.PI * 12, 2 * Math.PI * 30];
+    const sig = w.map((wj, j) => Float64Array.from({ length: n }, (_, i) => Math.sin((wj * i) / rate + j)));
+    const [a, b, c] = sig as [Float64Array, Float64Array, Float64Array];
+    const both1 = new Float64Array(3 * n);
+    const both2 = new Float64Array(3 * n);
+    const only1 = new Float64Array(3 * n);
+    const only2 = new Float64Array(3 * n);
+    bandLimitedDerivatives3Into(D, a, b, c, both1, both2);
+    bandLimitedDerivatives3Into(D, a, b, c, only1, null);
+    bandLimitedDerivatives3Into(D, a, b, c, null, only2);
+    sig.forEach((x, j) => {
+      const v = bandLimitedDerivative(D, 1, x);
+      const acc = bandLimitedDerivative(D, 2, x);
+      const wj = w[j]!;
+      for (let i = 0; i < n; i++) {
+        expect(both1[3 * i + j]).toBe(v[i]);
+        expect(only1[3 * i + j]).toBe(v[i]);
+        expect(both2[3 * i + j]).toBe(acc[i]);
+        expect(only2[3 * i + j]).toBe(acc[i]);
+        const t = i / rate;
+        expect(Math.abs(v[i]! - wj * Math.cos(wj * t + j))).toBeLessThan(0.03 * wj);
+        expect(Math.abs(acc[i]! + wj * wj * Math.sin(wj * t + j))).toBeLessThan(0.03 * wj * wj);
+      }
+    });
+    expect(() => bandLimitedDerivatives3Into(D, a, b, c.subarray(1), both1, both2)).toThrow(/must agree/);
   });
 
   it('continues a track at rest as a track at rest', () => {

@@ -270,19 +270,43 @@ export function ProfilePreview({
     }
   };
 
-  const x = out?.series.time_s ?? [];
-  const poseBands = (
-    keys: readonly ['x_m' | 'roll_rad', 'y_m' | 'pitch_rad', 'z_m' | 'yaw_rad'],
-    labels: string[],
-  ): ChartBand[] =>
-    out
-      ? keys.map((k, i) => ({
-          label: labels[i] ?? k,
-          color: CHART_COLORS.series[i] ?? CHART_COLORS.cued,
-          min: out.series.pose[k].min,
-          max: out.series.pose[k].max,
-        }))
-      : [];
+  // The chart bands change only with a new answer: built once per answer, so a re-render for a keystroke
+  // in the form (before the new answer arrives) keeps every chart as it is instead of rebuilding it.
+  const charts = useMemo(() => {
+    if (!out) return null;
+    const bandsOf = (
+      keys: readonly ['x_m' | 'roll_rad', 'y_m' | 'pitch_rad', 'z_m' | 'yaw_rad'],
+      labels: string[],
+    ): ChartBand[] =>
+      keys.map((k, i) => ({
+        label: labels[i] ?? k,
+        color: CHART_COLORS.series[i] ?? CHART_COLORS.cued,
+        min: out.series.pose[k].min,
+        max: out.series.pose[k].max,
+      }));
+    return {
+      x: out.series.time_s,
+      position: bandsOf(['x_m', 'y_m', 'z_m'], ['x', 'y', 'z']),
+      attitude: bandsOf(['roll_rad', 'pitch_rad', 'yaw_rad'], ['roll', 'pitch', 'yaw']),
+      seat: (['x', 'y', 'z'] as const).map((a, i) => ({
+        label: `f${a}`,
+        color: CHART_COLORS.series[i] ?? CHART_COLORS.cued,
+        min: out.series.seatForce[a].min,
+        max: out.series.seatForce[a].max,
+      })),
+      legs: out.series.legs.map((b, i) => ({
+        label: `leg ${i + 1}`,
+        color: CHART_COLORS.series[i % CHART_COLORS.series.length] ?? CHART_COLORS.cued,
+        min: b.min,
+        max: b.max,
+      })),
+      strokeLines: [
+        { value: out.series.stroke.low_m, label: 'stroke band low', color: CHART_COLORS.stroke },
+        { value: out.series.stroke.high_m, label: 'stroke band high', color: CHART_COLORS.stroke },
+        { value: out.series.stroke.mid_m, label: 'mid-stroke', color: CHART_COLORS.axis, thin: true },
+      ],
+    };
+  }, [out]);
 
   return (
     <section
@@ -369,7 +393,7 @@ export function ProfilePreview({
           Showing the last profile without problems; fix the fields marked to update.
         </p>
       ) : null}
-      {out ? (
+      {out && charts ? (
         <>
           <p className="text-xs text-ink-600" aria-live="polite">
             {busy
@@ -398,49 +422,35 @@ export function ProfilePreview({
           <BandChart
             title="Platform position (pose offset)"
             yLabel="mm"
-            x={x}
+            x={charts.x}
             scale={1000}
-            bands={poseBands(['x_m', 'y_m', 'z_m'], ['x', 'y', 'z'])}
+            bands={charts.position}
             height_px={150}
             syncKey="profile-preview"
           />
           <BandChart
             title="Platform attitude (pose offset)"
             yLabel="°"
-            x={x}
+            x={charts.x}
             scale={DEG}
-            bands={poseBands(['roll_rad', 'pitch_rad', 'yaw_rad'], ['roll', 'pitch', 'yaw'])}
+            bands={charts.attitude}
             height_px={150}
             syncKey="profile-preview"
           />
           <BandChart
             title="Seat 1 specific force (platform frame, before the rider low-pass)"
             yLabel="m/s²"
-            x={x}
-            bands={(['x', 'y', 'z'] as const).map((a, i) => ({
-              label: `f${a}`,
-              color: CHART_COLORS.series[i] ?? CHART_COLORS.cued,
-              min: out.series.seatForce[a].min,
-              max: out.series.seatForce[a].max,
-            }))}
+            x={charts.x}
+            bands={charts.seat}
             height_px={150}
             syncKey="profile-preview"
           />
           <BandChart
             title="Leg lengths"
             yLabel="m"
-            x={x}
-            bands={out.series.legs.map((b, i) => ({
-              label: `leg ${i + 1}`,
-              color: CHART_COLORS.series[i % CHART_COLORS.series.length] ?? CHART_COLORS.cued,
-              min: b.min,
-              max: b.max,
-            }))}
-            lines={[
-              { value: out.series.stroke.low_m, label: 'stroke band low', color: CHART_COLORS.stroke },
-              { value: out.series.stroke.high_m, label: 'stroke band high', color: CHART_COLORS.stroke },
-              { value: out.series.stroke.mid_m, label: 'mid-stroke', color: CHART_COLORS.axis, thin: true },
-            ]}
+            x={charts.x}
+            bands={charts.legs}
+            lines={charts.strokeLines}
             height_px={170}
             syncKey="profile-preview"
           />

@@ -1,8 +1,10 @@
 // The profile editor's preview, off the page's thread. One instance computes the motion
 // (computeProfilePreview: washout, ramps, kinematics, seat force, chart bands), another the budget's
 // full checks (previewChecks, i.e. processTrack); both run the shared motion code the worker process
-// runs. Messages that arrive while a computation runs are coalesced: only the newest request is
-// computed next, and every answer carries its request's generation so the page drops stale ones.
+// runs. The motion worker keeps the take prepared (resampled) and, with it, the stages of the last
+// preview, so a change reruns only the stages it touches. Messages that arrive while a computation
+// runs are coalesced: only the newest request is computed next, and every answer carries its
+// request's generation so the page drops stale ones.
 import type { Budget } from '../../../../shared/schemas/budget';
 import type { ControllerOutput } from '../../../../shared/schemas/controller-output';
 import type { CueingProfile } from '../../../../shared/schemas/cueing-profile';

@@ -1,6 +1,6 @@
 // Drives the profile preview's two Web Workers (profile-preview.worker.ts): one for the motion, one for
-// the budget's full checks. Each change of the inputs gets a new generation number; the requests are
-// debounced (the motion briefly, the slower checks longer) and an answer for any generation but the
+// the budget's full checks. Each change of the inputs gets a new generation number; the checks are
+// debounced (the motion is asked for at once) and an answer for any generation but the
 // newest is dropped, so a stale computation never overwrites a newer one.
 import { useEffect, useRef, useState } from 'react';
 import type { Budget } from '../../../../shared/schemas/budget';
@@ -11,8 +11,13 @@ import type { PreviewChecks, PreviewOutput } from '../../../../shared/motion/pre
 import type { Track } from '../../../../shared/motion/track-reader';
 import type { PreviewAnswer, PreviewRequest } from './profile-preview.worker';
 
-/** Waits before a change is computed (ms): typing a number is one change, not one per key. */
-export const MOTION_DEBOUNCE_MS = 60;
+/**
+ * Waits before a change is computed (ms). The motion is asked for at once: it takes well under the
+ * 100 ms a change may take to show, and the worker computes only the newest of the requests that
+ * arrived while it was busy, so fast typing costs no more than one computation behind. The slower
+ * checks wait until typing pauses.
+ */
+export const MOTION_DEBOUNCE_MS = 0;
 export const CHECKS_DEBOUNCE_MS = 600;
 
 export interface PreviewInputs {
