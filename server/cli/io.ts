@@ -75,6 +75,17 @@ export async function readTrackFile(
   path: string,
   limits: Omit<TrackReaderOptions, 'file'> = {},
 ): Promise<Track> {
+  return (await readTrackFileHashed(path, limits)).track;
+}
+
+/**
+ * readTrackFile, and the SHA-256 (hex) and size of the file's bytes as stored (compressed, for .gz),
+ * taken in the same pass.
+ */
+export async function readTrackFileHashed(
+  path: string,
+  limits: Omit<TrackReaderOptions, 'file'> = {},
+): Promise<{ track: Track; sha256: string; size_bytes: number }> {
   try {
     const s = await stat(path);
     if (s.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
@@ -89,7 +100,7 @@ export async function readTrackFile(
       fileName: path,
       ...(maxBytes !== undefined ? { maxTextBytes: maxBytes } : {}),
     });
-    return got.track;
+    return { track: got.track, sha256: got.sha256, size_bytes: got.sizeBytes };
   } catch (e) {
     if (e instanceof TrackFileError) throw e;
     if (e instanceof TrackStreamError) throw new CliInputError(e.message);

@@ -1,15 +1,14 @@
 // The one track stream reader of the upload, the worker and the CLI: bytes in (a request, a storage
-// object, a file), through gunzip when the name ends in .gz (any case), UTF-8 decoding and the pure
-// TrackReader, out a Track with the byte count and SHA-256 of what came in. An error in any stage
-// (the source, gunzip, the parser) reaches the caller and stops the other stages; nothing is left
-// waiting.
+// object, a file), through gunzip when the name ends in .gz (any case) and the pure TrackReader (which
+// reads the UTF-8 bytes itself), out a Track with the byte count and SHA-256 of what came in. An
+// error in any stage (the source, gunzip, the parser) reaches the caller and stops the other stages;
+// nothing is left waiting.
 //
 // Bounds: the bytes as sent (maxBytes), the decompressed text (maxTextBytes), one line
 // (TrackReader's maxLineChars) and the rows (maxRows, blank lines counted). The reader looks at each
 // byte once, so the work is linear in the input.
 import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
-import { StringDecoder } from 'node:string_decoder';
 import { createGunzip } from 'node:zlib';
 import { GetObjectCommand } from '@aws-sdk/client-s3';
 import { DEFAULT_MAX_BYTES, TrackReader } from '../../shared/motion/track-reader';
@@ -108,9 +107,8 @@ export async function readTrackStream(
     head = [-1, -1];
   }
 
-  // Last stage: decompressed bytes, counted, decoded and parsed.
+  // Last stage: decompressed bytes, counted and parsed (TrackReader.pushBytes reads the UTF-8 bytes).
   let text = 0;
-  const decoder = new StringDecoder('utf8');
   async function parse(input: AsyncIterable<Buffer>): Promise<void> {
     for await (const b of input) {
       text += b.byteLength;
@@ -120,9 +118,8 @@ export async function readTrackStream(
           `${fileName}: the text is larger than the limit of ${maxText} bytes${gz ? ' after decompression' : ''}.`,
         );
       }
-      reader.push(decoder.write(b));
+      reader.pushBytes(b);
     }
-    reader.push(decoder.end());
   }
 
   const raw = Readable.from(sent());

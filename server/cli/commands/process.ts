@@ -1,8 +1,6 @@
 // `legwork process`: the whole offline pipeline (read, resample, cue, kinematics, checks, spectra) into a
 // package folder with a manifest of SHA-256 sums and every parameter of the run.
 
-import { createReadStream } from 'node:fs';
-import { createHash } from 'node:crypto';
 import { basename } from 'node:path';
 import { processTrack } from '../../../shared/motion/process';
 import type { Track } from '../../../shared/motion/track-reader';
@@ -21,7 +19,7 @@ import {
   readProfileFile,
   readControllerFile,
   readTouchupFile,
-  readTrackFile,
+  readTrackFileHashed,
 } from '../io';
 import type { Touchup } from '../../../shared/schemas/touchup';
 import { folderSink, sha256Hex, writeRunOutputs } from '../../pipeline/run-outputs';
@@ -62,17 +60,6 @@ The budget numbers are whatever the venue entered; Legwork does not check them a
 ${CAUTION}
 `;
 
-async function fileSha256(path: string): Promise<{ sha256: string; size_bytes: number }> {
-  const hash = createHash('sha256');
-  let size = 0;
-  for await (const chunk of createReadStream(path)) {
-    const b = chunk as Buffer;
-    size += b.byteLength;
-    hash.update(b);
-  }
-  return { sha256: hash.digest('hex'), size_bytes: size };
-}
-
 /** Runs `legwork process`; resolves to the exit code (0, 3 or 4; bad input throws CliInputError for 2). */
 export async function run(argv: string[], io: CliIo): Promise<number> {
   const values = parseCommandOptions(
@@ -101,11 +88,12 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   let touchupText: string | undefined;
   if (values.touchup) ({ touchup, text: touchupText } = await readTouchupFile(values.touchup));
   const controller = values.controller ? (await readControllerFile(values.controller)).controller : undefined;
-  let track: Track | undefined = await readTrackFile(inPath);
+  // The input's SHA-256 and size for the manifest come from the same read as the track.
+  const { track: read, ...inputHash } = await readTrackFileHashed(inPath);
+  let track: Track | undefined = read;
   if (values.profile && track.kind !== 'vehicle') {
     io.stderr(`warning: ${values.profile}: a ${track.kind} track is not cued; the profile was not used\n`);
   }
-  const inputHash = await fileSha256(inPath);
 
   let result: ProcessResult;
   try {
