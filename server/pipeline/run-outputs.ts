@@ -5,7 +5,6 @@
 import { createHash } from 'node:crypto';
 import { mkdir, rename, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { PutObjectCommand } from '@aws-sdk/client-s3';
 import type { RunOutputs } from '../../shared/motion/run-outputs';
 import type { ManifestFile } from '../../shared/schemas/run-outputs';
 import { PACKAGE_FILES, SERIES_FILE } from '../../shared/schemas/run-outputs';
@@ -45,6 +44,8 @@ export function storageSink(storage: Storage, prefix: string): OutputSink {
   return {
     async put(name, bytes, contentType) {
       if (!FILE_NAME_RE.test(name)) throw new Error(`output file name not allowed: ${name}`);
+      // Loaded here, not at the top: the `legwork` command imports this module and never writes storage.
+      const { PutObjectCommand } = await import('@aws-sdk/client-s3');
       await storage.client.send(
         new PutObjectCommand({
           Bucket: storage.bucket,

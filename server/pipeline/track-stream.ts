@@ -10,7 +10,6 @@
 import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
 import { createGunzip } from 'node:zlib';
-import { GetObjectCommand } from '@aws-sdk/client-s3';
 import { DEFAULT_MAX_BYTES, TrackReader } from '../../shared/motion/track-reader';
 import type { Track, TrackReaderOptions } from '../../shared/motion/track-reader';
 import type { Storage } from '../storage';
@@ -150,6 +149,8 @@ export async function readTrackStream(
 
 /** Reads a stored take from object storage; a storage error (missing object, broken stream) is thrown as is. */
 export async function readStoredTake(storage: Storage, key: string, fileName: string): Promise<Track> {
+  // Loaded here, not at the top: the `legwork` command imports this module and never reads storage.
+  const { GetObjectCommand } = await import('@aws-sdk/client-s3');
   const obj = await storage.client.send(new GetObjectCommand({ Bucket: storage.bucket, Key: key }));
   const body = obj.Body as AsyncIterable<Uint8Array> | undefined;
   if (!body) throw new Error(`storage returned no body for ${key}`);

@@ -27,9 +27,21 @@ export function writeFixed(bytes: Uint8Array, at: number, v: number, digits: num
   const n = frac >= 0.5 ? whole + 1 : whole;
   if (v < 0) bytes[at++] = 45; // '-', as toFixed writes for a negative x that rounds to 0
   const ip = Math.floor(n / pow);
-  let fp = n - ip * pow;
-  if (ip === 0) bytes[at++] = 48;
-  else {
+  const fp = n - ip * pow;
+  // The digits by 32-bit integer arithmetic where the parts fit ((t / 10) | 0 is floor(t / 10) for
+  // 0 <= t < 2^31, and a small integer stores into the bytes without a double's conversion).
+  if (ip < 2147483648) {
+    let t = ip | 0;
+    let len = 1;
+    for (let p10 = 10; p10 <= t && len < 10; p10 *= 10) len++;
+    let e = at + len;
+    do {
+      const q = (t / 10) | 0;
+      bytes[--e] = (48 + t - q * 10) | 0;
+      t = q;
+    } while (t > 0);
+    at += len;
+  } else {
     let len = 0;
     for (let t = ip; t > 0; t = Math.floor(t / 10)) len++;
     let e = at + len;
@@ -42,10 +54,20 @@ export function writeFixed(bytes: Uint8Array, at: number, v: number, digits: num
   }
   if (digits === 0) return at;
   bytes[at++] = 46; // '.'
-  for (let k = digits - 1; k >= 0; k--) {
-    const q = Math.floor(fp / 10);
-    bytes[at + k] = 48 + (fp - q * 10);
-    fp = q;
+  if (digits <= 9) {
+    let f = fp | 0;
+    for (let k = digits - 1; k >= 0; k--) {
+      const q = (f / 10) | 0;
+      bytes[at + k] = (48 + f - q * 10) | 0;
+      f = q;
+    }
+  } else {
+    let f = fp;
+    for (let k = digits - 1; k >= 0; k--) {
+      const q = Math.floor(f / 10);
+      bytes[at + k] = 48 + (f - q * 10);
+      f = q;
+    }
   }
   return at + digits;
 }
