@@ -69,8 +69,8 @@ export async function writeRunOutputs(
   opts: { series?: boolean } = {},
 ): Promise<ManifestFile[]> {
   const written: ManifestFile[] = [];
-  const put = async (name: string, text: string, contentType: string) => {
-    const bytes = Buffer.from(text, 'utf8');
+  const put = async (name: string, content: string | Uint8Array, contentType: string) => {
+    const bytes = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
     await sink.put(name, bytes, contentType);
     const entry = { name, sha256: sha256Hex(bytes), size_bytes: bytes.byteLength };
     written.push(entry);

@@ -53,6 +53,13 @@ export interface ProcessInput {
    * cueing and before kinematics, so they are solved and checked like the rest; none when absent.
    */
   ramp?: ControllerOutput['ramp'];
+  /**
+   * Called once with the final motion (times, pose, legs, seat forces), before the checks and
+   * spectra, which only read it: lets a caller start writing it out meanwhile.
+   */
+  onMotion?: (
+    motion: Pick<ProcessResult, 'time_s' | 'pose' | 'legs' | 'seatForce_mps2' | 'baseKind'>,
+  ) => void;
 }
 
 /** The ramps a run carries (s) and their profile. */
@@ -344,6 +351,8 @@ export function processTrack(input: ProcessInput): ProcessResult {
       oz[i] = (R[m + 2] as number) * wx + (R[m + 5] as number) * wy + (R[m + 8] as number) * wz;
     }
   }
+
+  input.onMotion?.({ time_s, pose, legs, seatForce_mps2: seatForce, baseKind: base.kind });
 
   const check = runChecks(
     {

@@ -112,7 +112,8 @@ export interface PackageSource {
 export interface OutputFile {
   name: string;
   contentType: string;
-  content: string;
+  /** Text (written as UTF-8), or the file's bytes when they were made elsewhere (see buildRunOutputs). */
+  content: string | Uint8Array;
 }
 
 /** Everything a run leaves behind, in memory; the sink writer hashes and stores it. */
@@ -130,12 +131,17 @@ export interface RunOutputs {
 const contentTypeOf = (name: PackageFileName): string =>
   (PACKAGE_FILES.find((f) => f.name === name) as { contentType: string }).contentType;
 
-/** Builds every output of a run from the pipeline result (see the file comment). */
+/**
+ * Builds every output of a run from the pipeline result (see the file comment). `prebuilt` holds
+ * files whose bytes the caller already made from the same result with the same functions (the CSV
+ * files, on a second thread); they are taken as they are.
+ */
 export function buildRunOutputs(
   result: ProcessResult,
   input: Track,
   base: MotionBase,
   source: PackageSource,
+  prebuilt: Partial<Record<PackageFileName, Uint8Array>> = {},
 ): RunOutputs {
   const n = source.track.length;
   const start_s = source.track.time_s[0] as number;
@@ -204,10 +210,10 @@ export function buildRunOutputs(
     notes: result.notes,
     ...(source.run ? { run: source.run } : {}),
   };
-  const file = (name: PackageFileName, content: string): OutputFile => ({
+  const file = (name: PackageFileName, content: string | (() => string)): OutputFile => ({
     name,
     contentType: contentTypeOf(name),
-    content,
+    content: prebuilt[name] ?? (typeof content === 'string' ? content : content()),
   });
   const n_out = result.time_s.length;
   const summary: Omit<StoredRunSummary, 'files'> = {
@@ -227,9 +233,9 @@ export function buildRunOutputs(
   let series: RunSeries | undefined;
   return {
     files: [
-      file('legs.csv', legsCsv(result)),
-      file('pose.csv', poseCsv(result)),
-      file('seat_force.csv', seatForceCsv(result)),
+      file('legs.csv', () => legsCsv(result)),
+      file('pose.csv', () => poseCsv(result)),
+      file('seat_force.csv', () => seatForceCsv(result)),
       ...(result.legForce_N ? [file('leg_force.csv', legForceCsv(result.time_s, result.legForce_N))] : []),
       file('findings.json', `${JSON.stringify(result.findings, null, 2)}\n`),
       file('spectra.json', `${JSON.stringify(spectra)}\n`),

@@ -25,6 +25,8 @@ import type { Touchup } from '../../../shared/schemas/touchup';
 import { folderSink, sha256Hex, writeRunOutputs } from '../../pipeline/run-outputs';
 import { softwareVersion } from '../../lib/version';
 import { describePipelineError } from './check';
+import type { CsvBytes, PackageWorker } from '../package-worker';
+import { startPackageWorker } from '../package-worker';
 
 export const summary =
   'the whole offline pipeline into a package folder (legs, pose, findings, spectra, report)';
@@ -75,6 +77,20 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
     io.stdout(help);
     return 0;
   }
+  // Started first, so it loads while the track is read; it writes the CSV files during the checks.
+  const worker = startPackageWorker(import.meta.url);
+  try {
+    return await runWith(values, io, worker);
+  } finally {
+    worker?.close();
+  }
+}
+
+async function runWith(
+  values: Record<string, string | undefined> & { base: string; in: string; out: string },
+  io: CliIo,
+  worker: PackageWorker | null,
+): Promise<number> {
   const basePath = values.base;
   const inPath = values.in;
   const { base, text: baseText } = await readBaseFile(basePath);
@@ -104,6 +120,7 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
       ...(profile ? { profile } : {}),
       ...(touchup ? { touchup } : {}),
       ...(controller ? { ramp: controller.ramp } : {}),
+      ...(worker ? { onMotion: (m) => worker.write(m) } : {}),
     });
   } catch (e) {
     describePipelineError(e, {
@@ -126,22 +143,37 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   };
   // eslint-disable-next-line no-useless-assignment -- the columns go to the garbage collector
   track = undefined;
-  const outputs = buildRunOutputs(result, input, base, {
-    input: { file: basename(inPath), ...inputHash },
-    track: input,
-    base: { file: basename(basePath), sha256: sha256Hex(baseText) },
-    ...(values.profile && profileText !== undefined
-      ? { profile: { file: basename(values.profile), sha256: sha256Hex(profileText) } }
-      : {}),
-    ...(values.budget && budgetText !== undefined
-      ? { budget: { file: basename(values.budget), sha256: sha256Hex(budgetText) } }
-      : {}),
-    ...(values.touchup && touchupText !== undefined
-      ? { touchup: { file: basename(values.touchup), sha256: sha256Hex(touchupText) } }
-      : {}),
-    ...(controller ? { controller } : {}),
-    softwareVersion: softwareVersion(),
-  });
+  // The worker's CSV bytes; should it have failed, buildRunOutputs makes them here instead (unless
+  // LEGWORK_THREADS=1 asks for the worker, as the tests do to see it work).
+  let csv: CsvBytes = {};
+  if (worker) {
+    csv = await worker.result().catch((e: unknown) => {
+      if (process.env.LEGWORK_THREADS === '1') throw e;
+      return {};
+    });
+  }
+  const outputs = buildRunOutputs(
+    result,
+    input,
+    base,
+    {
+      input: { file: basename(inPath), ...inputHash },
+      track: input,
+      base: { file: basename(basePath), sha256: sha256Hex(baseText) },
+      ...(values.profile && profileText !== undefined
+        ? { profile: { file: basename(values.profile), sha256: sha256Hex(profileText) } }
+        : {}),
+      ...(values.budget && budgetText !== undefined
+        ? { budget: { file: basename(values.budget), sha256: sha256Hex(budgetText) } }
+        : {}),
+      ...(values.touchup && touchupText !== undefined
+        ? { touchup: { file: basename(values.touchup), sha256: sha256Hex(touchupText) } }
+        : {}),
+      ...(controller ? { controller } : {}),
+      softwareVersion: softwareVersion(),
+    },
+    csv,
+  );
 
   try {
     await writeRunOutputs(outputs, folderSink(values.out));
