@@ -1,16 +1,23 @@
-// A second thread for `legwork process`: while the main thread runs the checks and spectra, a worker
-// turns the finished motion (times, pose, legs, seat forces) into the bytes of legs.csv, pose.csv and
-// seat_force.csv, with the same functions (shared/motion/run-outputs.ts) the main thread would call,
-// so the package is the same byte for byte. The worker runs the compiled command's own bundle; from
-// sources (tsx), or with LEGWORK_THREADS=0, or when a worker cannot start, everything stays on the
-// main thread (LEGWORK_THREADS=1 makes a worker's failure an error instead).
+// A second thread for `legwork process`, doing parts of the run with the same functions the main
+// thread would call, so the package is the same byte for byte:
+// - while the main thread resamples the first half of the track's columns, the worker resamples the
+//   other half (shared/motion/resample.ts, resampleAntiAliasColumns);
+// - while the main thread runs the checks and spectra, the worker turns the finished motion (times,
+//   pose, legs, seat forces) into the bytes of legs.csv, pose.csv and seat_force.csv
+//   (shared/motion/run-outputs.ts).
+// The worker runs the compiled command's own bundle; from sources (tsx), or with LEGWORK_THREADS=0,
+// or when a worker cannot start, everything stays on the main thread (LEGWORK_THREADS=1 makes a
+// worker's failure an error instead).
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
+import type { DecimatedColumn } from '../../shared/motion/band-limit';
 import type { PoseColumns } from '../../shared/motion/hexapod';
 import type { ProcessResult } from '../../shared/motion/process';
+import { resampleAntiAliasColumns } from '../../shared/motion/resample';
 import { legsCsv, poseCsv, seatForceCsv } from '../../shared/motion/run-outputs';
+import type { Track } from '../../shared/motion/track-reader';
 import type { PackageFileName } from '../../shared/schemas/run-outputs';
 
-const ROLE = 'legwork-package-csv';
+const ROLE = 'legwork-package-worker';
 
 /** The motion the worker writes as CSV. */
 export type MotionForCsv = Pick<ProcessResult, 'time_s' | 'pose' | 'legs' | 'seatForce_mps2' | 'baseKind'>;
@@ -29,22 +36,38 @@ export function motionCsvBytes(m: MotionForCsv): CsvBytes {
   };
 }
 
-interface CsvRequest {
-  time_s: Float64Array;
-  pose: PoseColumns;
-  legs: Float64Array[];
-  seatForce_mps2: [Float64Array, Float64Array, Float64Array][];
-  baseKind: ProcessResult['baseKind'];
-}
+type Request =
+  | {
+      id: number;
+      kind: 'resample';
+      time_s: Float64Array;
+      trackKind: Track['kind'];
+      columns: Map<number, Float64Array>;
+      rate_hz: number;
+    }
+  | {
+      id: number;
+      kind: 'csv';
+      time_s: Float64Array;
+      pose: PoseColumns;
+      legs: Float64Array[];
+      seatForce_mps2: [Float64Array, Float64Array, Float64Array][];
+      baseKind: ProcessResult['baseKind'];
+    };
 
-type CsvReply = { ok: true; files: CsvBytes } | { ok: false; error: string };
+type Reply = { id: number; ok: true; value: unknown } | { id: number; ok: false; error: string };
 
-/** A started worker: `write(motion)` once, then `result()` for the bytes. */
+/** A started worker. Each call resolves to its answer, or rejects if the worker failed. */
 export interface PackageWorker {
-  write(m: MotionForCsv): void;
-  /** The CSV bytes; rejects if the worker failed (the caller then builds them itself). */
-  result(): Promise<CsvBytes>;
-  /** Ends the worker (after result(), or when the run stops early). */
+  /** resampleAntiAliasColumns of the given columns of a track. */
+  resample(
+    track: Pick<Track, 'time_s' | 'kind'>,
+    columns: Map<number, Float64Array>,
+    rate_hz: number,
+  ): Promise<Map<number, DecimatedColumn>>;
+  /** motionCsvBytes of the motion (sent now; the promise is for the bytes). */
+  csv(m: MotionForCsv): Promise<CsvBytes>;
+  /** Ends the worker (when done, or when the run stops early). */
   close(): void;
 }
 
@@ -61,31 +84,53 @@ export function startPackageWorker(moduleUrl: string): PackageWorker | null {
     return null;
   }
   worker.unref();
-  let settle: ((r: CsvReply) => void) | undefined;
-  const reply = new Promise<CsvReply>((resolve) => {
-    settle = resolve;
+  const waiting = new Map<number, { resolve: (v: unknown) => void; reject: (e: Error) => void }>();
+  let failed: Error | null = null;
+  const failAll = (e: Error) => {
+    failed ??= e;
+    for (const w of waiting.values()) w.reject(failed);
+    waiting.clear();
+  };
+  worker.on('message', (r: Reply) => {
+    const w = waiting.get(r.id);
+    if (!w) return;
+    waiting.delete(r.id);
+    if (r.ok) w.resolve(r.value);
+    else w.reject(new Error(r.error));
   });
-  worker.once('message', (r: CsvReply) => settle?.(r));
-  worker.once('error', (e) => settle?.({ ok: false, error: e.message }));
-  worker.once('exit', (code) => settle?.({ ok: false, error: `worker exited with code ${code}` }));
-  let sent = false;
+  worker.once('error', (e) => failAll(e));
+  worker.once('exit', (code) => failAll(new Error(`worker exited with code ${code}`)));
+  let next = 0;
+  const ask = <T>(req: Request): Promise<T> =>
+    new Promise<T>((resolve, reject) => {
+      if (failed) {
+        reject(failed);
+        return;
+      }
+      waiting.set(req.id, { resolve: resolve as (v: unknown) => void, reject });
+      worker.postMessage(req);
+    });
   return {
-    write(m) {
-      sent = true;
-      const req: CsvRequest = {
+    resample(track, columns, rate_hz) {
+      return ask({
+        id: next++,
+        kind: 'resample',
+        time_s: track.time_s,
+        trackKind: track.kind,
+        columns,
+        rate_hz,
+      });
+    },
+    csv(m) {
+      return ask({
+        id: next++,
+        kind: 'csv',
         time_s: m.time_s,
         pose: m.pose,
         legs: m.legs,
         seatForce_mps2: m.seatForce_mps2.map((f) => [f[0], f[1], f[2]]),
         baseKind: m.baseKind,
-      };
-      worker.postMessage(req);
-    },
-    async result() {
-      if (!sent) throw new Error('no motion was sent to the worker');
-      const r = await reply;
-      if (!r.ok) throw new Error(r.error);
-      return r.files;
+      });
     },
     close() {
       void worker.terminate();
@@ -93,21 +138,34 @@ export function startPackageWorker(moduleUrl: string): PackageWorker | null {
   };
 }
 
-/** In a worker started by startPackageWorker: answers the one request. Returns whether it is one. */
+function answer(req: Request): { value: unknown; transfer: ArrayBuffer[] } {
+  if (req.kind === 'resample') {
+    const value = resampleAntiAliasColumns(
+      { time_s: req.time_s, kind: req.trackKind },
+      req.columns,
+      req.rate_hz,
+    );
+    return { value, transfer: [...value.values()].map((d) => d.values.buffer as ArrayBuffer) };
+  }
+  const value = motionCsvBytes(req);
+  return { value, transfer: Object.values(value).map((b) => (b as Uint8Array).buffer as ArrayBuffer) };
+}
+
+/** In a worker started by startPackageWorker: answers its requests. Returns whether it is one. */
 export function runPackageWorkerIfAsked(): boolean {
   if (isMainThread || !parentPort || (workerData as { role?: string } | null)?.role !== ROLE) return false;
   const port = parentPort;
-  port.once('message', (req: CsvRequest) => {
-    let reply: CsvReply;
+  port.on('message', (req: Request) => {
     try {
-      reply = { ok: true, files: motionCsvBytes(req) };
+      const { value, transfer } = answer(req);
+      port.postMessage({ id: req.id, ok: true, value } satisfies Reply, transfer);
     } catch (e) {
-      reply = { ok: false, error: e instanceof Error ? e.message : String(e) };
+      port.postMessage({
+        id: req.id,
+        ok: false,
+        error: e instanceof Error ? e.message : String(e),
+      } satisfies Reply);
     }
-    const transfer = reply.ok
-      ? Object.values(reply.files).map((b) => (b as Uint8Array).buffer as ArrayBuffer)
-      : [];
-    port.postMessage(reply, transfer);
   });
   return true;
 }

@@ -26,6 +26,8 @@ import { folderSink, sha256Hex, writeRunOutputs } from '../../pipeline/run-outpu
 import { softwareVersion } from '../../lib/version';
 import { describePipelineError } from './check';
 import type { CsvBytes, PackageWorker } from '../package-worker';
+import { resampleAntiAliasColumns } from '../../../shared/motion/resample';
+import type { DecimatedColumn } from '../../../shared/motion/band-limit';
 import { startPackageWorker } from '../package-worker';
 
 export const summary =
@@ -86,6 +88,39 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   }
 }
 
+/** A failed worker's part is done on the main thread instead, unless LEGWORK_THREADS=1 asks for the worker. */
+function workerFailed(e: unknown): never | Record<string, never> {
+  if (process.env.LEGWORK_THREADS === '1') throw e;
+  return {};
+}
+
+/**
+ * resampleAntiAliasColumns of every column of the track, the first half on this thread and the rest
+ * on the worker at the same time; undefined when it cannot be done (processTrack then resamples, and
+ * reports any problem with the track as it would).
+ */
+async function resampleOnTwoThreads(
+  worker: PackageWorker,
+  track: Track,
+  rate_hz: number,
+): Promise<Map<number, DecimatedColumn> | undefined> {
+  if (track.length < 3) return undefined;
+  const half = Math.ceil(track.columns.length / 2);
+  const pick = (from: number, to: number) =>
+    new Map(track.columns.slice(from, to).map((c, i) => [from + i, c] as const));
+  const theirs = worker.resample(track, pick(half, track.columns.length), rate_hz);
+  theirs.catch(() => undefined);
+  let mine: Map<number, DecimatedColumn>;
+  try {
+    mine = resampleAntiAliasColumns(track, pick(0, half), rate_hz);
+  } catch {
+    return undefined;
+  }
+  const got = await theirs.catch((e: unknown) => workerFailed(e));
+  if (!(got instanceof Map)) return undefined;
+  return new Map([...mine, ...got]);
+}
+
 async function runWith(
   values: Record<string, string | undefined> & { base: string; in: string; out: string },
   io: CliIo,
@@ -111,6 +146,11 @@ async function runWith(
     io.stderr(`warning: ${values.profile}: a ${track.kind} track is not cued; the profile was not used\n`);
   }
 
+  // Half the columns resampled on each thread (a touch-up changes the take first: then none here).
+  const resampledColumns =
+    worker && !touchup ? await resampleOnTwoThreads(worker, track, base.controllerRate_hz) : undefined;
+  let csvBytes: Promise<CsvBytes> | undefined;
+
   let result: ProcessResult;
   try {
     result = processTrack({
@@ -120,7 +160,8 @@ async function runWith(
       ...(profile ? { profile } : {}),
       ...(touchup ? { touchup } : {}),
       ...(controller ? { ramp: controller.ramp } : {}),
-      ...(worker ? { onMotion: (m) => worker.write(m) } : {}),
+      ...(resampledColumns ? { resampledColumns } : {}),
+      ...(worker ? { onMotion: (m) => (csvBytes = worker.csv(m)) } : {}),
     });
   } catch (e) {
     describePipelineError(e, {
@@ -145,13 +186,7 @@ async function runWith(
   track = undefined;
   // The worker's CSV bytes; should it have failed, buildRunOutputs makes them here instead (unless
   // LEGWORK_THREADS=1 asks for the worker, as the tests do to see it work).
-  let csv: CsvBytes = {};
-  if (worker) {
-    csv = await worker.result().catch((e: unknown) => {
-      if (process.env.LEGWORK_THREADS === '1') throw e;
-      return {};
-    });
-  }
+  const csv: CsvBytes = csvBytes ? await csvBytes.catch(workerFailed) : {};
   const outputs = buildRunOutputs(
     result,
     input,
