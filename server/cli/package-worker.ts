@@ -4,7 +4,7 @@
 //   other half (shared/motion/resample.ts, resampleAntiAliasColumns);
 // - while the main thread runs the checks and spectra, the worker turns the finished motion (times,
 //   pose, legs, seat forces) into the bytes of legs.csv, pose.csv and seat_force.csv
-//   (shared/motion/run-outputs.ts).
+//   (shared/motion/run-outputs.ts, motionCsvParts).
 // The worker runs the compiled command's own bundle; from sources (tsx), or with LEGWORK_THREADS=0,
 // or when a worker cannot start, everything stays on the main thread (LEGWORK_THREADS=1 makes a
 // worker's failure an error instead).
@@ -13,7 +13,7 @@ import type { DecimatedColumn } from '../../shared/motion/band-limit';
 import type { PoseColumns } from '../../shared/motion/hexapod';
 import type { ProcessResult } from '../../shared/motion/process';
 import { resampleAntiAliasColumns } from '../../shared/motion/resample';
-import { legsCsv, poseCsv, seatForceCsv } from '../../shared/motion/run-outputs';
+import { motionCsvParts } from '../../shared/motion/run-outputs';
 import type { Track } from '../../shared/motion/track-reader';
 import type { PackageFileName } from '../../shared/schemas/run-outputs';
 
@@ -22,19 +22,8 @@ const ROLE = 'legwork-package-worker';
 /** The motion the worker writes as CSV. */
 export type MotionForCsv = Pick<ProcessResult, 'time_s' | 'pose' | 'legs' | 'seatForce_mps2' | 'baseKind'>;
 
-/** The CSV files' bytes, by package file name. */
-export type CsvBytes = Partial<Record<PackageFileName, Uint8Array>>;
-
-const encoder = new TextEncoder();
-
-/** The bytes of the motion's CSV files (the same text buildRunOutputs makes, as UTF-8). */
-export function motionCsvBytes(m: MotionForCsv): CsvBytes {
-  return {
-    'legs.csv': encoder.encode(legsCsv(m)),
-    'pose.csv': encoder.encode(poseCsv(m)),
-    'seat_force.csv': encoder.encode(seatForceCsv(m)),
-  };
-}
+/** The CSV files' bytes in pieces, by package file name. */
+export type CsvBytes = Partial<Record<PackageFileName, Uint8Array[]>>;
 
 type Request =
   | {
@@ -65,7 +54,7 @@ export interface PackageWorker {
     columns: Map<number, Float64Array>,
     rate_hz: number,
   ): Promise<Map<number, DecimatedColumn>>;
-  /** motionCsvBytes of the motion (sent now; the promise is for the bytes). */
+  /** motionCsvParts of the motion (sent now; the promise is for the bytes). */
   csv(m: MotionForCsv): Promise<CsvBytes>;
   /** Ends the worker (when done, or when the run stops early). */
   close(): void;
@@ -147,8 +136,11 @@ function answer(req: Request): { value: unknown; transfer: ArrayBuffer[] } {
     );
     return { value, transfer: [...value.values()].map((d) => d.values.buffer as ArrayBuffer) };
   }
-  const value = motionCsvBytes(req);
-  return { value, transfer: Object.values(value).map((b) => (b as Uint8Array).buffer as ArrayBuffer) };
+  const value = motionCsvParts(req);
+  return {
+    value,
+    transfer: Object.values(value).flatMap((parts) => parts.map((b) => b.buffer as ArrayBuffer)),
+  };
 }
 
 /** In a worker started by startPackageWorker: answers its requests. Returns whether it is one. */

@@ -64,6 +64,7 @@ export async function readTrackStream(
     maxBytes: Number.MAX_SAFE_INTEGER,
     ...(opts.maxRows !== undefined ? { maxRows: opts.maxRows } : {}),
     ...(opts.maxLineChars !== undefined ? { maxLineChars: opts.maxLineChars } : {}),
+    ...(opts.sharedMemory !== undefined ? { sharedMemory: opts.sharedMemory } : {}),
   });
   let size = 0;
   let head: number[] = [];

@@ -84,13 +84,44 @@ export function fixedColumnsCsv(
   timeDigits: number,
   digits: number,
 ): string {
+  const decoder = new TextDecoder('latin1');
+  const parts: string[] = [`${header}\n`];
+  writeBlocks(time_s, cols, timeDigits, digits, (block) => parts.push(decoder.decode(block)));
+  return parts.join('');
+}
+
+/**
+ * fixedColumnsCsv as ASCII bytes, in pieces of a few hundred kilobytes (header first): the same
+ * characters, without a string of the whole file.
+ */
+export function fixedColumnsCsvBytes(
+  header: string,
+  time_s: Float64Array,
+  cols: readonly Float64Array[],
+  timeDigits: number,
+  digits: number,
+): Uint8Array[] {
+  const head = `${header}\n`;
+  const first = new Uint8Array(head.length);
+  for (let i = 0; i < head.length; i++) first[i] = head.charCodeAt(i) & 0xff;
+  const parts: Uint8Array[] = [first];
+  writeBlocks(time_s, cols, timeDigits, digits, (block) => parts.push(block.slice()));
+  return parts;
+}
+
+/** The rows of fixedColumnsCsv, block by block, into `emit` (the block's bytes, reused after the call). */
+function writeBlocks(
+  time_s: Float64Array,
+  cols: readonly Float64Array[],
+  timeDigits: number,
+  digits: number,
+  emit: (block: Uint8Array) => void,
+): void {
   const n = time_s.length;
   const m = cols.length;
   const tPow = 10 ** timeDigits;
   const pow = 10 ** digits;
   const bytes = new Uint8Array(Math.min(n, ROWS_PER_BLOCK) * (m + 1) * MAX_FIELD + 1);
-  const decoder = new TextDecoder('latin1');
-  const parts: string[] = [`${header}\n`];
   for (let start = 0; start < n; start += ROWS_PER_BLOCK) {
     const end = Math.min(n, start + ROWS_PER_BLOCK);
     let at = 0;
@@ -108,9 +139,8 @@ export function fixedColumnsCsv(
       }
       bytes[at++] = 10; // '\n'
     }
-    parts.push(decoder.decode(bytes.subarray(0, at)));
+    emit(bytes.subarray(0, at));
   }
-  return parts.join('');
 }
 
 /** True when bytes[from, to) are only '0' and '.' characters. */

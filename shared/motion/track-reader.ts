@@ -88,6 +88,11 @@ export interface TrackReaderOptions {
   maxBytes?: number;
   /** Most characters in one line; default 4,096 (a row of seven numbers needs under 200). */
   maxLineChars?: number;
+  /**
+   * The track's arrays in SharedArrayBuffers (where the platform has them), so other threads can
+   * read them without a copy; the values are the same.
+   */
+  sharedMemory?: boolean;
 }
 
 /** Default most data rows of a track file: two hours at 1 kHz (7,200,001 rows), with room. */
@@ -463,6 +468,7 @@ export class TrackReader {
   private readonly maxRows: number;
   private readonly maxBytes: number;
   private readonly maxLineChars: number;
+  private readonly sharedMemory: boolean;
   // The unfinished last line, in pieces (joined once its newline arrives: linear in the input).
   private carry: string[] = [];
   private carryChars = 0;
@@ -506,6 +512,7 @@ export class TrackReader {
     this.maxRows = options.maxRows ?? DEFAULT_MAX_ROWS;
     this.maxBytes = options.maxBytes ?? DEFAULT_MAX_BYTES;
     this.maxLineChars = options.maxLineChars ?? DEFAULT_MAX_LINE_CHARS;
+    this.sharedMemory = options.sharedMemory === true && typeof SharedArrayBuffer === 'function';
   }
 
   /** Feeds the next piece of the file's text (any split, even mid-line or mid-number). */
@@ -623,17 +630,13 @@ export class TrackReader {
     }
     const spec = this.spec as LayoutSpec;
     const n = this.rows;
-    const time_s = this.joinBlocks(this.timeBlocks, this.time, new Float64Array(n));
+    const f64 = (): Float64Array =>
+      this.sharedMemory ? new Float64Array(new SharedArrayBuffer(8 * n)) : new Float64Array(n);
+    const time_s = this.joinBlocks(this.timeBlocks, this.time, f64());
     const lines = this.joinBlocks(this.lineBlocks, this.lines, new Int32Array(n));
     const columns: Float64Array[] = [];
     for (let j = 0; j < this.cols.length; j++) {
-      columns.push(
-        this.joinBlocks(
-          this.colBlocks[j] as Float64Array[],
-          this.cols[j] as Float64Array,
-          new Float64Array(n),
-        ),
-      );
+      columns.push(this.joinBlocks(this.colBlocks[j] as Float64Array[], this.cols[j] as Float64Array, f64()));
       // Let the blocks go column by column, so at most one column is held twice.
       this.colBlocks[j] = [];
     }

@@ -5,7 +5,7 @@ import { basename } from 'node:path';
 import { processTrack } from '../../../shared/motion/process';
 import type { Track } from '../../../shared/motion/track-reader';
 import type { ProcessResult } from '../../../shared/motion/process';
-import { buildRunOutputs } from '../../../shared/motion/run-outputs';
+import { buildRunOutputs, motionCsvParts } from '../../../shared/motion/run-outputs';
 import { PACKAGE_FILES } from '../../../shared/schemas/run-outputs';
 import type { Budget } from '../../../shared/schemas/budget';
 import type { CueingProfile } from '../../../shared/schemas/cueing-profile';
@@ -29,6 +29,7 @@ import type { CsvBytes, PackageWorker } from '../package-worker';
 import { resampleAntiAliasColumns } from '../../../shared/motion/resample';
 import type { DecimatedColumn } from '../../../shared/motion/band-limit';
 import { startPackageWorker } from '../package-worker';
+import { collectGarbage } from '../collect';
 
 export const summary =
   'the whole offline pipeline into a package folder (legs, pose, findings, spectra, report)';
@@ -88,6 +89,9 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
   }
 }
 
+/** Rows up to which a take is processed on two threads (about 40 minutes at 1 kHz). */
+const THREADED_MAX_ROWS = 2_500_000;
+
 /** A failed worker's part is done on the main thread instead, unless LEGWORK_THREADS=1 asks for the worker. */
 function workerFailed(e: unknown): never | Record<string, never> {
   if (process.env.LEGWORK_THREADS === '1') throw e;
@@ -139,16 +143,26 @@ async function runWith(
   let touchupText: string | undefined;
   if (values.touchup) ({ touchup, text: touchupText } = await readTouchupFile(values.touchup));
   const controller = values.controller ? (await readControllerFile(values.controller)).controller : undefined;
-  // The input's SHA-256 and size for the manifest come from the same read as the track.
-  const { track: read, ...inputHash } = await readTrackFileHashed(inPath);
-  let track: Track | undefined = read;
+  // The input's SHA-256 and size for the manifest come from the same read as the track. Its columns
+  // are held in shared memory, so the worker reads them without a copy. No other name holds the
+  // track (its columns are let go below), so inputHash is assigned with it.
+  let track: Track | undefined;
+  let inputHash: { sha256: string; size_bytes: number };
+  // eslint-disable-next-line prefer-const -- see above
+  ({ track, ...inputHash } = await readTrackFileHashed(inPath, { sharedMemory: true }));
   if (values.profile && track.kind !== 'vehicle') {
     io.stderr(`warning: ${values.profile}: a ${track.kind} track is not cued; the profile was not used\n`);
   }
 
+  // The reader's blocks, let go once the columns were joined.
+  collectGarbage();
+  // A long take stays on one thread: a second one would hold its own copies and scratch (hundreds
+  // of megabytes on a two-hour take) for a gain that matters less there.
+  const helper = worker && track.length <= THREADED_MAX_ROWS ? worker : null;
+  if (!helper) worker?.close();
   // Half the columns resampled on each thread (a touch-up changes the take first: then none here).
   const resampledColumns =
-    worker && !touchup ? await resampleOnTwoThreads(worker, track, base.controllerRate_hz) : undefined;
+    helper && !touchup ? await resampleOnTwoThreads(helper, track, base.controllerRate_hz) : undefined;
   let csvBytes: Promise<CsvBytes> | undefined;
 
   let result: ProcessResult;
@@ -161,7 +175,7 @@ async function runWith(
       ...(touchup ? { touchup } : {}),
       ...(controller ? { ramp: controller.ramp } : {}),
       ...(resampledColumns ? { resampledColumns } : {}),
-      ...(worker ? { onMotion: (m) => (csvBytes = worker.csv(m)) } : {}),
+      ...(helper ? { onMotion: (m) => (csvBytes = helper.csv(m)) } : {}),
     });
   } catch (e) {
     describePipelineError(e, {
@@ -184,9 +198,11 @@ async function runWith(
   };
   // eslint-disable-next-line no-useless-assignment -- the columns go to the garbage collector
   track = undefined;
-  // The worker's CSV bytes; should it have failed, buildRunOutputs makes them here instead (unless
-  // LEGWORK_THREADS=1 asks for the worker, as the tests do to see it work).
-  const csv: CsvBytes = csvBytes ? await csvBytes.catch(workerFailed) : {};
+  collectGarbage();
+  // The CSV files as bytes in pieces (no string of each file): from the worker, or made here (also
+  // when the worker failed, unless LEGWORK_THREADS=1 asks for the worker, as the tests do).
+  const fromWorker: CsvBytes = csvBytes ? await csvBytes.catch(workerFailed) : {};
+  const csv: CsvBytes = Object.keys(fromWorker).length > 0 ? fromWorker : motionCsvParts(result);
   const outputs = buildRunOutputs(
     result,
     input,
