@@ -5,9 +5,10 @@
 // - while the main thread runs the checks and spectra, the worker turns the finished motion (times,
 //   pose, legs, seat forces) into the bytes of legs.csv, pose.csv and seat_force.csv
 //   (shared/motion/run-outputs.ts, motionCsvParts).
-// The worker runs the compiled command's own bundle; from sources (tsx), or with LEGWORK_THREADS=0,
-// or when a worker cannot start, everything stays on the main thread (LEGWORK_THREADS=1 makes a
-// worker's failure an error instead).
+// Off unless LEGWORK_THREADS=1: on a two-core machine shared with other work, the worker's own
+// start-up (it loads the command's bundle again) cost more CPU time than it saved, and the command
+// was no faster (bench section legwork-vs-plain run with and without it). With LEGWORK_THREADS=1 and the compiled
+// bundle (not from sources through tsx), the worker is used, and its failure is an error.
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
 import type { DecimatedColumn } from '../../shared/motion/band-limit';
 import type { PoseColumns } from '../../shared/motion/hexapod';
@@ -61,11 +62,11 @@ export interface PackageWorker {
 }
 
 /**
- * Starts the worker when the command runs from its compiled bundle (`moduleUrl`, the bundle's
- * import.meta.url, ends in .mjs) and threads are not turned off; else null.
+ * Starts the worker when LEGWORK_THREADS=1 and the command runs from its compiled bundle
+ * (`moduleUrl`, the bundle's import.meta.url, ends in .mjs); else null.
  */
 export function startPackageWorker(moduleUrl: string): PackageWorker | null {
-  if (process.env.LEGWORK_THREADS === '0' || !moduleUrl.endsWith('.mjs')) return null;
+  if (process.env.LEGWORK_THREADS !== '1' || !moduleUrl.endsWith('.mjs')) return null;
   let worker: Worker;
   try {
     worker = new Worker(new URL(moduleUrl), { workerData: { role: ROLE } });

@@ -122,16 +122,19 @@ export async function readTrackStream(
     }
   }
 
-  const raw = Readable.from(sent());
-  let out: Readable = raw;
+  // Plain text is parsed straight from the source, one chunk at a time (so a source may hand out the
+  // same buffer again once its chunk was taken); gzip goes through a stream.
+  let raw: Readable | null = null;
+  let out: Readable | null = null;
   if (gz) {
+    raw = Readable.from(sent());
     const gunzip = createGunzip();
     // pipe() does not pass errors on: a source error ends the gunzip stream with that error.
     raw.once('error', (e) => gunzip.destroy(e));
     out = raw.pipe(gunzip);
   }
   try {
-    await parse(out);
+    await parse(out ?? sent());
   } catch (e) {
     const code = (e as { code?: string }).code;
     if (gz && typeof code === 'string' && code.startsWith('Z_')) {
@@ -139,8 +142,8 @@ export async function readTrackStream(
     }
     throw e;
   } finally {
-    out.destroy();
-    raw.destroy();
+    out?.destroy();
+    raw?.destroy();
   }
   if (gz && size === 0) {
     throw new TrackStreamError(400, `${fileName}: the file is empty, so not a gzip file.`);

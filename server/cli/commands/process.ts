@@ -80,7 +80,8 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
     io.stdout(help);
     return 0;
   }
-  // Started first, so it loads while the track is read; it writes the CSV files during the checks.
+  // With LEGWORK_THREADS=1 (see package-worker.ts): started first, so it loads while the track is
+  // read; it resamples half the columns and writes the CSV files during the checks.
   const worker = startPackageWorker(import.meta.url);
   try {
     return await runWith(values, io, worker);
@@ -91,12 +92,6 @@ export async function run(argv: string[], io: CliIo): Promise<number> {
 
 /** Rows up to which a take is processed on two threads (about 40 minutes at 1 kHz). */
 const THREADED_MAX_ROWS = 2_500_000;
-
-/** A failed worker's part is done on the main thread instead, unless LEGWORK_THREADS=1 asks for the worker. */
-function workerFailed(e: unknown): never | Record<string, never> {
-  if (process.env.LEGWORK_THREADS === '1') throw e;
-  return {};
-}
 
 /**
  * resampleAntiAliasColumns of every column of the track, the first half on this thread and the rest
@@ -120,9 +115,8 @@ async function resampleOnTwoThreads(
   } catch {
     return undefined;
   }
-  const got = await theirs.catch((e: unknown) => workerFailed(e));
-  if (!(got instanceof Map)) return undefined;
-  return new Map([...mine, ...got]);
+  // A failed worker is an error: the run was asked to use it (LEGWORK_THREADS=1).
+  return new Map([...mine, ...(await theirs)]);
 }
 
 async function runWith(
@@ -199,10 +193,8 @@ async function runWith(
   // eslint-disable-next-line no-useless-assignment -- the columns go to the garbage collector
   track = undefined;
   collectGarbage();
-  // The CSV files as bytes in pieces (no string of each file): from the worker, or made here (also
-  // when the worker failed, unless LEGWORK_THREADS=1 asks for the worker, as the tests do).
-  const fromWorker: CsvBytes = csvBytes ? await csvBytes.catch(workerFailed) : {};
-  const csv: CsvBytes = Object.keys(fromWorker).length > 0 ? fromWorker : motionCsvParts(result);
+  // The CSV files as bytes in pieces (no string of each file): from the worker, or made here.
+  const csv: CsvBytes = csvBytes ? await csvBytes : motionCsvParts(result);
   const outputs = buildRunOutputs(
     result,
     input,

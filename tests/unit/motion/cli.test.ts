@@ -185,8 +185,8 @@ describe('legwork command line', () => {
   }, 60_000);
 
   it('process writes the same package with its second thread as on one thread, and as from sources', async () => {
-    // Reference: the same command on one thread (LEGWORK_THREADS=0) and in this process from the
-    // sources; LEGWORK_THREADS=1 makes a failed worker an error, so the threaded run did use it.
+    // Reference: the same command on one thread (the default) and in this process from the sources;
+    // with LEGWORK_THREADS=1 a failed worker is an error, so the threaded run did use it.
     const dir = mkdtempSync(join(tmpdir(), 'legwork-threads-'));
     const csv = join(dir, 'ride.csv');
     writeVehicleCsv(csv, 30_000);
