@@ -31,6 +31,9 @@ export async function build() {
     metafile: true,
     logLevel: 'warning',
     legalComments: 'none',
+    // Object storage is only reached by the server and the worker (through a dynamic import), never
+    // by the command: left out of the bundle so it is neither compiled nor loaded at start-up.
+    external: ['@aws-sdk/*'],
     // CommonJS dependencies inside an ES bundle may require() Node's modules.
     banner: {
       js: "import { createRequire as __legworkRequire } from 'node:module'; const require = __legworkRequire(import.meta.url);",

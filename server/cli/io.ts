@@ -3,10 +3,10 @@
 // shared exit codes and caution.
 
 import { createReadStream, createWriteStream } from 'node:fs';
-import { readFile, stat } from 'node:fs/promises';
+import { open, readFile, stat } from 'node:fs/promises';
 import { once } from 'node:events';
 import { TrackFileError, trackColumnNames } from '../../shared/motion/track-reader';
-import { TrackStreamError, readTrackStream } from '../pipeline/track-stream';
+import { TrackStreamError, isGzipName, readTrackStream } from '../pipeline/track-stream';
 import type { Track, TrackReaderOptions } from '../../shared/motion/track-reader';
 import { MotionBaseError, parseMotionBase } from '../../shared/schemas/motion-base';
 import type { MotionBase } from '../../shared/schemas/motion-base';
@@ -75,6 +75,17 @@ export async function readTrackFile(
   path: string,
   limits: Omit<TrackReaderOptions, 'file'> = {},
 ): Promise<Track> {
+  return (await readTrackFileHashed(path, limits)).track;
+}
+
+/**
+ * readTrackFile, and the SHA-256 (hex) and size of the file's bytes as stored (compressed, for .gz),
+ * taken in the same pass.
+ */
+export async function readTrackFileHashed(
+  path: string,
+  limits: Omit<TrackReaderOptions, 'file'> = {},
+): Promise<{ track: Track; sha256: string; size_bytes: number }> {
   try {
     const s = await stat(path);
     if (s.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
@@ -84,16 +95,37 @@ export async function readTrackFile(
   const { maxBytes, ...readerLimits } = limits;
   try {
     // 1 MiB reads: a long take passes in a few hundred chunks rather than thousands of 64 KiB ones.
-    const got = await readTrackStream(createReadStream(path, { highWaterMark: 1 << 20 }), {
+    const source = isGzipName(path)
+      ? createReadStream(path, { highWaterMark: 1 << 20 })
+      : fileChunks(path, 1 << 20);
+    const got = await readTrackStream(source, {
       ...readerLimits,
       fileName: path,
       ...(maxBytes !== undefined ? { maxTextBytes: maxBytes } : {}),
     });
-    return got.track;
+    return { track: got.track, sha256: got.sha256, size_bytes: got.sizeBytes };
   } catch (e) {
     if (e instanceof TrackFileError) throw e;
     if (e instanceof TrackStreamError) throw new CliInputError(e.message);
     throw describeFsError(path, e);
+  }
+}
+
+/**
+ * The file's bytes in reads of `size` into one buffer, handed out again for each read: for a reader
+ * that is done with a chunk before it asks for the next (readTrackStream on plain text).
+ */
+async function* fileChunks(path: string, size: number): AsyncGenerator<Buffer> {
+  const file = await open(path, 'r');
+  try {
+    const buf = Buffer.allocUnsafe(size);
+    for (;;) {
+      const { bytesRead } = await file.read(buf, 0, size, null);
+      if (bytesRead === 0) return;
+      yield buf.subarray(0, bytesRead);
+    }
+  } finally {
+    await file.close();
   }
 }
 

@@ -13,6 +13,7 @@ import * as processCommand from './commands/process';
 import * as verify from './commands/verify';
 import type { CliIo } from './io';
 import { CAUTION, CliInputError, EXIT, processIo } from './io';
+import { runPackageWorkerIfAsked } from './package-worker';
 
 /** A `legwork` subcommand. */
 export interface Command {
@@ -95,7 +96,8 @@ function isEntryPoint(): boolean {
   }
 }
 
-if (isEntryPoint()) {
+// In the compiled bundle this module is also the entry of `legwork process`'s worker thread.
+if (!runPackageWorkerIfAsked() && isEntryPoint()) {
   main(process.argv.slice(2)).then(
     (code) => {
       process.exitCode = code;

@@ -5,7 +5,6 @@
 import { createHash } from 'node:crypto';
 import { mkdir, rename, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { PutObjectCommand } from '@aws-sdk/client-s3';
 import type { RunOutputs } from '../../shared/motion/run-outputs';
 import type { ManifestFile } from '../../shared/schemas/run-outputs';
 import { PACKAGE_FILES, SERIES_FILE } from '../../shared/schemas/run-outputs';
@@ -13,7 +12,8 @@ import type { Storage } from '../storage';
 
 /** Where a run's files go. `put` stores one file under its name, replacing a file of that name. */
 export interface OutputSink {
-  put(name: string, bytes: Uint8Array, contentType: string): Promise<void>;
+  /** `bytes`: the whole file, or its pieces in order. */
+  put(name: string, bytes: Uint8Array | readonly Uint8Array[], contentType: string): Promise<void>;
 }
 
 /** SHA-256 (hex) of bytes or UTF-8 text. */
@@ -45,12 +45,15 @@ export function storageSink(storage: Storage, prefix: string): OutputSink {
   return {
     async put(name, bytes, contentType) {
       if (!FILE_NAME_RE.test(name)) throw new Error(`output file name not allowed: ${name}`);
+      // Loaded here, not at the top: the `legwork` command imports this module and never writes storage.
+      const { PutObjectCommand } = await import('@aws-sdk/client-s3');
+      const body = bytes instanceof Uint8Array ? bytes : Buffer.concat(bytes);
       await storage.client.send(
         new PutObjectCommand({
           Bucket: storage.bucket,
           Key: `${prefix}${name}`,
-          Body: bytes,
-          ContentLength: bytes.byteLength,
+          Body: body,
+          ContentLength: body.byteLength,
           ContentType: contentType,
         }),
       );
@@ -68,10 +71,16 @@ export async function writeRunOutputs(
   opts: { series?: boolean } = {},
 ): Promise<ManifestFile[]> {
   const written: ManifestFile[] = [];
-  const put = async (name: string, text: string, contentType: string) => {
-    const bytes = Buffer.from(text, 'utf8');
+  const put = async (name: string, content: string | readonly Uint8Array[], contentType: string) => {
+    const bytes = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
     await sink.put(name, bytes, contentType);
-    const entry = { name, sha256: sha256Hex(bytes), size_bytes: bytes.byteLength };
+    const hash = createHash('sha256');
+    let size = 0;
+    for (const b of bytes instanceof Uint8Array ? [bytes] : bytes) {
+      hash.update(b);
+      size += b.byteLength;
+    }
+    const entry = { name, sha256: hash.digest('hex'), size_bytes: size };
     written.push(entry);
     return entry;
   };

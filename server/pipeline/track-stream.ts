@@ -1,17 +1,15 @@
 // The one track stream reader of the upload, the worker and the CLI: bytes in (a request, a storage
-// object, a file), through gunzip when the name ends in .gz (any case), UTF-8 decoding and the pure
-// TrackReader, out a Track with the byte count and SHA-256 of what came in. An error in any stage
-// (the source, gunzip, the parser) reaches the caller and stops the other stages; nothing is left
-// waiting.
+// object, a file), through gunzip when the name ends in .gz (any case) and the pure TrackReader (which
+// reads the UTF-8 bytes itself), out a Track with the byte count and SHA-256 of what came in. An
+// error in any stage (the source, gunzip, the parser) reaches the caller and stops the other stages;
+// nothing is left waiting.
 //
 // Bounds: the bytes as sent (maxBytes), the decompressed text (maxTextBytes), one line
 // (TrackReader's maxLineChars) and the rows (maxRows, blank lines counted). The reader looks at each
 // byte once, so the work is linear in the input.
 import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
-import { StringDecoder } from 'node:string_decoder';
 import { createGunzip } from 'node:zlib';
-import { GetObjectCommand } from '@aws-sdk/client-s3';
 import { DEFAULT_MAX_BYTES, TrackReader } from '../../shared/motion/track-reader';
 import type { Track, TrackReaderOptions } from '../../shared/motion/track-reader';
 import type { Storage } from '../storage';
@@ -66,6 +64,7 @@ export async function readTrackStream(
     maxBytes: Number.MAX_SAFE_INTEGER,
     ...(opts.maxRows !== undefined ? { maxRows: opts.maxRows } : {}),
     ...(opts.maxLineChars !== undefined ? { maxLineChars: opts.maxLineChars } : {}),
+    ...(opts.sharedMemory !== undefined ? { sharedMemory: opts.sharedMemory } : {}),
   });
   let size = 0;
   let head: number[] = [];
@@ -108,9 +107,8 @@ export async function readTrackStream(
     head = [-1, -1];
   }
 
-  // Last stage: decompressed bytes, counted, decoded and parsed.
+  // Last stage: decompressed bytes, counted and parsed (TrackReader.pushBytes reads the UTF-8 bytes).
   let text = 0;
-  const decoder = new StringDecoder('utf8');
   async function parse(input: AsyncIterable<Buffer>): Promise<void> {
     for await (const b of input) {
       text += b.byteLength;
@@ -120,21 +118,23 @@ export async function readTrackStream(
           `${fileName}: the text is larger than the limit of ${maxText} bytes${gz ? ' after decompression' : ''}.`,
         );
       }
-      reader.push(decoder.write(b));
+      reader.pushBytes(b);
     }
-    reader.push(decoder.end());
   }
 
-  const raw = Readable.from(sent());
-  let out: Readable = raw;
+  // Plain text is parsed straight from the source, one chunk at a time (so a source may hand out the
+  // same buffer again once its chunk was taken); gzip goes through a stream.
+  let raw: Readable | null = null;
+  let out: Readable | null = null;
   if (gz) {
+    raw = Readable.from(sent());
     const gunzip = createGunzip();
     // pipe() does not pass errors on: a source error ends the gunzip stream with that error.
     raw.once('error', (e) => gunzip.destroy(e));
     out = raw.pipe(gunzip);
   }
   try {
-    await parse(out);
+    await parse(out ?? sent());
   } catch (e) {
     const code = (e as { code?: string }).code;
     if (gz && typeof code === 'string' && code.startsWith('Z_')) {
@@ -142,8 +142,8 @@ export async function readTrackStream(
     }
     throw e;
   } finally {
-    out.destroy();
-    raw.destroy();
+    out?.destroy();
+    raw?.destroy();
   }
   if (gz && size === 0) {
     throw new TrackStreamError(400, `${fileName}: the file is empty, so not a gzip file.`);
@@ -153,6 +153,8 @@ export async function readTrackStream(
 
 /** Reads a stored take from object storage; a storage error (missing object, broken stream) is thrown as is. */
 export async function readStoredTake(storage: Storage, key: string, fileName: string): Promise<Track> {
+  // Loaded here, not at the top: the `legwork` command imports this module and never reads storage.
+  const { GetObjectCommand } = await import('@aws-sdk/client-s3');
   const obj = await storage.client.send(new GetObjectCommand({ Bucket: storage.bucket, Key: key }));
   const body = obj.Body as AsyncIterable<Uint8Array> | undefined;
   if (!body) throw new Error(`storage returned no body for ${key}`);

@@ -27,9 +27,21 @@ export function writeFixed(bytes: Uint8Array, at: number, v: number, digits: num
   const n = frac >= 0.5 ? whole + 1 : whole;
   if (v < 0) bytes[at++] = 45; // '-', as toFixed writes for a negative x that rounds to 0
   const ip = Math.floor(n / pow);
-  let fp = n - ip * pow;
-  if (ip === 0) bytes[at++] = 48;
-  else {
+  const fp = n - ip * pow;
+  // The digits by 32-bit integer arithmetic where the parts fit ((t / 10) | 0 is floor(t / 10) for
+  // 0 <= t < 2^31, and a small integer stores into the bytes without a double's conversion).
+  if (ip < 2147483648) {
+    let t = ip | 0;
+    let len = 1;
+    for (let p10 = 10; p10 <= t && len < 10; p10 *= 10) len++;
+    let e = at + len;
+    do {
+      const q = (t / 10) | 0;
+      bytes[--e] = (48 + t - q * 10) | 0;
+      t = q;
+    } while (t > 0);
+    at += len;
+  } else {
     let len = 0;
     for (let t = ip; t > 0; t = Math.floor(t / 10)) len++;
     let e = at + len;
@@ -42,10 +54,20 @@ export function writeFixed(bytes: Uint8Array, at: number, v: number, digits: num
   }
   if (digits === 0) return at;
   bytes[at++] = 46; // '.'
-  for (let k = digits - 1; k >= 0; k--) {
-    const q = Math.floor(fp / 10);
-    bytes[at + k] = 48 + (fp - q * 10);
-    fp = q;
+  if (digits <= 9) {
+    let f = fp | 0;
+    for (let k = digits - 1; k >= 0; k--) {
+      const q = (f / 10) | 0;
+      bytes[at + k] = (48 + f - q * 10) | 0;
+      f = q;
+    }
+  } else {
+    let f = fp;
+    for (let k = digits - 1; k >= 0; k--) {
+      const q = Math.floor(f / 10);
+      bytes[at + k] = 48 + (f - q * 10);
+      f = q;
+    }
   }
   return at + digits;
 }
@@ -62,13 +84,44 @@ export function fixedColumnsCsv(
   timeDigits: number,
   digits: number,
 ): string {
+  const decoder = new TextDecoder('latin1');
+  const parts: string[] = [`${header}\n`];
+  writeBlocks(time_s, cols, timeDigits, digits, (block) => parts.push(decoder.decode(block)));
+  return parts.join('');
+}
+
+/**
+ * fixedColumnsCsv as ASCII bytes, in pieces of a few hundred kilobytes (header first): the same
+ * characters, without a string of the whole file.
+ */
+export function fixedColumnsCsvBytes(
+  header: string,
+  time_s: Float64Array,
+  cols: readonly Float64Array[],
+  timeDigits: number,
+  digits: number,
+): Uint8Array[] {
+  const head = `${header}\n`;
+  const first = new Uint8Array(head.length);
+  for (let i = 0; i < head.length; i++) first[i] = head.charCodeAt(i) & 0xff;
+  const parts: Uint8Array[] = [first];
+  writeBlocks(time_s, cols, timeDigits, digits, (block) => parts.push(block.slice()));
+  return parts;
+}
+
+/** The rows of fixedColumnsCsv, block by block, into `emit` (the block's bytes, reused after the call). */
+function writeBlocks(
+  time_s: Float64Array,
+  cols: readonly Float64Array[],
+  timeDigits: number,
+  digits: number,
+  emit: (block: Uint8Array) => void,
+): void {
   const n = time_s.length;
   const m = cols.length;
   const tPow = 10 ** timeDigits;
   const pow = 10 ** digits;
   const bytes = new Uint8Array(Math.min(n, ROWS_PER_BLOCK) * (m + 1) * MAX_FIELD + 1);
-  const decoder = new TextDecoder('latin1');
-  const parts: string[] = [`${header}\n`];
   for (let start = 0; start < n; start += ROWS_PER_BLOCK) {
     const end = Math.min(n, start + ROWS_PER_BLOCK);
     let at = 0;
@@ -86,9 +139,8 @@ export function fixedColumnsCsv(
       }
       bytes[at++] = 10; // '\n'
     }
-    parts.push(decoder.decode(bytes.subarray(0, at)));
+    emit(bytes.subarray(0, at));
   }
-  return parts.join('');
 }
 
 /** True when bytes[from, to) are only '0' and '.' characters. */

@@ -21,6 +21,7 @@ import {
 } from './hexapod';
 import { planar3ConditionNumbers, planar3Forward, planar3Geometry, planar3Inverse } from './planar3';
 import { bandLimitedDerivative, differentiator, ANTI_ALIAS_CUTOFF } from './band-limit';
+import type { DecimatedColumn } from './band-limit';
 import type { RemovedContent, TrackGap } from './resample';
 import { GAP_FACTOR, GAP_MAX_S, findGaps, medianSpacing, resampleAntiAlias } from './resample';
 import type { PoseOffsetTrack } from './seat-force';
@@ -53,6 +54,18 @@ export interface ProcessInput {
    * cueing and before kinematics, so they are solved and checked like the rest; none when absent.
    */
   ramp?: ControllerOutput['ramp'];
+  /**
+   * Called once with the final motion (times, pose, legs, seat forces), before the checks and
+   * spectra, which only read it: lets a caller start writing it out meanwhile.
+   */
+  onMotion?: (
+    motion: Pick<ProcessResult, 'time_s' | 'pose' | 'legs' | 'seatForce_mps2' | 'baseKind'>,
+  ) => void;
+  /**
+   * Columns of the input track (by index) already through the anti-alias resampling, computed by
+   * resampleAntiAliasColumns (e.g. on another thread); used only when no touch-up changes the take.
+   */
+  resampledColumns?: ReadonlyMap<number, DecimatedColumn>;
 }
 
 /** The ramps a run carries (s) and their profile. */
@@ -176,7 +189,11 @@ export function processTrack(input: ProcessInput): ProcessResult {
         `${sig((g.end_s - g.start_s) / spacing)} times the median spacing (over ${GAP_FACTOR}x), bridged by interpolation.`,
     );
   }
-  const decimated = resampleAntiAlias(track, rate_hz);
+  const decimated = resampleAntiAlias(
+    track,
+    rate_hz,
+    track === input.track ? (input.resampledColumns ?? new Map()) : new Map(),
+  );
   const rs = decimated.track;
   let n = rs.length;
   if (n < 4) {
@@ -344,6 +361,8 @@ export function processTrack(input: ProcessInput): ProcessResult {
       oz[i] = (R[m + 2] as number) * wx + (R[m + 5] as number) * wy + (R[m + 8] as number) * wz;
     }
   }
+
+  input.onMotion?.({ time_s, pose, legs, seatForce_mps2: seatForce, baseKind: base.kind });
 
   const check = runChecks(
     {

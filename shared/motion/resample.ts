@@ -7,6 +7,7 @@
 
 import type { Track } from './track-reader';
 import { antiAliasTaps, decimateColumn, twoStageDecimation } from './band-limit';
+import type { DecimatedColumn } from './band-limit';
 import { derivativeInto } from './track-derivative';
 
 // Grid points within this many periods of the end still count (absorbs floating-point round-off
@@ -153,41 +154,25 @@ export interface RemovedContent {
  * a fine grid of m x rate_hz with m the smallest whole number that makes the fine grid at least as
  * dense as the track's median spacing, low-passed there, and read at the controller instants (the
  * grid of resampleLinear). The band ends at 0.4 x the lower of the controller rate and the track's
- * own rate. Returns the track and, per column, the r.m.s. removed.
+ * own rate. Returns the track and, per column, the r.m.s. removed. `done` holds columns (by index)
+ * already computed by resampleAntiAliasColumns, taken as they are.
  */
 export function resampleAntiAlias(
   track: Track,
   rate_hz: number,
+  done: ReadonlyMap<number, DecimatedColumn> = new Map(),
 ): { track: Track; removed: RemovedContent[]; fineFactor: number; bandScale: number } {
   const t = track.time_s;
   const n = t.length;
   if (n < 3) return { track: resampleTrack(track, rate_hz), removed: [], fineFactor: 1, bandScale: 1 };
-  const t0 = t[0] as number;
-  const tEnd = t[n - 1] as number;
-  const count = uniformGridLength(t0, tEnd, rate_hz);
-  const spacing = medianSpacing(t);
-  const m = Math.max(1, Math.ceil(1 / (spacing * rate_hz) - 1e-9));
-  const fineRate = m * rate_hz;
-  const nf = uniformGridLength(t0, tEnd, fineRate);
-  // The fine grid's instants are computed where they are used, not held (on a two-hour 1 kHz take
-  // that array alone would be 58 MB).
-  const fineT: FineGrid = { t0, rate_hz: fineRate, tEnd, length: nf };
+  const grid = antiAliasGrid(track, rate_hz);
+  const { t0, tEnd, count, m, scale } = grid;
   const time_s = new Float64Array(count);
   for (let k = 0; k < count; k++) time_s[k] = Math.min(t0 + k / rate_hz, tEnd);
-  // A track coarser than the controller holds nothing above its own Nyquist frequency; what the
-  // interpolant adds there (the Hermite curve's jumps in curvature at each sample) is not motion, so
-  // the band then ends at 0.4 x the track's own rate.
-  const scale = Math.min(1, 1 / (spacing * rate_hz));
-  const taps = antiAliasTaps(m, scale);
-  const plan = scale === 1 ? twoStageDecimation(m) : undefined;
-  const linear = track.kind === 'vehicle';
-  const slope = linear ? new Float64Array(0) : new Float64Array(n);
-  const fine = new Float64Array(nf);
+  const scratch = columnScratch(track, grid);
   const removed: RemovedContent[] = [];
   const columns = track.columns.map((col, c) => {
-    if (linear) linearColumnInto(t, col, fineT, fine);
-    else hermiteColumnInto(t, col, slope, fineT, fine);
-    const d = decimateColumn(fine, m, count, taps, plan);
+    const d = done.get(c) ?? decimateTrackColumn(track, col, grid, scratch);
     removed.push({
       name: track.names[c] ?? `column${c + 1}`,
       removedRms: d.removedRms,
@@ -201,6 +186,83 @@ export function resampleAntiAlias(
     fineFactor: m,
     bandScale: scale,
   };
+}
+
+/** The grids and filters resampleAntiAlias uses for a track (a function of its times and kind only). */
+interface AntiAliasGrid {
+  t0: number;
+  tEnd: number;
+  count: number;
+  m: number;
+  scale: number;
+  fineT: FineGrid;
+  taps: Float64Array;
+  plan: ReturnType<typeof twoStageDecimation>;
+}
+
+function antiAliasGrid(track: Pick<Track, 'time_s'>, rate_hz: number): AntiAliasGrid {
+  const t = track.time_s;
+  const n = t.length;
+  const t0 = t[0] as number;
+  const tEnd = t[n - 1] as number;
+  const count = uniformGridLength(t0, tEnd, rate_hz);
+  const spacing = medianSpacing(t);
+  const m = Math.max(1, Math.ceil(1 / (spacing * rate_hz) - 1e-9));
+  const fineRate = m * rate_hz;
+  const nf = uniformGridLength(t0, tEnd, fineRate);
+  // The fine grid's instants are computed where they are used, not held (on a two-hour 1 kHz take
+  // that array alone would be 58 MB).
+  const fineT: FineGrid = { t0, rate_hz: fineRate, tEnd, length: nf };
+  // A track coarser than the controller holds nothing above its own Nyquist frequency; what the
+  // interpolant adds there (the Hermite curve's jumps in curvature at each sample) is not motion, so
+  // the band then ends at 0.4 x the track's own rate.
+  const scale = Math.min(1, 1 / (spacing * rate_hz));
+  const taps = antiAliasTaps(m, scale);
+  const plan = scale === 1 ? twoStageDecimation(m) : undefined;
+  return { t0, tEnd, count, m, scale, fineT, taps, plan };
+}
+
+/** Scratch of decimateTrackColumn, reused column after column: the fine grid, and the slopes. */
+interface ColumnScratch {
+  fine: Float64Array;
+  slope: Float64Array;
+}
+
+function columnScratch(track: Pick<Track, 'time_s' | 'kind'>, grid: AntiAliasGrid): ColumnScratch {
+  return {
+    fine: new Float64Array(grid.fineT.length),
+    slope: new Float64Array(track.kind === 'vehicle' ? 0 : track.time_s.length),
+  };
+}
+
+/** One column through the interpolation and the low-pass. */
+function decimateTrackColumn(
+  track: Pick<Track, 'time_s' | 'kind'>,
+  col: Float64Array,
+  grid: AntiAliasGrid,
+  scratch: ColumnScratch,
+): DecimatedColumn {
+  const t = track.time_s;
+  if (track.kind === 'vehicle') linearColumnInto(t, col, grid.fineT, scratch.fine);
+  else hermiteColumnInto(t, col, scratch.slope, grid.fineT, scratch.fine);
+  return decimateColumn(scratch.fine, grid.m, grid.count, grid.taps, grid.plan);
+}
+
+/**
+ * The columns `which` of a track (at least 3 rows) as resampleAntiAlias computes them, the same
+ * values to the bit: lets a caller compute some columns elsewhere (another thread) and pass them
+ * to resampleAntiAlias as `done`.
+ */
+export function resampleAntiAliasColumns(
+  track: Pick<Track, 'time_s' | 'kind'>,
+  columns: ReadonlyMap<number, Float64Array>,
+  rate_hz: number,
+): Map<number, DecimatedColumn> {
+  const grid = antiAliasGrid(track, rate_hz);
+  const scratch = columnScratch(track, grid);
+  const out = new Map<number, DecimatedColumn>();
+  for (const [c, col] of columns) out.set(c, decimateTrackColumn(track, col, grid, scratch));
+  return out;
 }
 
 /** A uniform grid: instant k is min(t0 + k / rate_hz, tEnd), for k < length. */

@@ -13,7 +13,7 @@ import { sig } from './process';
 import { ANTI_ALIAS_CUTOFF } from './band-limit';
 import { REPORT_CAUTION, buildReport } from './report';
 import { buildRunSeries } from './run-series';
-import { fixedColumnsCsv } from './fixed-csv';
+import { fixedColumnsCsv, fixedColumnsCsvBytes } from './fixed-csv';
 import type { Track } from './track-reader';
 import type { FilmSync } from '../schemas/film-sync';
 import type { ControllerOutput } from '../schemas/controller-output';
@@ -40,6 +40,34 @@ export function filmSyncManifest(f: FilmSync) {
 
 /** CSV text of the pose offsets (docs/motion-conventions.md section 3 pose columns, SI units). */
 export function poseCsv(r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind'>): string {
+  return fixedColumnsCsv(...poseTable(r));
+}
+
+/** CSV text of the leg lengths (docs/motion-conventions.md section 3 legs columns, m). */
+export function legsCsv(r: Pick<ProcessResult, 'time_s' | 'legs'>): string {
+  return fixedColumnsCsv(...legsTable(r));
+}
+
+/** CSV text of each seat's specific force, x, y and z per seat (m/s^2, platform frame, micro-m/s^2). */
+export function seatForceCsv(r: Pick<ProcessResult, 'time_s' | 'seatForce_mps2'>): string {
+  return fixedColumnsCsv(...seatForceTable(r));
+}
+
+/** poseCsv, legsCsv and seatForceCsv as bytes in pieces (fixedColumnsCsvBytes): the same characters. */
+export function motionCsvParts(
+  r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind' | 'legs' | 'seatForce_mps2'>,
+): Record<'legs.csv' | 'pose.csv' | 'seat_force.csv', Uint8Array[]> {
+  return {
+    'legs.csv': fixedColumnsCsvBytes(...legsTable(r)),
+    'pose.csv': fixedColumnsCsvBytes(...poseTable(r)),
+    'seat_force.csv': fixedColumnsCsvBytes(...seatForceTable(r)),
+  };
+}
+
+/** The arguments of fixedColumnsCsv for a file (digits as in columnsCsv below). */
+type Table = [header: string, time_s: Float64Array, cols: Float64Array[], timeDigits: number, digits: number];
+
+function poseTable(r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind'>): Table {
   const p = r.pose;
   const cols =
     r.baseKind === 'hexapod'
@@ -47,22 +75,20 @@ export function poseCsv(r: Pick<ProcessResult, 'time_s' | 'pose' | 'baseKind'>):
       : [p.x_m, p.y_m, p.yaw_rad];
   const header =
     r.baseKind === 'hexapod' ? 'time_s,x_m,y_m,z_m,roll_rad,pitch_rad,yaw_rad' : 'time_s,x_m,y_m,yaw_rad';
-  return columnsCsv(header, r.time_s, cols);
+  return [header, r.time_s, cols, 6, 9];
 }
 
-/** CSV text of the leg lengths (docs/motion-conventions.md section 3 legs columns, m). */
-export function legsCsv(r: Pick<ProcessResult, 'time_s' | 'legs'>): string {
+function legsTable(r: Pick<ProcessResult, 'time_s' | 'legs'>): Table {
   const header = ['time_s', ...r.legs.map((_, i) => `leg${i + 1}_m`)].join(',');
-  return columnsCsv(header, r.time_s, r.legs);
+  return [header, r.time_s, r.legs, 6, 9];
 }
 
-/** CSV text of each seat's specific force, x, y and z per seat (m/s^2, platform frame, micro-m/s^2). */
-export function seatForceCsv(r: Pick<ProcessResult, 'time_s' | 'seatForce_mps2'>): string {
+function seatForceTable(r: Pick<ProcessResult, 'time_s' | 'seatForce_mps2'>): Table {
   const header = [
     'time_s',
     ...r.seatForce_mps2.flatMap((_, s) => ['x', 'y', 'z'].map((a) => `seat${s + 1}_f${a}_mps2`)),
   ].join(',');
-  return columnsCsv(header, r.time_s, r.seatForce_mps2.flat(), 6);
+  return [header, r.time_s, r.seatForce_mps2.flat(), 6, 6];
 }
 
 /** CSV text of each leg's axial force (N, compression positive, to the millinewton). */
@@ -112,7 +138,8 @@ export interface PackageSource {
 export interface OutputFile {
   name: string;
   contentType: string;
-  content: string;
+  /** Text (written as UTF-8), or the file's bytes in pieces when they were made elsewhere (see buildRunOutputs). */
+  content: string | readonly Uint8Array[];
 }
 
 /** Everything a run leaves behind, in memory; the sink writer hashes and stores it. */
@@ -130,12 +157,17 @@ export interface RunOutputs {
 const contentTypeOf = (name: PackageFileName): string =>
   (PACKAGE_FILES.find((f) => f.name === name) as { contentType: string }).contentType;
 
-/** Builds every output of a run from the pipeline result (see the file comment). */
+/**
+ * Builds every output of a run from the pipeline result (see the file comment). `prebuilt` holds
+ * files whose bytes the caller already made from the same result with the same functions (the CSV
+ * files, on a second thread); they are taken as they are.
+ */
 export function buildRunOutputs(
   result: ProcessResult,
   input: Track,
   base: MotionBase,
   source: PackageSource,
+  prebuilt: Partial<Record<PackageFileName, readonly Uint8Array[]>> = {},
 ): RunOutputs {
   const n = source.track.length;
   const start_s = source.track.time_s[0] as number;
@@ -204,10 +236,10 @@ export function buildRunOutputs(
     notes: result.notes,
     ...(source.run ? { run: source.run } : {}),
   };
-  const file = (name: PackageFileName, content: string): OutputFile => ({
+  const file = (name: PackageFileName, content: string | (() => string)): OutputFile => ({
     name,
     contentType: contentTypeOf(name),
-    content,
+    content: prebuilt[name] ?? (typeof content === 'string' ? content : content()),
   });
   const n_out = result.time_s.length;
   const summary: Omit<StoredRunSummary, 'files'> = {
@@ -227,9 +259,9 @@ export function buildRunOutputs(
   let series: RunSeries | undefined;
   return {
     files: [
-      file('legs.csv', legsCsv(result)),
-      file('pose.csv', poseCsv(result)),
-      file('seat_force.csv', seatForceCsv(result)),
+      file('legs.csv', () => legsCsv(result)),
+      file('pose.csv', () => poseCsv(result)),
+      file('seat_force.csv', () => seatForceCsv(result)),
       ...(result.legForce_N ? [file('leg_force.csv', legForceCsv(result.time_s, result.legForce_N))] : []),
       file('findings.json', `${JSON.stringify(result.findings, null, 2)}\n`),
       file('spectra.json', `${JSON.stringify(spectra)}\n`),

@@ -88,6 +88,11 @@ export interface TrackReaderOptions {
   maxBytes?: number;
   /** Most characters in one line; default 4,096 (a row of seven numbers needs under 200). */
   maxLineChars?: number;
+  /**
+   * The track's arrays in SharedArrayBuffers (where the platform has them), so other threads can
+   * read them without a copy; the values are the same.
+   */
+  sharedMemory?: boolean;
 }
 
 /** Default most data rows of a track file: two hours at 1 kHz (7,200,001 rows), with room. */
@@ -358,17 +363,112 @@ export function parseDecimal(text: string, from: number, to: number): number {
   return scanStop === to ? v : NaN;
 }
 
+/**
+ * scanDecimal on ASCII bytes: reads the plain decimal at bytes[from, ...) up to the first byte that
+ * cannot continue it or `to`, sets scanStop there and returns its value, or NaN where scanDecimal
+ * would (the same digits, scale and rounding, so the same value for the same characters).
+ */
+function scanDecimalBytes(bytes: Uint8Array, from: number, to: number): number {
+  let i = from;
+  scanStop = from;
+  if (i >= to) return NaN;
+  let c = bytes[i] as number;
+  let neg = false;
+  if (c === 45 || c === 43) {
+    neg = c === 45;
+    if (++i >= to) return NaN;
+    c = bytes[i] as number;
+  }
+  let mant = 0;
+  let digits = 0;
+  let scale = 0;
+  let any = false;
+  while (i < to) {
+    c = bytes[i] as number;
+    const d = c - 48;
+    if (d < 0 || d > 9) break;
+    any = true;
+    if (mant !== 0 || d !== 0) {
+      if (++digits > 15) return NaN;
+      mant = mant * 10 + d;
+    }
+    i++;
+  }
+  if (i < to && c === 46) {
+    i++;
+    while (i < to) {
+      c = bytes[i] as number;
+      const d = c - 48;
+      if (d < 0 || d > 9) break;
+      any = true;
+      if (mant !== 0 || d !== 0) {
+        if (++digits > 15) return NaN;
+        mant = mant * 10 + d;
+      }
+      scale--;
+      i++;
+    }
+  }
+  if (!any) return NaN;
+  if (i < to && (c === 101 || c === 69)) {
+    if (++i >= to) return NaN;
+    c = bytes[i] as number;
+    let eneg = false;
+    if (c === 45 || c === 43) {
+      eneg = c === 45;
+      if (++i >= to) return NaN;
+    }
+    let e = 0;
+    let edigits = 0;
+    while (i < to) {
+      const d = (bytes[i] as number) - 48;
+      if (d < 0 || d > 9) break;
+      if (++edigits > 4) return NaN;
+      e = e * 10 + d;
+      i++;
+    }
+    if (edigits === 0) return NaN;
+    scale += eneg ? -e : e;
+  }
+  scanStop = i;
+  let v: number;
+  if (mant === 0) v = 0;
+  else if (scale >= 0) {
+    if (scale > 22) return NaN;
+    v = mant * (POW10[scale] as number);
+  } else {
+    if (scale < -22) return NaN;
+    v = mant / (POW10[-scale] as number);
+  }
+  return neg ? -v : v;
+}
+
+/** parseDecimal on ASCII bytes: the value of bytes[from, to) when all of it is one plain decimal, else NaN. */
+export function parseDecimalBytes(bytes: Uint8Array, from: number, to: number): number {
+  const v = scanDecimalBytes(bytes, from, to);
+  return scanStop === to ? v : NaN;
+}
+
+// Decodes a line's bytes for the text path: UTF-8, a bad sequence as U+FFFD, a U+FEFF kept (the
+// reader drops one only at the start of the file, as push() does).
+const UTF8 = new TextDecoder('utf-8', { ignoreBOM: true });
+
 function showField(raw: string): string {
   const t = raw.length > 40 ? `${raw.slice(0, 40)}...` : raw;
   return JSON.stringify(t);
 }
 
-/** Push-based CSV track parser: `push(text)` any number of times, then `end()` for the Track. */
+/**
+ * Push-based CSV track parser: `push(text)` or `pushBytes(bytes)` (UTF-8; one or the other for a
+ * whole file) any number of times, then `end()` for the Track. Both give the same track and the same
+ * errors for the same file.
+ */
 export class TrackReader {
   private readonly file: string;
   private readonly maxRows: number;
   private readonly maxBytes: number;
   private readonly maxLineChars: number;
+  private readonly sharedMemory: boolean;
   // The unfinished last line, in pieces (joined once its newline arrives: linear in the input).
   private carry: string[] = [];
   private carryChars = 0;
@@ -400,17 +500,25 @@ export class TrackReader {
   private blockStart = 0;
   private lastTimeLine = 0;
   private started = false;
+  // pushBytes: the unfinished last line's bytes (byteCarry[0, byteCarryLen)).
+  private byteCarry: Uint8Array = new Uint8Array(0);
+  private byteCarryLen = 0;
+  private input: 'none' | 'text' | 'bytes' = 'none';
+  // One row's values as read, before they are checked and stored (pushBytes).
+  private values: Float64Array = new Float64Array(0);
 
   constructor(options: TrackReaderOptions) {
     this.file = options.file;
     this.maxRows = options.maxRows ?? DEFAULT_MAX_ROWS;
     this.maxBytes = options.maxBytes ?? DEFAULT_MAX_BYTES;
     this.maxLineChars = options.maxLineChars ?? DEFAULT_MAX_LINE_CHARS;
+    this.sharedMemory = options.sharedMemory === true && typeof SharedArrayBuffer === 'function';
   }
 
   /** Feeds the next piece of the file's text (any split, even mid-line or mid-number). */
   push(chunk: string): void {
     if (this.failed) throw this.failed;
+    this.inputIs('text');
     try {
       this.bytes += chunk.length;
       if (this.bytes > this.maxBytes) {
@@ -457,10 +565,57 @@ export class TrackReader {
     }
   }
 
+  /**
+   * Feeds the next piece of the file as UTF-8 bytes (any split, even mid-line, mid-number or
+   * mid-character). Rows of plain decimals are read from the bytes with no string per line; any other
+   * line is decoded and read as push() reads it. The size limit (maxBytes) counts bytes here.
+   */
+  pushBytes(chunk: Uint8Array): void {
+    if (this.failed) throw this.failed;
+    this.inputIs('bytes');
+    try {
+      this.bytes += chunk.length;
+      if (this.bytes > this.maxBytes) {
+        this.fail(
+          this.lineNo + 1,
+          null,
+          null,
+          'tooLarge',
+          `file too large: more than ${this.maxBytes} bytes`,
+        );
+      }
+      let start = 0;
+      let nl = chunk.indexOf(10);
+      if (nl >= 0 && this.byteCarryLen > 0) {
+        this.carryBytes(chunk, 0, nl, false);
+        this.lineBytes(this.byteCarry, 0, this.byteCarryLen);
+        this.byteCarryLen = 0;
+        start = nl + 1;
+        nl = chunk.indexOf(10, start);
+      }
+      const max = this.maxLineChars;
+      while (nl >= 0) {
+        if (nl - start > max) this.checkLineBytes(chunk, start, nl, false);
+        this.lineBytes(chunk, start, nl);
+        start = nl + 1;
+        nl = chunk.indexOf(10, start);
+      }
+      if (start < chunk.length) this.carryBytes(chunk, start, chunk.length, true);
+    } catch (e) {
+      if (e instanceof TrackFileError) this.failed = e;
+      throw e;
+    }
+  }
+
   /** Ends the input and returns the track; throws TrackFileError if the file was bad or empty. */
   end(): Track {
     if (this.failed) throw this.failed;
     try {
+      if (this.byteCarryLen > 0) {
+        const len = this.byteCarryLen;
+        this.byteCarryLen = 0;
+        this.lineBytes(this.byteCarry, 0, len);
+      }
       if (this.carry.length > 0) {
         const last = this.carry.join('');
         this.carry = [];
@@ -475,17 +630,13 @@ export class TrackReader {
     }
     const spec = this.spec as LayoutSpec;
     const n = this.rows;
-    const time_s = this.joinBlocks(this.timeBlocks, this.time, new Float64Array(n));
+    const f64 = (): Float64Array =>
+      this.sharedMemory ? new Float64Array(new SharedArrayBuffer(8 * n)) : new Float64Array(n);
+    const time_s = this.joinBlocks(this.timeBlocks, this.time, f64());
     const lines = this.joinBlocks(this.lineBlocks, this.lines, new Int32Array(n));
     const columns: Float64Array[] = [];
     for (let j = 0; j < this.cols.length; j++) {
-      columns.push(
-        this.joinBlocks(
-          this.colBlocks[j] as Float64Array[],
-          this.cols[j] as Float64Array,
-          new Float64Array(n),
-        ),
-      );
+      columns.push(this.joinBlocks(this.colBlocks[j] as Float64Array[], this.cols[j] as Float64Array, f64()));
       // Let the blocks go column by column, so at most one column is held twice.
       this.colBlocks[j] = [];
     }
@@ -524,6 +675,104 @@ export class TrackReader {
     throw new TrackFileError(this.file, line, column, columnName, code, reason);
   }
 
+  private inputIs(kind: 'text' | 'bytes'): void {
+    if (this.input === 'none') this.input = kind;
+    else if (this.input !== kind) throw new Error('TrackReader: push() and pushBytes() mixed in one file');
+  }
+
+  /** Appends bytes[from, to) to the carried line; checks its length (`partial`: more may follow). */
+  private carryBytes(bytes: Uint8Array, from: number, to: number, partial: boolean): void {
+    const len = this.byteCarryLen + to - from;
+    if (len > this.byteCarry.length) {
+      const grown = new Uint8Array(Math.max(256, 2 * len));
+      grown.set(this.byteCarry.subarray(0, this.byteCarryLen));
+      this.byteCarry = grown;
+    }
+    this.byteCarry.set(bytes.subarray(from, to), this.byteCarryLen);
+    this.byteCarryLen = len;
+    if (len > this.maxLineChars) this.checkLineBytes(this.byteCarry, 0, len, partial);
+  }
+
+  /**
+   * The line-length check of push() on bytes[from, to): in characters, as push() counts them (bytes
+   * when all are ASCII; a BOM at the file's start not counted). `partial`: the line goes on, so an
+   * unfinished character at the end is not counted yet.
+   */
+  private checkLineBytes(bytes: Uint8Array, from: number, to: number, partial: boolean): void {
+    let ascii = true;
+    for (let i = from; i < to; i++) {
+      if ((bytes[i] as number) >= 0x80) {
+        ascii = false;
+        break;
+      }
+    }
+    if (ascii) {
+      this.checkLineLength(to - from);
+      return;
+    }
+    const text = new TextDecoder('utf-8', { ignoreBOM: true }).decode(bytes.subarray(from, to), {
+      stream: partial,
+    });
+    const bom = this.lineNo === 0 && text.charCodeAt(0) === 0xfeff ? 1 : 0;
+    this.checkLineLength(text.length - bom);
+  }
+
+  /** The text of line bytes[from, to) as push() would see it. */
+  private decodeLine(bytes: Uint8Array, from: number, to: number): string {
+    const text = UTF8.decode(bytes.subarray(from, to));
+    return this.lineNo === 1 && text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  }
+
+  /** One line of pushBytes (without its '\n'). */
+  private lineBytes(bytes: Uint8Array, from: number, to: number): void {
+    this.lineNo++;
+    let end = to;
+    if (end > from && bytes[end - 1] === 13) end--;
+    if (!this.headerDone) {
+      const text = this.decodeLine(bytes, from, end);
+      this.lineText(text, 0, text.length);
+      return;
+    }
+    for (let i = from; i < end; i++) {
+      const c = bytes[i];
+      if (c !== 32 && c !== 9) {
+        this.rowBytes(bytes, from, end);
+        return;
+      }
+    }
+    this.blankLine();
+  }
+
+  /**
+   * A data row of pushBytes: all plain short decimals, read from the bytes and then checked and stored
+   * field by field as row() does; any other row goes to row() as text.
+   */
+  private rowBytes(bytes: Uint8Array, from: number, end: number): void {
+    const ln = this.lineNo;
+    if (this.rows >= this.maxRows) {
+      this.fail(ln, null, null, 'tooManyRows', `too many rows: more than ${this.maxRows}`);
+    }
+    const n = this.fieldCount;
+    const values = this.values;
+    let pos = from;
+    for (let c = 0; c < n; c++) {
+      const x = scanDecimalBytes(bytes, pos, end);
+      const stop = scanStop;
+      if (x !== x || (c === n - 1 ? stop !== end : stop === end || bytes[stop] !== 44)) {
+        const text = this.decodeLine(bytes, from, end);
+        this.row(text, 0, text.length);
+        return;
+      }
+      values[c] = x;
+      pos = stop + 1;
+    }
+    if (this.rows - this.blockStart >= this.time.length) this.nextBlock();
+    const r = this.rows - this.blockStart;
+    for (let c = 0; c < n; c++) this.store(ln, c, r, values[c] as number);
+    this.lines[r] = ln;
+    this.rows++;
+  }
+
   private checkLineLength(chars: number): void {
     if (chars > this.maxLineChars) {
       this.fail(
@@ -540,6 +789,11 @@ export class TrackReader {
     this.lineNo++;
     let end = to;
     if (end > from && text.charCodeAt(end - 1) === 13) end--;
+    this.lineText(text, from, end);
+  }
+
+  /** Line `lineNo`, text[from, end) without its line end: blank, the header or a data row. */
+  private lineText(text: string, from: number, end: number): void {
     // Blank lines (often a trailing one) carry no data.
     let blank = true;
     for (let i = from; i < end; i++) {
@@ -550,19 +804,23 @@ export class TrackReader {
       }
     }
     if (blank) {
-      if (++this.blankLines > BLANK_LINE_ALLOWANCE + this.rows) {
-        this.fail(
-          this.lineNo,
-          null,
-          null,
-          'tooManyRows',
-          `too many blank lines: more than ${BLANK_LINE_ALLOWANCE} besides one per data row`,
-        );
-      }
+      this.blankLine();
       return;
     }
     if (!this.headerDone) this.header(text.slice(from, end));
     else this.row(text, from, end);
+  }
+
+  private blankLine(): void {
+    if (++this.blankLines > BLANK_LINE_ALLOWANCE + this.rows) {
+      this.fail(
+        this.lineNo,
+        null,
+        null,
+        'tooManyRows',
+        `too many blank lines: more than ${BLANK_LINE_ALLOWANCE} besides one per data row`,
+      );
+    }
   }
 
   private header(line: string): void {
@@ -688,6 +946,7 @@ export class TrackReader {
       this.hi[j] = hi;
     });
     this.headerDone = true;
+    this.values = new Float64Array(n);
     this.colBlocks = spec.bases.map(() => []);
     this.newBlock(64);
   }
@@ -717,9 +976,6 @@ export class TrackReader {
     if (this.rows - this.blockStart >= this.time.length) this.nextBlock();
     const r = this.rows - this.blockStart;
     const n = this.fieldCount;
-    const cols = this.cols;
-    const target = this.target;
-    const scale = this.scale;
     let pos = from;
     for (let c = 0; c < n; c++) {
       // One pass reads the number and finds its end, which must be the comma (or the line's end for
@@ -739,39 +995,44 @@ export class TrackReader {
         if (x !== x) x = this.slowField(text, pos, stop, c);
       }
       pos = stop + 1;
-      // Finite: a plain decimal is below 1e37, and slowField refuses what is not.
-      const v = x * (scale[c] as number);
-      const j = target[c] as number;
-      if (j < 0) {
-        if (!(v > this.lastTime)) {
-          this.fail(
-            ln,
-            c + 1,
-            this.headerNames[c] ?? null,
-            'timeNotIncreasing',
-            `time not increasing: ${v} s after ${this.lastTime} s on line ${this.lastTimeLine}`,
-          );
-        }
-        if (this.rows === 0) this.firstTime = v;
-        else if (v - this.firstTime > PLAUSIBLE_LIMITS.duration_s) {
-          this.fail(
-            ln,
-            c + 1,
-            this.headerNames[c] ?? null,
-            'tooLong',
-            `take too long: ${v} s is more than ${PLAUSIBLE_LIMITS.duration_s / 3600} hours after the first row's ${this.firstTime} s`,
-          );
-        }
-        this.lastTime = v;
-        this.lastTimeLine = ln;
-        this.time[r] = v;
-      } else {
-        if (!(v >= (this.lo[j] as number) && v <= (this.hi[j] as number))) this.implausible(ln, c, x, j);
-        (cols[j] as Float64Array)[r] = v;
-      }
+      this.store(ln, c, r, x);
     }
     this.lines[r] = ln;
     this.rows++;
+  }
+
+  /** Checks field c's value x (file units) of line ln and stores it in SI at row r of the block. */
+  private store(ln: number, c: number, r: number, x: number): void {
+    // Finite: a plain decimal is below 1e37, and slowField refuses what is not.
+    const v = x * (this.scale[c] as number);
+    const j = this.target[c] as number;
+    if (j < 0) {
+      if (!(v > this.lastTime)) {
+        this.fail(
+          ln,
+          c + 1,
+          this.headerNames[c] ?? null,
+          'timeNotIncreasing',
+          `time not increasing: ${v} s after ${this.lastTime} s on line ${this.lastTimeLine}`,
+        );
+      }
+      if (this.rows === 0) this.firstTime = v;
+      else if (v - this.firstTime > PLAUSIBLE_LIMITS.duration_s) {
+        this.fail(
+          ln,
+          c + 1,
+          this.headerNames[c] ?? null,
+          'tooLong',
+          `take too long: ${v} s is more than ${PLAUSIBLE_LIMITS.duration_s / 3600} hours after the first row's ${this.firstTime} s`,
+        );
+      }
+      this.lastTime = v;
+      this.lastTimeLine = ln;
+      this.time[r] = v;
+    } else {
+      if (!(v >= (this.lo[j] as number) && v <= (this.hi[j] as number))) this.implausible(ln, c, x, j);
+      (this.cols[j] as Float64Array)[r] = v;
+    }
   }
 
   /** Refuses a value outside its column's plausible range (see PLAUSIBLE_LIMITS), naming the range. */

@@ -9,6 +9,7 @@ import type { CliIo } from '../../../server/cli/io';
 import { parseTrackText, trackColumn } from '../../../shared/motion/track-reader';
 import { hexapodGeometry, hexapodInverse } from '../../../shared/motion/hexapod';
 import { demoHexapodBase } from '../../../shared/schemas/motion-base';
+import { writeVehicleCsv } from '../../bench/sections/legwork-command';
 
 const root = fileURLToPath(new URL('../../..', import.meta.url));
 const fixture = (name: string) => join(root, 'tests/fixtures', name);
@@ -182,6 +183,55 @@ describe('legwork command line', () => {
     expect(npx.status).toBe(0);
     expect(npx.stdout).toMatch(/^Usage: legwork <command>/);
   }, 60_000);
+
+  it('process writes the same package with its second thread as on one thread, and as from sources', async () => {
+    // Reference: the same command on one thread (the default) and in this process from the sources;
+    // with LEGWORK_THREADS=1 a failed worker is an error, so the threaded run did use it.
+    const dir = mkdtempSync(join(tmpdir(), 'legwork-threads-'));
+    const csv = join(dir, 'ride.csv');
+    writeVehicleCsv(csv, 30_000);
+    const bin = join(root, 'node_modules/.bin/legwork');
+    const args = (out: string) => [
+      'process',
+      '--base',
+      fixture('base-hexapod.json'),
+      '--in',
+      csv,
+      '--out',
+      join(dir, out),
+    ];
+    const threaded = spawnSync(bin, args('two'), {
+      cwd: root,
+      encoding: 'utf8',
+      env: { ...process.env, LEGWORK_THREADS: '1' },
+    });
+    const single = spawnSync(bin, args('one'), {
+      cwd: root,
+      encoding: 'utf8',
+      env: { ...process.env, LEGWORK_THREADS: '0' },
+    });
+    expect(threaded.stderr).toBe('');
+    expect([0, 3, 4]).toContain(threaded.status);
+    expect(single.status).toBe(threaded.status);
+    const inProcess = await run(...args('src'));
+    expect(inProcess.code).toBe(threaded.status);
+    const files = [
+      'legs.csv',
+      'pose.csv',
+      'seat_force.csv',
+      'findings.json',
+      'spectra.json',
+      'report.txt',
+      'manifest.json',
+    ];
+    for (const f of files) {
+      const two = readFileSync(join(dir, 'two', f));
+      expect(two.length).toBeGreaterThan(0);
+      expect(two.equals(readFileSync(join(dir, 'one', f)))).toBe(true);
+      expect(two.equals(readFileSync(join(dir, 'src', f)))).toBe(true);
+    }
+    expect(readFileSync(join(dir, 'two', 'legs.csv'), 'utf8').split('\n').length).toBe(3000 + 2);
+  }, 120_000);
 
   it('runs as a real process through tsx with the right exit codes', () => {
     const tsx = join(root, 'node_modules/.bin/tsx');

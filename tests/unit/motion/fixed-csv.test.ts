@@ -61,6 +61,31 @@ describe('fixed-point CSV writer', () => {
       for (const d of [0, 6, 9]) expect(text(v, d)).toBe(v.toFixed(d));
   });
 
+  it('prints integer parts from 2^31 up to 2^33 and ten or more decimals as toFixed does', () => {
+    // Oracle: Number.prototype.toFixed. These take the writer's floating-point digit loops rather
+    // than its 32-bit ones.
+    fc.assert(
+      fc.property(
+        fc.double({ min: 2 ** 31 - 2, max: 2 ** 33, noNaN: true }),
+        fc.boolean(),
+        fc.integer({ min: 0, max: 2 }),
+        (v, neg, d) => {
+          const x = neg ? -v : v;
+          expect(text(x, d)).toBe(x.toFixed(d));
+        },
+      ),
+      { numRuns: 3000 },
+    );
+    fc.assert(
+      fc.property(fc.double({ min: -8, max: 8, noNaN: true }), fc.integer({ min: 9, max: 12 }), (v, d) => {
+        expect(text(v, d)).toBe(v.toFixed(d));
+      }),
+      { numRuns: 3000 },
+    );
+    for (const v of [2 ** 31 - 1, 2 ** 31, 2 ** 31 + 0.5, 2 ** 32 - 0.25, 999_999_999.9999, 1_000_000_000])
+      for (const d of [0, 1, 2]) expect(text(v, d)).toBe(v.toFixed(d));
+  });
+
   it('writes whole files as toFixed rows would, over several blocks, with minus zero as zero', () => {
     const n = 9000;
     const time = new Float64Array(n).map((_, i) => i / 100);
