@@ -160,6 +160,8 @@ function chartOptions(
       ...(props.syncKey ? { sync: { key: props.syncKey } } : {}),
       // Dragging across the plot selects a window that every chart then shows (no zoom of one chart alone).
       drag: { x: zoom !== null, y: false, setScale: false },
+      // No hover dots on the min/max lines: the legend reads every band at the cursor instead.
+      points: { show: false },
     },
     scales: {
       x: { time: false },
@@ -286,6 +288,11 @@ function chartOptions(
             ctx.stroke();
           }
           const marker = props.marker();
+          // The instant marked, on the chart's element as it is drawn (the 3-D view's time, for tests).
+          const holder = u.root.parentElement;
+          if (marker !== null && marker !== undefined && Number.isFinite(marker))
+            holder?.setAttribute('data-marker-s', String(marker));
+          else holder?.removeAttribute('data-marker-s');
           if (marker !== null && marker !== undefined && Number.isFinite(marker)) {
             const x = Math.round(u.valToPos(marker, 'x', true));
             ctx.setLineDash([]);

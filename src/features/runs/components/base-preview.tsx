@@ -6,10 +6,21 @@ import type { RunSeries } from '../../../../shared/schemas/run-series';
 import { CHART_COLORS } from '../../../components/charts/palette';
 import { Button } from '../../../components/ui/button';
 import { poseAtBucket, previewJoints, previewLegLengths } from '../utils/preview-geometry';
-import type { ThreeModule } from '../utils/preview-geometry';
+import type { PreviewPose, ThreeModule } from '../utils/preview-geometry';
+
+/** What a frame shows, stamped on the view's element as it is drawn (for readers of the markup and tests). */
+export interface ShownInstant {
+  /** Motion time (s) of the bucket drawn. */
+  t_s: number;
+  pose: PreviewPose;
+}
 
 interface Scene {
-  show: (joints: { base: Float64Array; platform: Float64Array }, legOk: readonly boolean[]) => void;
+  show: (
+    joints: { base: Float64Array; platform: Float64Array },
+    legOk: readonly boolean[],
+    instant: ShownInstant,
+  ) => void;
   /** Turns the view about the platform: azimuth about the vertical, then elevation (rad). */
   turn: (azimuth_rad: number, elevation_rad: number) => void;
   dispose: () => void;
@@ -69,9 +80,35 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
   const controls = new OrbitControls(camera, renderer.domElement);
   controls.target.copy(target);
   controls.update();
-  const render = () => renderer.render(scene, camera);
-  controls.addEventListener('change', render);
   const up = new three.Vector3(0, 0, 1);
+  // Every frame drawn writes what it shows onto the holder: the instant and pose, the platform's
+  // centroid as placed in the scene, and the camera's bearing. Written here, after the draw call, so
+  // the attributes always describe the picture on the canvas.
+  let frames = 0;
+  let shown: { instant: ShownInstant; platformCentroid_m: [number, number, number] } | null = null;
+  const render = () => {
+    renderer.render(scene, camera);
+    frames++;
+    const offset = camera.position.clone().sub(controls.target);
+    const azimuth_deg = ((((Math.atan2(offset.y, offset.x) * 180) / Math.PI) % 360) + 360) % 360;
+    const elevation_deg = 90 - (offset.angleTo(up) * 180) / Math.PI;
+    const d = el.dataset;
+    d.frames = String(frames);
+    d.cameraAzimuthDeg = azimuth_deg.toFixed(3);
+    d.cameraElevationDeg = elevation_deg.toFixed(3);
+    if (shown) {
+      const { pose, t_s } = shown.instant;
+      d.poseT = String(t_s);
+      d.poseSurgeMm = (pose.x_m * 1000).toFixed(3);
+      d.poseSwayMm = (pose.y_m * 1000).toFixed(3);
+      d.poseHeaveMm = (pose.z_m * 1000).toFixed(3);
+      d.poseRollDeg = ((pose.roll_rad * 180) / Math.PI).toFixed(4);
+      d.posePitchDeg = ((pose.pitch_rad * 180) / Math.PI).toFixed(4);
+      d.poseYawDeg = ((pose.yaw_rad * 180) / Math.PI).toFixed(4);
+      d.platformCentroidMm = shown.platformCentroid_m.map((v) => (v * 1000).toFixed(3)).join(' ');
+    }
+  };
+  controls.addEventListener('change', render);
   const turn = (azimuth_rad: number, elevation_rad: number) => {
     const offset = camera.position.clone().sub(controls.target);
     offset.applyAxisAngle(up, azimuth_rad);
@@ -98,8 +135,9 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
     const turns: Record<string, [number, number]> = {
       ArrowLeft: [-step_rad, 0],
       ArrowRight: [step_rad, 0],
-      ArrowUp: [0, -step_rad],
-      ArrowDown: [0, step_rad],
+      // Up looks from higher, down from lower.
+      ArrowUp: [0, step_rad],
+      ArrowDown: [0, -step_rad],
     };
     const t = turns[event.key];
     if (!t) return;
@@ -121,7 +159,7 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
   observer?.observe(el);
 
   return {
-    show: (joints, legOk) => {
+    show: (joints, legOk, instant) => {
       const bp = baseLoop.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
       const pp = platformLoop.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
       const lp = legGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
@@ -149,6 +187,16 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
       pp.needsUpdate = true;
       lp.needsUpdate = true;
       lc.needsUpdate = true;
+      // The centroid of the platform joints as they now stand in the scene's buffer.
+      let cx = 0;
+      let cy = 0;
+      let cz = 0;
+      for (let i = 0; i < n; i++) {
+        cx += pp.getX(i) / n;
+        cy += pp.getY(i) / n;
+        cz += pp.getZ(i) / n;
+      }
+      shown = { instant, platformCentroid_m: [cx, cy, cz] };
       render();
     },
     turn,
@@ -242,19 +290,18 @@ export function BasePreview({
   const { min_m, max_m, margin_m } = series.stroke;
   const lowest_m = min_m + margin_m;
   const highest_m = max_m - margin_m;
-  const joints = useMemo(
-    () => (three ? previewJoints(three, base, poseAtBucket(series, at)) : null),
-    [three, base, series, at],
-  );
+  const pose = useMemo(() => poseAtBucket(series, at), [series, at]);
+  const joints = useMemo(() => (three ? previewJoints(three, base, pose) : null), [three, base, pose]);
   const legs = useMemo(() => (joints ? previewLegLengths(joints) : null), [joints]);
   const legOk = useMemo(
     () => (legs ? Array.from(legs, (l) => l >= lowest_m && l <= highest_m) : []),
     [legs, lowest_m, highest_m],
   );
 
+  const shownAt_s = series.time_s[at] ?? 0;
   useEffect(() => {
-    if (joints) scene.current?.show(joints, legOk);
-  }, [joints, legOk]);
+    if (joints) scene.current?.show(joints, legOk, { t_s: shownAt_s, pose });
+  }, [joints, legOk, shownAt_s, pose]);
 
   // Plays the run in real time from the current instant; stops at the end.
   useEffect(() => {
@@ -299,7 +346,7 @@ export function BasePreview({
   }, [time_s, video, playing]);
   return (
     <div className="flex flex-col gap-2" data-testid="base-preview">
-      <div ref={holder} className="min-h-20 rounded border border-ink-100" />
+      <div ref={holder} className="min-h-20 rounded border border-ink-100" data-testid="base-view" />
       {video ? (
         <video
           ref={film}
