@@ -1,6 +1,6 @@
 import { useEffect, useId, useMemo, useState } from 'react';
 import type { FormEvent, ReactNode } from 'react';
-import type { MotionBaseIssue } from '../../../../shared/schemas/motion-base';
+import type { MotionBase, MotionBaseIssue } from '../../../../shared/schemas/motion-base';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
 import { Button } from '../../../components/ui/button';
 import { FieldError } from '../../../components/ui/form';
@@ -329,6 +329,12 @@ export function BaseForm({
     : NEUTRAL_POSE;
   const hexapod = draft.mode !== 'planar3';
   const pending = draft !== settledDraft;
+  // The 3-D view keeps the last base without problems while a field is being fixed, rather than
+  // going blank at the first stray keystroke.
+  const [lastValid, setLastValid] = useState<MotionBase | null>(check.base);
+  if (check.base && check.base !== lastValid) setLastValid(check.base);
+  const viewBase = check.base ?? lastValid;
+  const stale = !check.base && lastValid !== null;
 
   return (
     <form
@@ -624,13 +630,16 @@ export function BaseForm({
         <div className="flex flex-col gap-3 xl:sticky xl:top-2 xl:self-start">
           <BaseWorkspaceTable base={check.base} picked={pick} onPick={setPick} />
           <BaseStaticView
-            base={check.base}
+            base={viewBase}
+            stale={stale}
             pose={pose}
             placeJoints={placeJoints}
             caption={
-              pick
-                ? `At the ${pick.axis} extreme shown in the table; legs past their stroke would be drawn red.`
-                : 'At neutral. Base joints grey, platform teal; a leg outside its stroke is drawn red.'
+              stale
+                ? 'The last base without problems, at neutral: the form has problems marked beside their fields, and the view follows again once they are fixed.'
+                : pick
+                  ? `At the ${pick.axis} extreme shown in the table; legs past their stroke would be drawn red.`
+                  : 'At neutral. Base joints grey, platform teal; a leg outside its stroke is drawn red.'
             }
           />
           {pending ? <p className="text-xs text-ink-400">Updating…</p> : null}
