@@ -251,10 +251,8 @@ function chartOptions(
           ctx.beginPath();
           ctx.rect(left, top, width, height);
           ctx.clip();
-          for (const span of spans) {
-            const x0 = u.valToPos(span.from, 'x', true);
-            // A finding at one instant still gets a visible sliver.
-            const x1 = Math.max(u.valToPos(span.to, 'x', true), x0 + 3 * devicePixelRatio);
+          for (const span of mergeSpans(spans, (v) => u.valToPos(v, 'x', true), 3 * devicePixelRatio)) {
+            const { x0, x1 } = span;
             const alpha = span.selected ? 0.24 : anySelected ? 0.14 : 0.28;
             ctx.fillStyle = withAlpha(span.color, alpha);
             ctx.fillRect(x0, top, x1 - x0, height);
@@ -308,6 +306,45 @@ function chartOptions(
       ],
     },
   };
+}
+
+/**
+ * The spans as drawn, in canvas pixels: a finding at one instant still gets a sliver `minWidth_px`
+ * wide, and spans of one kind (colour and edge, none selected) that overlap or touch on screen are
+ * drawn as one, so a run of short findings reads as one clear band with one pair of edges instead of
+ * stacked fills and a comb of edges. The selected span is always drawn on its own.
+ */
+export function mergeSpans(
+  spans: readonly ChartSpan[],
+  toPx: (v: number) => number,
+  minWidth_px: number,
+): (ChartSpan & { x0: number; x1: number })[] {
+  const placed = spans
+    .map((span) => {
+      const x0 = toPx(span.from);
+      return { ...span, x0, x1: Math.max(toPx(span.to), x0 + minWidth_px) };
+    })
+    .sort((a, b) => a.x0 - b.x0);
+  const out: (ChartSpan & { x0: number; x1: number })[] = [];
+  const open = new Map<string, ChartSpan & { x0: number; x1: number }>();
+  for (const span of placed) {
+    if (span.selected) {
+      out.push(span);
+      continue;
+    }
+    const kind = `${span.color}|${span.edge ?? 'none'}`;
+    const last = open.get(kind);
+    if (last && span.x0 <= last.x1 + 1) {
+      last.x1 = Math.max(last.x1, span.x1);
+      last.to = Math.max(last.to, span.to);
+      continue;
+    }
+    const copy = { ...span };
+    open.set(kind, copy);
+    out.push(copy);
+  }
+  // Selected last, so it is drawn over the others.
+  return [...out.filter((s) => !s.selected), ...out.filter((s) => s.selected)];
 }
 
 // Stable empty defaults, so a chart without spans or lines is not rebuilt on every render.

@@ -5,6 +5,7 @@ import type { MotionBase } from '../../../../shared/schemas/motion-base';
 import type { RunSeries } from '../../../../shared/schemas/run-series';
 import { CHART_COLORS } from '../../../components/charts/palette';
 import { Button } from '../../../components/ui/button';
+import { ratioTone } from '../../../components/charts/run-badges';
 import { poseAtBucket, previewJoints, previewLegLengths } from '../utils/preview-geometry';
 import type { PreviewPose, ThreeModule } from '../utils/preview-geometry';
 
@@ -18,7 +19,8 @@ export interface ShownInstant {
 interface Scene {
   show: (
     joints: { base: Float64Array; platform: Float64Array },
-    legOk: readonly boolean[],
+    /** Each leg's stroke use: 0 at mid-stroke, 1 at a margin (the budget's measure). */
+    legUse: readonly number[],
     instant: ShownInstant,
   ) => void;
   /** Turns the view about the platform: azimuth about the vertical, then elevation (rad). */
@@ -69,14 +71,18 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
     return geometry;
   };
   const baseLoop = loop(CHART_COLORS.input);
-  const platformLoop = loop(CHART_COLORS.cued);
+  const platformLoop = loop(CHART_COLORS.axis);
   const legGeometry = new three.BufferGeometry();
   legGeometry.setAttribute('position', new three.Float32BufferAttribute(new Float32Array(6 * n), 3));
   legGeometry.setAttribute('color', new three.Float32BufferAttribute(new Float32Array(6 * n), 3));
   scene.add(new three.LineSegments(legGeometry, new three.LineBasicMaterial({ vertexColors: true })));
 
-  const okColor = new three.Color(CHART_COLORS.axis);
-  const badColor = new three.Color(CHART_COLORS.hard);
+  // Legs in the one use scale of the app: within, near (from 0.8) and over the limit.
+  const toneColor = {
+    ok: new three.Color(CHART_COLORS.cued),
+    close: new three.Color(CHART_COLORS.comfort),
+    over: new three.Color(CHART_COLORS.hard),
+  };
   const controls = new OrbitControls(camera, renderer.domElement);
   controls.target.copy(target);
   controls.update();
@@ -159,7 +165,7 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
   observer?.observe(el);
 
   return {
-    show: (joints, legOk, instant) => {
+    show: (joints, legUse, instant) => {
       const bp = baseLoop.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
       const pp = platformLoop.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
       const lp = legGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
@@ -179,7 +185,7 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
         pp.setXYZ(i, p[0], p[1], p[2]);
         lp.setXYZ(2 * i, b[0], b[1], b[2]);
         lp.setXYZ(2 * i + 1, p[0], p[1], p[2]);
-        const c = legOk[i] === false ? badColor : okColor;
+        const c = toneColor[ratioTone(legUse[i] ?? 0)];
         lc.setXYZ(2 * i, c.r, c.g, c.b);
         lc.setXYZ(2 * i + 1, c.r, c.g, c.b);
       }
@@ -197,6 +203,7 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
         cz += pp.getZ(i) / n;
       }
       shown = { instant, platformCentroid_m: [cx, cy, cz] };
+      el.dataset.legUse = Array.from(legUse, (u) => u.toFixed(3)).join(' ');
       render();
     },
     turn,
@@ -218,6 +225,11 @@ export interface ProxyVideoClip {
 }
 
 const SPEEDS = [0.25, 0.5, 1, 2] as const;
+const LEG_TONE_TEXT = {
+  ok: 'text-ink-800',
+  close: 'text-signal-600',
+  over: 'font-semibold text-stop-700',
+} as const;
 
 /**
  * The motion base at bucket `index` of the run: legs outside the stroke band are drawn red. Plays at
@@ -293,15 +305,24 @@ export function BasePreview({
   const pose = useMemo(() => poseAtBucket(series, at), [series, at]);
   const joints = useMemo(() => (three ? previewJoints(three, base, pose) : null), [three, base, pose]);
   const legs = useMemo(() => (joints ? previewLegLengths(joints) : null), [joints]);
-  const legOk = useMemo(
-    () => (legs ? Array.from(legs, (l) => l >= lowest_m && l <= highest_m) : []),
-    [legs, lowest_m, highest_m],
+  const mid_m = series.stroke.mid_m;
+  // Stroke use as the budget measures it: 0 at mid-stroke, 1 at the margin on that side.
+  const legUse = useMemo(
+    () =>
+      legs
+        ? Array.from(legs, (l) =>
+            l >= mid_m
+              ? (l - mid_m) / Math.max(highest_m - mid_m, 1e-9)
+              : (mid_m - l) / Math.max(mid_m - lowest_m, 1e-9),
+          )
+        : [],
+    [legs, lowest_m, highest_m, mid_m],
   );
 
   const shownAt_s = series.time_s[at] ?? 0;
   useEffect(() => {
-    if (joints) scene.current?.show(joints, legOk, { t_s: shownAt_s, pose });
-  }, [joints, legOk, shownAt_s, pose]);
+    if (joints) scene.current?.show(joints, legUse, { t_s: shownAt_s, pose });
+  }, [joints, legUse, shownAt_s, pose]);
 
   // Plays the run in real time from the current instant; stops at the end.
   useEffect(() => {
@@ -353,7 +374,7 @@ export function BasePreview({
           src={video.url}
           muted
           playsInline
-          preload="metadata"
+          preload="auto"
           aria-label="Proxy of the ride film, in step with the motion"
           className="w-full max-w-xl rounded border border-ink-100 bg-ink-900"
         />
@@ -402,8 +423,9 @@ export function BasePreview({
           aria-label="Leg lengths at this instant"
         >
           {Array.from(legs, (l, i) => (
-            <li key={i} className={legOk[i] ? 'text-ink-800' : 'font-semibold text-stop-700'}>
-              leg{i + 1} {l.toFixed(3)} m
+            <li key={i} className={LEG_TONE_TEXT[ratioTone(legUse[i] ?? 0)]}>
+              leg{i + 1} {l.toFixed(3)} m{' '}
+              <span className="text-ink-600">use {(legUse[i] ?? 0).toFixed(2)}</span>
             </li>
           ))}
           <li className="text-ink-400">
@@ -412,8 +434,9 @@ export function BasePreview({
         </ul>
       ) : null}
       <p className="text-xs text-ink-400">
-        Pose from the middle of each chart bucket; drag, or use the arrow keys on the view, to turn it. Hover
-        a chart to move the time.
+        Legs coloured by stroke use: teal within, amber from 0.8, red at or past a margin. Pose from the
+        middle of each chart bucket; drag, or use the arrow keys on the view, to turn it. Hover a chart to
+        move the time.
       </p>
     </div>
   );
