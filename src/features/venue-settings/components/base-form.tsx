@@ -82,7 +82,8 @@ function NumberField({
 
 function Group({ title, children, note }: { title: string; children: ReactNode; note?: ReactNode }) {
   return (
-    <fieldset className="flex flex-col gap-2 rounded border border-ink-100 p-3">
+    // min-w-0: a fieldset is as wide as its content by default and would spill into the view beside it.
+    <fieldset className="flex min-w-0 flex-col gap-2 rounded border border-ink-100 p-3">
       <legend className="px-1 text-xs font-semibold text-ink-800">{title}</legend>
       {note ? <p className="text-xs text-ink-400">{note}</p> : null}
       <div className="flex flex-wrap gap-x-4 gap-y-2">{children}</div>
@@ -113,7 +114,7 @@ function PointTable({
   const axes = ['x', 'y', 'z'].slice(0, dim);
   const whole = issues.get(path) ?? [];
   return (
-    <div className="flex flex-col gap-1">
+    <div className="flex max-w-full flex-col gap-1 overflow-x-auto">
       <table className="border-collapse text-sm" aria-label={caption}>
         <caption className="pb-1 text-left text-xs font-medium text-ink-600">{caption}</caption>
         <thead>
@@ -530,7 +531,7 @@ export function BaseForm({
           </Group>
 
           <Group title="Seats (rider reference points, platform frame)">
-            <div className="flex flex-col gap-1">
+            <div className="flex w-full min-w-0 flex-col gap-1">
               <PointTable
                 caption="Seat positions"
                 rowLabel="Seat"
