@@ -13,6 +13,8 @@ export const CHART_COLORS = {
   hard: colors.stop[500],
   comfort: colors.signal[400],
   stroke: colors.stop[700],
+  // Seats (rider reference points) in the 3-D views.
+  seat: '#7446b8',
   // Six lines told apart by hue and lightness (legs, pose axes). No red and no amber: those mean a
   // hard-limit and a comfort finding on every chart.
   series: [colors.tealdeep[500], '#2f5fb3', colors.signal[600], '#7446b8', colors.ink[800], '#5e7d1a'],

@@ -18,7 +18,7 @@ export interface ShownInstant {
 
 interface Scene {
   show: (
-    joints: { base: Float64Array; platform: Float64Array },
+    joints: { base: Float64Array; platform: Float64Array; seats: Float64Array },
     /** Each leg's stroke use: 0 at mid-stroke, 1 at a margin (the budget's measure). */
     legUse: readonly number[],
     instant: ShownInstant,
@@ -38,7 +38,13 @@ function webglAvailable(): boolean {
 }
 
 async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase): Promise<Scene> {
-  const { OrbitControls } = await import('three/examples/jsm/controls/OrbitControls.js');
+  const [{ OrbitControls }, { LineSegments2 }, { LineSegmentsGeometry }, { LineMaterial }] =
+    await Promise.all([
+      import('three/examples/jsm/controls/OrbitControls.js'),
+      import('three/examples/jsm/lines/LineSegments2.js'),
+      import('three/examples/jsm/lines/LineSegmentsGeometry.js'),
+      import('three/examples/jsm/lines/LineMaterial.js'),
+    ]);
   const width_px = Math.max(el.clientWidth, 240);
   const height_px = 320;
   const renderer = new three.WebGLRenderer({ antialias: true });
@@ -75,7 +81,20 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
   const legGeometry = new three.BufferGeometry();
   legGeometry.setAttribute('position', new three.Float32BufferAttribute(new Float32Array(6 * n), 3));
   legGeometry.setAttribute('color', new three.Float32BufferAttribute(new Float32Array(6 * n), 3));
-  scene.add(new three.LineSegments(legGeometry, new three.LineBasicMaterial({ vertexColors: true })));
+  // The legs drawn 3 px wide (WebGL's own lines are 1 px), so their stroke-use colour reads.
+  const wideLegs = new LineSegmentsGeometry();
+  const legMaterial = new LineMaterial({ vertexColors: true, linewidth: 3 });
+  scene.add(new LineSegments2(wideLegs, legMaterial));
+  // The seats (rider reference points) as dots riding on the platform.
+  const seatCount = base.seats_m.length;
+  const seatGeometry = new three.BufferGeometry();
+  seatGeometry.setAttribute('position', new three.Float32BufferAttribute(new Float32Array(3 * seatCount), 3));
+  scene.add(
+    new three.Points(
+      seatGeometry,
+      new three.PointsMaterial({ color: CHART_COLORS.seat, size: 7, sizeAttenuation: false }),
+    ),
+  );
 
   // Legs in the one use scale of the app: within, near (from 0.8) and over the limit.
   const toneColor = {
@@ -189,10 +208,16 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
         lc.setXYZ(2 * i, c.r, c.g, c.b);
         lc.setXYZ(2 * i + 1, c.r, c.g, c.b);
       }
+      const sp = seatGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
+      for (let k = 0; k < seatCount; k++)
+        sp.setXYZ(k, joints.seats[3 * k] ?? 0, joints.seats[3 * k + 1] ?? 0, joints.seats[3 * k + 2] ?? 0);
+      sp.needsUpdate = true;
       bp.needsUpdate = true;
       pp.needsUpdate = true;
       lp.needsUpdate = true;
       lc.needsUpdate = true;
+      wideLegs.setPositions(lp.array as Float32Array);
+      wideLegs.setColors(lc.array as Float32Array);
       // The centroid of the platform joints as they now stand in the scene's buffer.
       let cx = 0;
       let cy = 0;
@@ -211,6 +236,8 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
       canvas.removeEventListener('keydown', onKey);
       observer?.disconnect();
       controls.dispose();
+      wideLegs.dispose();
+      legMaterial.dispose();
       renderer.dispose();
       renderer.domElement.remove();
     },
@@ -434,9 +461,9 @@ export function BasePreview({
         </ul>
       ) : null}
       <p className="text-xs text-ink-400">
-        Legs coloured by stroke use: teal within, amber from 0.8, red at or past a margin. Pose from the
-        middle of each chart bucket; drag, or use the arrow keys on the view, to turn it. Hover a chart to
-        move the time.
+        Base grey, platform dark, seats as violet dots; legs coloured by stroke use: teal within, amber from
+        0.8, red at or past a margin. Pose from the middle of each chart bucket; drag, or use the arrow keys
+        on the view, to turn it. Hover a chart to move the time.
       </p>
     </div>
   );
