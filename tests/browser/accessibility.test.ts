@@ -268,6 +268,12 @@ describe('accessibility', () => {
         await page.locator('details', { hasText: 'Spectra' }).locator('summary').first().click();
         await page.locator('details[open] .uplot').first().waitFor({ timeout: 15_000 });
       });
+      // The spectra, unfolded, are tall enough to read.
+      const spectraHeight = await page
+        .locator('details[open] .uplot')
+        .first()
+        .evaluate((el) => el.getBoundingClientRect().height);
+      expect(spectraHeight).toBeGreaterThanOrEqual(200);
       // Two runs of one take (the comparison's purpose), at the dome where the demo has them.
       const byTake = new Map<string, string[]>();
       for (const r of detail.runs) byTake.set(r.takeId, [...(byTake.get(r.takeId) ?? []), r.id]);

@@ -196,7 +196,17 @@ function chartOptions(
       {
         label: props.yLabel,
         stroke: CHART_COLORS.axis,
-        grid: { stroke: CHART_COLORS.grid, width: 1 },
+        // On a log axis only the decades get a grid line; a line at every minor tick stripes the plot.
+        grid: {
+          stroke: CHART_COLORS.grid,
+          width: 1,
+          ...(props.yLog
+            ? {
+                filter: (_u: uPlot, splits: (number | null)[]) =>
+                  splits.map((v) => (v !== null && isDecade(v) ? v : null)),
+              }
+            : {}),
+        },
         size: 56,
         // Short charts still get three or more labelled ticks.
         space: 20,
@@ -306,6 +316,13 @@ function chartOptions(
       ],
     },
   };
+}
+
+/** True for 10^k (k whole), to a rounding error. */
+function isDecade(v: number): boolean {
+  if (!(v > 0)) return false;
+  const k = Math.log10(v);
+  return Math.abs(k - Math.round(k)) < 1e-6;
 }
 
 /**
