@@ -30,6 +30,11 @@ interface BaseSummary {
   seats_m?: unknown[];
 }
 
+/** A profile version in words for the audit log: "Name v3", or null for none. */
+function versionLabel(v: { name: string; version: number } | null): string | null {
+  return v ? `${v.name} v${v.version}` : null;
+}
+
 /** The studio's venues: the list, a new venue, one venue's motion base and the profile versions its runs use. */
 export function venuesRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
@@ -150,6 +155,7 @@ export function venuesRouter(deps: AppDeps): Router {
     const base = validBase(body.base);
     res.json(
       await changeVenue(req, before.id, { base }, 'venue.base_changed', {
+        venueName: before.name,
         kind: base.kind,
         from: before.base,
         to: base,
@@ -164,6 +170,7 @@ export function venuesRouter(deps: AppDeps): Router {
     const controller = parseBody(venueControllerBody, req.body, 'The controller settings');
     res.json(
       await changeVenue(req, before.id, { controller }, 'venue.controller_changed', {
+        venueName: before.name,
         from: before.controller,
         to: controller,
       }),
@@ -218,13 +225,25 @@ export function venuesRouter(deps: AppDeps): Router {
         action: 'venue.profiles_changed',
         subjectType: 'venue',
         subjectId: before.id,
-        // What changed (a version id, or null for none), what it was before, and the person's reason.
+        // What changed (a version id, or null for none), what it was before, and the person's reason;
+        // the venue's and versions' names as they were, so the log reads in words after renames.
         detail: {
+          venueName: before.name,
           ...(body.cueingVersionId !== undefined
-            ? { cueingVersionId: body.cueingVersionId, cueingVersionBefore: before.cueingVersion?.id ?? null }
+            ? {
+                cueingVersionId: body.cueingVersionId,
+                cueingVersionBefore: before.cueingVersion?.id ?? null,
+                cueingLabel: versionLabel(await versionRef(deps.db, m.studioId, body.cueingVersionId)),
+                cueingLabelBefore: versionLabel(before.cueingVersion),
+              }
             : {}),
           ...(body.budgetVersionId !== undefined
-            ? { budgetVersionId: body.budgetVersionId, budgetVersionBefore: before.budgetVersion?.id ?? null }
+            ? {
+                budgetVersionId: body.budgetVersionId,
+                budgetVersionBefore: before.budgetVersion?.id ?? null,
+                budgetLabel: versionLabel(await versionRef(deps.db, m.studioId, body.budgetVersionId)),
+                budgetLabelBefore: versionLabel(before.budgetVersion),
+              }
             : {}),
           reason: body.reason,
         },

@@ -187,6 +187,27 @@ export function auditLinkOf(e: RawEvent): AuditLink | null {
   }
 }
 
+/**
+ * A change of the profile versions a venue uses, in words: which kind, from what to what (names as
+ * they were at the time; older events without names give the version's short id), and the reason.
+ */
+function venueProfileWords(who: string, e: RawEvent): string {
+  const d = e.detail;
+  const venue = str(d.venueName) ?? `venue ${short(e.subjectId)}`;
+  const named = (label: unknown, id: unknown) =>
+    str(label) ?? (str(id) ? `version ${short(str(id))}` : 'none');
+  const parts: string[] = [];
+  for (const kind of ['cueing', 'budget'] as const) {
+    if (!(`${kind}VersionId` in d)) continue;
+    parts.push(
+      `the ${kind} profile from ${named(d[`${kind}LabelBefore`], d[`${kind}VersionBefore`])} to ${named(d[`${kind}Label`], d[`${kind}VersionId`])}`,
+    );
+  }
+  const what = parts.length > 0 ? parts.join(' and ') : 'the profiles';
+  const reason = str(d.reason) ? `. Reason: ${str(d.reason)}` : '';
+  return `${who} changed ${what} at ${venue}${reason}`;
+}
+
 /** An event in plain words (who did what to which thing), for the audit page and the CSV. */
 export function auditWords(e: RawEvent): string {
   const who = e.actorEmail ?? 'Legwork';
@@ -243,6 +264,24 @@ export function auditWords(e: RawEvent): string {
       return `${who} revoked the invitation of ${str(d.email) ?? '?'}`;
     case 'invitation.accepted':
       return `${who} accepted an invitation and joined the studio`;
+    case 'venue.created':
+      return `${who} added the venue ${str(d.name) ?? short(e.subjectId)}${str(d.kind) ? ` (${str(d.kind)})` : ''}`;
+    case 'venue.base_changed':
+      return `${who} changed the motion base of ${str(d.venueName) ?? `venue ${short(e.subjectId)}`}`;
+    case 'venue.controller_changed':
+      return `${who} changed the controller settings of ${str(d.venueName) ?? `venue ${short(e.subjectId)}`}`;
+    case 'venue.profiles_changed':
+      return venueProfileWords(who, e);
+    case 'profile.version_created':
+      return `${who} saved ${str(d.name) ?? 'a profile'} v${String(d.version ?? '?')}${str(d.kind) ? ` (${str(d.kind)} profile)` : ''}`;
+    case 'take.proxy_video_set':
+      return `${who} ${str(d.replaced) ? 'replaced' : 'added'} the proxy video of take ${short(e.subjectId)}`;
+    case 'take.proxy_video_removed':
+      return `${who} removed the proxy video of take ${short(e.subjectId)}`;
+    case 'token.created':
+      return `${who} created the API token ${str(d.name) ?? '?'}`;
+    case 'token.revoked':
+      return `${who} revoked the API token ${str(d.name) ?? '?'}`;
     case 'auth.signed_in':
       return `${who} signed in`;
     case 'auth.signed_out':

@@ -2,13 +2,14 @@
 // rules for WCAG 2.1 A and AA): no serious or critical violation on any of them. Also the keyboard
 // path every screen shares: a skip link first in the tab order, and after a navigation the focus on
 // the new page's heading.
-import { readFileSync } from 'node:fs';
+import { mkdirSync, readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
+import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
 import { DEMO_PASSWORD, DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
 import { trackDetailSchema, trackPageSchema } from '../../shared/schemas/pipeline';
+import { appPaths } from '../../shared/app-paths';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
@@ -163,4 +164,138 @@ describe('accessibility', () => {
       await context.close();
     }
   });
+
+  it('every screen, for the role that works it, has no serious or critical violation; each is kept as a screenshot', async () => {
+    if (!browser || !baseUrl) throw new Error('The browser did not start; see the error of beforeAll.');
+    const dir = `${screenshotDir}/screens`;
+    mkdirSync(dir, { recursive: true });
+    const found: string[] = [];
+    const url = (path: string) => new URL(path, baseUrl).href;
+    /** One screen: open it (a path or steps), let it settle, scan it, keep a full-page screenshot. */
+    const check = async (page: Page, name: string, open: string | (() => Promise<void>)) => {
+      if (typeof open === 'string') await page.goto(url(open));
+      else await open();
+      await page.getByRole('heading', { level: 1 }).first().waitFor({ timeout: 15_000 });
+      await settle(page);
+      found.push(...(await seriousViolations(page)).map((v) => `${name}: ${v}`));
+      await page.screenshot({ path: `${dir}/${name}.png`, fullPage: true });
+    };
+    const as = async (role: string, walk: (page: Page, studioId: string) => Promise<void>) => {
+      const user = DEMO_USERS.find((u) => (u.roles as readonly string[]).includes(role))!;
+      const context = await browser!.newContext({ viewport: { width: 1280, height: 800 } });
+      const page = await context.newPage();
+      try {
+        await signIn(page, user.email);
+        const [, studioId] = /\/s\/([^/?#]+)/.exec(page.url()) ?? [];
+        await walk(page, studioId!);
+      } finally {
+        await context.close();
+      }
+    };
+
+    // Before signing in.
+    {
+      const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+      const page = await context.newPage();
+      try {
+        await check(page, 'sign-in', '/sign-in');
+        await check(page, 'forgot-password', '/forgot-password');
+        await check(page, 'reset-password-no-token', '/reset-password');
+        await check(page, 'invitation-unknown', '/invitations/not-a-real-invitation');
+      } finally {
+        await context.close();
+      }
+    }
+
+    await as('studio_admin', async (page, studioId) => {
+      await check(page, 'admin-home', `/s/${studioId}`);
+      await check(page, 'venues', `/s/${studioId}/venues`);
+      await check(page, 'members', `/s/${studioId}/members`);
+      await check(page, 'audit', `/s/${studioId}/audit`);
+      await check(page, 'tokens', `/s/${studioId}/tokens`);
+      await check(page, 'releases', `/s/${studioId}/releases`);
+      await check(page, 'release', async () => {
+        await page
+          .getByRole('table')
+          .first()
+          .getByRole('link', { name: /, take \d+$/ })
+          .first()
+          .click();
+      });
+      await check(page, 'account', '/account');
+      await check(page, 'mailbox', '/mailbox');
+      await check(page, 'not-found', `/s/${studioId}/no-such-page`);
+    });
+
+    await as('producer', async (page, studioId) => {
+      await check(page, 'producer-home', `/s/${studioId}`);
+      await check(page, 'tracks', `/s/${studioId}/tracks`);
+    });
+
+    await as('motion_engineer', async (page, studioId) => {
+      await check(page, 'engineer-home', `/s/${studioId}`);
+      await check(page, 'venue-base-editor', async () => {
+        await page.goto(url(`/s/${studioId}/venues`));
+        await page.getByRole('link', { name: 'Harbour Lights Dome' }).click();
+        await page.getByRole('form', { name: 'Motion base of Harbour Lights Dome' }).waitFor();
+      });
+      await check(page, 'profiles', `/s/${studioId}/profiles`);
+      await check(page, 'cueing-profile-editor', async () => {
+        await page
+          .getByRole('button', { name: /^New version of / })
+          .first()
+          .click();
+        await page.getByRole('heading', { level: 1 }).first().waitFor();
+      });
+    });
+
+    await as('safety_reviewer', async (page, studioId) => {
+      await check(page, 'reviewer-home', `/s/${studioId}`);
+      const api = (path: string) => url(`/api/studios/${studioId}${path}`);
+      const tracks = trackPageSchema.parse(await (await page.request.get(api('/tracks'))).json());
+      const demo = tracks.items.find((t) => t.title === DEMO_TRACK.title)!;
+      const detail = trackDetailSchema.parse(
+        await (await page.request.get(api(`/tracks/${demo.id}`))).json(),
+      );
+      await check(page, 'track', appPaths.track(studioId, demo.id));
+      const dome = detail.runs.filter((r) => r.venueName === 'Harbour Lights Dome');
+      const run = detail.runs.find((r) => (r.findingCount ?? 0) > 0) ?? detail.runs[0]!;
+      await check(page, 'run', async () => {
+        await page.goto(url(appPaths.run(studioId, run.id)));
+        await page.getByTestId('base-view').locator('canvas').waitFor({ timeout: 20_000 });
+      });
+      await check(page, 'run-spectra-open', async () => {
+        await page.locator('details', { hasText: 'Spectra' }).locator('summary').first().click();
+        await page.locator('details[open] .uplot').first().waitFor({ timeout: 15_000 });
+      });
+      // The spectra, unfolded, are tall enough to read.
+      const spectraHeight = await page
+        .locator('details[open] .uplot')
+        .first()
+        .evaluate((el) => el.getBoundingClientRect().height);
+      expect(spectraHeight).toBeGreaterThanOrEqual(200);
+      // Two runs of one take (the comparison's purpose), at the dome where the demo has them.
+      const byTake = new Map<string, string[]>();
+      for (const r of detail.runs) byTake.set(r.takeId, [...(byTake.get(r.takeId) ?? []), r.id]);
+      const pair =
+        [...byTake.values()].find((ids) => ids.length >= 2)?.slice(0, 2) ?? dome.slice(0, 2).map((r) => r.id);
+      await check(page, 'compare', async () => {
+        await page.goto(url(appPaths.compareRuns(studioId, demo.id, pair)));
+        await page.getByTestId('compare-charts').locator('canvas').first().waitFor({ timeout: 15_000 });
+      });
+      await check(page, 'budget-editor', async () => {
+        await page.goto(url(`/s/${studioId}/profiles`));
+        await page.getByRole('button', { name: 'New version of DEMO budget (invented values)' }).click();
+        await page.getByTestId('budget-editor').locator('.uplot').first().waitFor({ timeout: 15_000 });
+      });
+      await check(page, 'reviewer-audit', `/s/${studioId}/audit`);
+    });
+
+    await as('venue_operator', async (page, studioId) => {
+      await check(page, 'operator-home', `/s/${studioId}`);
+      await check(page, 'operator-releases', `/s/${studioId}/releases`);
+    });
+
+    expect(found).toEqual([]);
+  }, 240_000);
 });

@@ -117,11 +117,19 @@ describe('editors', () => {
       await confirm.waitFor({ state: 'detached' });
 
       // A higher neutral height leaves less stroke for heave up: 0.383 m.
+      const view = form.getByTestId('base-static-view');
+      const canvasBox = form.getByTestId('base-static-canvas');
+      const centroidZ = async () =>
+        Number(((await canvasBox.getAttribute('data-platform-centroid-mm')) ?? '').split(' ')[2]);
       await form.getByLabel('Neutral height (m)').fill('1.7');
       await expect
         .poll(() => heaveRow.locator('td').nth(2).textContent(), { timeout: 10_000 })
         .toContain(`${heaveUp(1.7).toFixed(3)} m`);
       expect(heaveUp(1.7).toFixed(3)).toBe('0.383');
+      // The view draws the platform at the new height: its joints (centred on the platform origin
+      // in the demo layout) sit at z = h0 at neutral.
+      await expect.poll(centroidZ, { timeout: 10_000 }).toBeCloseTo(1700, 3);
+      const framesBefore = Number(await canvasBox.getAttribute('data-frames'));
 
       // A half angle of 75 deg is outside the schema's (0, 60): its message stands under the field.
       const bad = { ...demoHexapodInput, neutralHeight_m: 1.7, baseHalfAngle_deg: 75 };
@@ -141,7 +149,17 @@ describe('editors', () => {
       await expect
         .poll(() => form.getByTestId('base-workspace').textContent())
         .toContain('Shown once the base has no problems.');
+      // The 3-D view keeps the last base without problems (drawn, marked as such), not a blank box.
+      await expect.poll(() => view.getAttribute('data-shows')).toBe('last-valid');
+      expect(await canvasBox.locator('canvas').count()).toBe(1);
+      expect(await centroidZ()).toBeCloseTo(1700, 3);
+      expect(Number(await canvasBox.getAttribute('data-frames'))).toBeGreaterThanOrEqual(framesBefore);
+      await expect(view.textContent()).resolves.toContain('The last base without problems');
       await page.screenshot({ path: `${screenshotDir}/editor-base-problem.png`, fullPage: true });
+      // Fixed again, the view follows the form once more.
+      await angle.fill('12');
+      await expect.poll(() => view.getAttribute('data-shows'), { timeout: 10_000 }).toBe('current');
+      await expect.poll(() => angle.getAttribute('aria-invalid')).toBeNull();
       expect(errors).toEqual([]);
     } finally {
       await close();

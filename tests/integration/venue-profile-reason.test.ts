@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, desc, eq } from 'drizzle-orm';
 import { Client, startTestApp } from './support/app';
 import type { TestApp } from './support/app';
-import { auditEvents, venueSettings } from '../../server/db/schema';
+import { auditEvents, profileVersions, profiles, venueSettings } from '../../server/db/schema';
 import { auditPageSchema } from '../../shared/schemas/audit';
 import { VENUE_CHANGE_REASON_MESSAGE, venueDetailSchema } from '../../shared/schemas/pipeline';
 
@@ -46,9 +46,19 @@ describe('the reason for changing what a venue uses', () => {
 
     const [event] = await changes();
     expect(event?.actorEmail).toBe('rosa.reviewer@lanternfish.example');
+    const venueName = venueDetailSchema.parse(r.body).name;
+    const [budgetBefore] = await t.tdb.db
+      .select({ name: profiles.name, version: profileVersions.version })
+      .from(profileVersions)
+      .innerJoin(profiles, eq(profiles.id, profileVersions.profileId))
+      .where(eq(profileVersions.id, before!.budgetVersionId!));
+    const labelBefore = `${budgetBefore!.name} v${budgetBefore!.version}`;
     expect(event?.detail).toEqual({
+      venueName,
       budgetVersionId: null,
       budgetVersionBefore: before!.budgetVersionId,
+      budgetLabel: null,
+      budgetLabelBefore: labelBefore,
       reason,
     });
 
@@ -58,6 +68,10 @@ describe('the reason for changing what a venue uses', () => {
     );
     const shown = page.events.find((e) => e.id === event!.id);
     expect(shown?.detail.reason).toBe(reason);
+    // ... and says it in words: what changed, from what to what, where, and why.
+    expect(shown?.words).toBe(
+      `rosa.reviewer@lanternfish.example changed the budget profile from ${labelBefore} to none at ${venueName}. Reason: ${reason}`,
+    );
   });
 
   it('is required: without one the change is a 400 naming the field, and nothing changes', async () => {

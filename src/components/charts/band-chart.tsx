@@ -160,6 +160,8 @@ function chartOptions(
       ...(props.syncKey ? { sync: { key: props.syncKey } } : {}),
       // Dragging across the plot selects a window that every chart then shows (no zoom of one chart alone).
       drag: { x: zoom !== null, y: false, setScale: false },
+      // No hover dots on the min/max lines: the legend reads every band at the cursor instead.
+      points: { show: false },
     },
     scales: {
       x: { time: false },
@@ -194,7 +196,17 @@ function chartOptions(
       {
         label: props.yLabel,
         stroke: CHART_COLORS.axis,
-        grid: { stroke: CHART_COLORS.grid, width: 1 },
+        // On a log axis only the decades get a grid line; a line at every minor tick stripes the plot.
+        grid: {
+          stroke: CHART_COLORS.grid,
+          width: 1,
+          ...(props.yLog
+            ? {
+                filter: (_u: uPlot, splits: (number | null)[]) =>
+                  splits.map((v) => (v !== null && isDecade(v) ? v : null)),
+              }
+            : {}),
+        },
         size: 56,
         // Short charts still get three or more labelled ticks.
         space: 20,
@@ -249,10 +261,8 @@ function chartOptions(
           ctx.beginPath();
           ctx.rect(left, top, width, height);
           ctx.clip();
-          for (const span of spans) {
-            const x0 = u.valToPos(span.from, 'x', true);
-            // A finding at one instant still gets a visible sliver.
-            const x1 = Math.max(u.valToPos(span.to, 'x', true), x0 + 3 * devicePixelRatio);
+          for (const span of mergeSpans(spans, (v) => u.valToPos(v, 'x', true), 3 * devicePixelRatio)) {
+            const { x0, x1 } = span;
             const alpha = span.selected ? 0.24 : anySelected ? 0.14 : 0.28;
             ctx.fillStyle = withAlpha(span.color, alpha);
             ctx.fillRect(x0, top, x1 - x0, height);
@@ -286,6 +296,11 @@ function chartOptions(
             ctx.stroke();
           }
           const marker = props.marker();
+          // The instant marked, on the chart's element as it is drawn (the 3-D view's time, for tests).
+          const holder = u.root.parentElement;
+          if (marker !== null && marker !== undefined && Number.isFinite(marker))
+            holder?.setAttribute('data-marker-s', String(marker));
+          else holder?.removeAttribute('data-marker-s');
           if (marker !== null && marker !== undefined && Number.isFinite(marker)) {
             const x = Math.round(u.valToPos(marker, 'x', true));
             ctx.setLineDash([]);
@@ -301,6 +316,52 @@ function chartOptions(
       ],
     },
   };
+}
+
+/** True for 10^k (k whole), to a rounding error. */
+function isDecade(v: number): boolean {
+  if (!(v > 0)) return false;
+  const k = Math.log10(v);
+  return Math.abs(k - Math.round(k)) < 1e-6;
+}
+
+/**
+ * The spans as drawn, in canvas pixels: a finding at one instant still gets a sliver `minWidth_px`
+ * wide, and spans of one kind (colour and edge, none selected) that overlap or touch on screen are
+ * drawn as one, so a run of short findings reads as one clear band with one pair of edges instead of
+ * stacked fills and a comb of edges. The selected span is always drawn on its own.
+ */
+export function mergeSpans(
+  spans: readonly ChartSpan[],
+  toPx: (v: number) => number,
+  minWidth_px: number,
+): (ChartSpan & { x0: number; x1: number })[] {
+  const placed = spans
+    .map((span) => {
+      const x0 = toPx(span.from);
+      return { ...span, x0, x1: Math.max(toPx(span.to), x0 + minWidth_px) };
+    })
+    .sort((a, b) => a.x0 - b.x0);
+  const out: (ChartSpan & { x0: number; x1: number })[] = [];
+  const open = new Map<string, ChartSpan & { x0: number; x1: number }>();
+  for (const span of placed) {
+    if (span.selected) {
+      out.push(span);
+      continue;
+    }
+    const kind = `${span.color}|${span.edge ?? 'none'}`;
+    const last = open.get(kind);
+    if (last && span.x0 <= last.x1 + 1) {
+      last.x1 = Math.max(last.x1, span.x1);
+      last.to = Math.max(last.to, span.to);
+      continue;
+    }
+    const copy = { ...span };
+    open.set(kind, copy);
+    out.push(copy);
+  }
+  // Selected last, so it is drawn over the others.
+  return [...out.filter((s) => !s.selected), ...out.filter((s) => s.selected)];
 }
 
 // Stable empty defaults, so a chart without spans or lines is not rebuilt on every render.

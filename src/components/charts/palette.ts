@@ -7,19 +7,17 @@ const colors = tailwindConfig.theme.extend.colors;
 export const CHART_COLORS = {
   axis: colors.ink[600],
   grid: colors.ink[100],
-  input: colors.ink[400],
+  // The vehicle's input in a light slate behind the cue, so the two never read as one line.
+  input: '#8796a8',
   cued: colors.tealdeep[500],
   hard: colors.stop[500],
   comfort: colors.signal[400],
   stroke: colors.stop[700],
-  series: [
-    colors.tealdeep[500],
-    colors.signal[600],
-    colors.ink[800],
-    colors.stop[500],
-    colors.ink[400],
-    colors.tealdeep[700],
-  ],
+  // Seats (rider reference points) in the 3-D views.
+  seat: '#7446b8',
+  // Six lines told apart by hue and lightness (legs, pose axes). No red and no amber: those mean a
+  // hard-limit and a comfort finding on every chart.
+  series: [colors.tealdeep[500], '#2f5fb3', colors.signal[600], '#7446b8', colors.ink[800], '#5e7d1a'],
 } as const;
 
 /** `#rrggbb` with an alpha from 0 to 1, as `rgba(...)`. */

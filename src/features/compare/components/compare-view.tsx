@@ -102,7 +102,7 @@ function CompareCharts({ runs, series }: { runs: readonly RunDetail[]; series: r
             Seat 1 is each venue’s own first seat; the seats sit at different places on different bases.
           </p>
         ) : null}
-        <div className="grid grid-cols-1 gap-4 lg:grid-cols-3">
+        <div className="grid grid-cols-1 gap-4 md:grid-cols-2 2xl:grid-cols-3">
           {force.map((f) => chart(FORCE_TITLES[f.axis], 'm/s²', f.runs))}
         </div>
       </div>
@@ -114,14 +114,14 @@ function CompareCharts({ runs, series }: { runs: readonly RunDetail[]; series: r
             .
           </p>
         ) : null}
-        <div className="grid grid-cols-1 gap-4 lg:grid-cols-3">
+        <div className="grid grid-cols-1 gap-4 md:grid-cols-2 2xl:grid-cols-3">
           {poseCharts.map((p) => chart(POSE_TITLES[p.key] ?? p.key, p.unit, p.runs, p.scale))}
         </div>
       </div>
       <div className="flex flex-col gap-2">
         <h3 className="text-sm font-medium text-ink-800">Leg lengths</h3>
         {legs.ok ? (
-          <div className="grid grid-cols-1 gap-4 lg:grid-cols-3">
+          <div className="grid grid-cols-1 gap-4 md:grid-cols-2 2xl:grid-cols-3">
             {legCharts.map((l) => chart(`Leg ${l.i + 1} length`, 'mm', l.runs, M_TO_MM))}
           </div>
         ) : (

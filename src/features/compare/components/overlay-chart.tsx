@@ -56,7 +56,7 @@ export const OverlayChart = memo(function OverlayChart({
   unit,
   runs,
   scale = 1,
-  height_px = 170,
+  height_px = 240,
   syncKey,
   cursor_s,
   onCursor,
@@ -96,7 +96,8 @@ export const OverlayChart = memo(function OverlayChart({
         width: Math.max(el.clientWidth, 240),
         height: height_px,
         legend: { show: false },
-        cursor: { sync: { key: syncKey } },
+        // No hover dots on the lines: the legend under the chart reads each run at the cursor.
+        cursor: { sync: { key: syncKey }, points: { show: false } },
         scales: {
           x: { time: false },
           y: {

@@ -415,7 +415,7 @@ export function CueingProfileEditor({
             ))}
           </ul>
         ) : null}
-        <div className="grid gap-3 lg:grid-cols-2">
+        <div className="grid gap-3 2xl:grid-cols-2">
           {CUEING_FIELD_GROUPS.map((g) => (
             <GroupFields
               key={g.title}

@@ -5,11 +5,24 @@ import type { MotionBase } from '../../../../shared/schemas/motion-base';
 import type { RunSeries } from '../../../../shared/schemas/run-series';
 import { CHART_COLORS } from '../../../components/charts/palette';
 import { Button } from '../../../components/ui/button';
+import { ratioTone } from '../../../components/charts/run-badges';
 import { poseAtBucket, previewJoints, previewLegLengths } from '../utils/preview-geometry';
-import type { ThreeModule } from '../utils/preview-geometry';
+import type { PreviewPose, ThreeModule } from '../utils/preview-geometry';
+
+/** What a frame shows, stamped on the view's element as it is drawn (for readers of the markup and tests). */
+export interface ShownInstant {
+  /** Motion time (s) of the bucket drawn. */
+  t_s: number;
+  pose: PreviewPose;
+}
 
 interface Scene {
-  show: (joints: { base: Float64Array; platform: Float64Array }, legOk: readonly boolean[]) => void;
+  show: (
+    joints: { base: Float64Array; platform: Float64Array; seats: Float64Array },
+    /** Each leg's stroke use: 0 at mid-stroke, 1 at a margin (the budget's measure). */
+    legUse: readonly number[],
+    instant: ShownInstant,
+  ) => void;
   /** Turns the view about the platform: azimuth about the vertical, then elevation (rad). */
   turn: (azimuth_rad: number, elevation_rad: number) => void;
   dispose: () => void;
@@ -25,7 +38,13 @@ function webglAvailable(): boolean {
 }
 
 async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase): Promise<Scene> {
-  const { OrbitControls } = await import('three/examples/jsm/controls/OrbitControls.js');
+  const [{ OrbitControls }, { LineSegments2 }, { LineSegmentsGeometry }, { LineMaterial }] =
+    await Promise.all([
+      import('three/examples/jsm/controls/OrbitControls.js'),
+      import('three/examples/jsm/lines/LineSegments2.js'),
+      import('three/examples/jsm/lines/LineSegmentsGeometry.js'),
+      import('three/examples/jsm/lines/LineMaterial.js'),
+    ]);
   const width_px = Math.max(el.clientWidth, 240);
   const height_px = 320;
   const renderer = new three.WebGLRenderer({ antialias: true });
@@ -58,20 +77,63 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
     return geometry;
   };
   const baseLoop = loop(CHART_COLORS.input);
-  const platformLoop = loop(CHART_COLORS.cued);
+  const platformLoop = loop(CHART_COLORS.axis);
   const legGeometry = new three.BufferGeometry();
   legGeometry.setAttribute('position', new three.Float32BufferAttribute(new Float32Array(6 * n), 3));
   legGeometry.setAttribute('color', new three.Float32BufferAttribute(new Float32Array(6 * n), 3));
-  scene.add(new three.LineSegments(legGeometry, new three.LineBasicMaterial({ vertexColors: true })));
+  // The legs drawn 3 px wide (WebGL's own lines are 1 px), so their stroke-use colour reads.
+  const wideLegs = new LineSegmentsGeometry();
+  const legMaterial = new LineMaterial({ vertexColors: true, linewidth: 3 });
+  scene.add(new LineSegments2(wideLegs, legMaterial));
+  // The seats (rider reference points) as dots riding on the platform.
+  const seatCount = base.seats_m.length;
+  const seatGeometry = new three.BufferGeometry();
+  seatGeometry.setAttribute('position', new three.Float32BufferAttribute(new Float32Array(3 * seatCount), 3));
+  scene.add(
+    new three.Points(
+      seatGeometry,
+      new three.PointsMaterial({ color: CHART_COLORS.seat, size: 7, sizeAttenuation: false }),
+    ),
+  );
 
-  const okColor = new three.Color(CHART_COLORS.axis);
-  const badColor = new three.Color(CHART_COLORS.hard);
+  // Legs in the one use scale of the app: within, near (from 0.8) and over the limit.
+  const toneColor = {
+    ok: new three.Color(CHART_COLORS.cued),
+    close: new three.Color(CHART_COLORS.comfort),
+    over: new three.Color(CHART_COLORS.hard),
+  };
   const controls = new OrbitControls(camera, renderer.domElement);
   controls.target.copy(target);
   controls.update();
-  const render = () => renderer.render(scene, camera);
-  controls.addEventListener('change', render);
   const up = new three.Vector3(0, 0, 1);
+  // Every frame drawn writes what it shows onto the holder: the instant and pose, the platform's
+  // centroid as placed in the scene, and the camera's bearing. Written here, after the draw call, so
+  // the attributes always describe the picture on the canvas.
+  let frames = 0;
+  let shown: { instant: ShownInstant; platformCentroid_m: [number, number, number] } | null = null;
+  const render = () => {
+    renderer.render(scene, camera);
+    frames++;
+    const offset = camera.position.clone().sub(controls.target);
+    const azimuth_deg = ((((Math.atan2(offset.y, offset.x) * 180) / Math.PI) % 360) + 360) % 360;
+    const elevation_deg = 90 - (offset.angleTo(up) * 180) / Math.PI;
+    const d = el.dataset;
+    d.frames = String(frames);
+    d.cameraAzimuthDeg = azimuth_deg.toFixed(3);
+    d.cameraElevationDeg = elevation_deg.toFixed(3);
+    if (shown) {
+      const { pose, t_s } = shown.instant;
+      d.poseT = String(t_s);
+      d.poseSurgeMm = (pose.x_m * 1000).toFixed(3);
+      d.poseSwayMm = (pose.y_m * 1000).toFixed(3);
+      d.poseHeaveMm = (pose.z_m * 1000).toFixed(3);
+      d.poseRollDeg = ((pose.roll_rad * 180) / Math.PI).toFixed(4);
+      d.posePitchDeg = ((pose.pitch_rad * 180) / Math.PI).toFixed(4);
+      d.poseYawDeg = ((pose.yaw_rad * 180) / Math.PI).toFixed(4);
+      d.platformCentroidMm = shown.platformCentroid_m.map((v) => (v * 1000).toFixed(3)).join(' ');
+    }
+  };
+  controls.addEventListener('change', render);
   const turn = (azimuth_rad: number, elevation_rad: number) => {
     const offset = camera.position.clone().sub(controls.target);
     offset.applyAxisAngle(up, azimuth_rad);
@@ -98,8 +160,9 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
     const turns: Record<string, [number, number]> = {
       ArrowLeft: [-step_rad, 0],
       ArrowRight: [step_rad, 0],
-      ArrowUp: [0, -step_rad],
-      ArrowDown: [0, step_rad],
+      // Up looks from higher, down from lower.
+      ArrowUp: [0, step_rad],
+      ArrowDown: [0, -step_rad],
     };
     const t = turns[event.key];
     if (!t) return;
@@ -121,7 +184,7 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
   observer?.observe(el);
 
   return {
-    show: (joints, legOk) => {
+    show: (joints, legUse, instant) => {
       const bp = baseLoop.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
       const pp = platformLoop.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
       const lp = legGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
@@ -141,14 +204,31 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
         pp.setXYZ(i, p[0], p[1], p[2]);
         lp.setXYZ(2 * i, b[0], b[1], b[2]);
         lp.setXYZ(2 * i + 1, p[0], p[1], p[2]);
-        const c = legOk[i] === false ? badColor : okColor;
+        const c = toneColor[ratioTone(legUse[i] ?? 0)];
         lc.setXYZ(2 * i, c.r, c.g, c.b);
         lc.setXYZ(2 * i + 1, c.r, c.g, c.b);
       }
+      const sp = seatGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
+      for (let k = 0; k < seatCount; k++)
+        sp.setXYZ(k, joints.seats[3 * k] ?? 0, joints.seats[3 * k + 1] ?? 0, joints.seats[3 * k + 2] ?? 0);
+      sp.needsUpdate = true;
       bp.needsUpdate = true;
       pp.needsUpdate = true;
       lp.needsUpdate = true;
       lc.needsUpdate = true;
+      wideLegs.setPositions(lp.array as Float32Array);
+      wideLegs.setColors(lc.array as Float32Array);
+      // The centroid of the platform joints as they now stand in the scene's buffer.
+      let cx = 0;
+      let cy = 0;
+      let cz = 0;
+      for (let i = 0; i < n; i++) {
+        cx += pp.getX(i) / n;
+        cy += pp.getY(i) / n;
+        cz += pp.getZ(i) / n;
+      }
+      shown = { instant, platformCentroid_m: [cx, cy, cz] };
+      el.dataset.legUse = Array.from(legUse, (u) => u.toFixed(3)).join(' ');
       render();
     },
     turn,
@@ -156,6 +236,8 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
       canvas.removeEventListener('keydown', onKey);
       observer?.disconnect();
       controls.dispose();
+      wideLegs.dispose();
+      legMaterial.dispose();
       renderer.dispose();
       renderer.domElement.remove();
     },
@@ -170,6 +252,11 @@ export interface ProxyVideoClip {
 }
 
 const SPEEDS = [0.25, 0.5, 1, 2] as const;
+const LEG_TONE_TEXT = {
+  ok: 'text-ink-800',
+  close: 'text-signal-600',
+  over: 'font-semibold text-stop-700',
+} as const;
 
 /**
  * The motion base at bucket `index` of the run: legs outside the stroke band are drawn red. Plays at
@@ -242,19 +329,27 @@ export function BasePreview({
   const { min_m, max_m, margin_m } = series.stroke;
   const lowest_m = min_m + margin_m;
   const highest_m = max_m - margin_m;
-  const joints = useMemo(
-    () => (three ? previewJoints(three, base, poseAtBucket(series, at)) : null),
-    [three, base, series, at],
-  );
+  const pose = useMemo(() => poseAtBucket(series, at), [series, at]);
+  const joints = useMemo(() => (three ? previewJoints(three, base, pose) : null), [three, base, pose]);
   const legs = useMemo(() => (joints ? previewLegLengths(joints) : null), [joints]);
-  const legOk = useMemo(
-    () => (legs ? Array.from(legs, (l) => l >= lowest_m && l <= highest_m) : []),
-    [legs, lowest_m, highest_m],
+  const mid_m = series.stroke.mid_m;
+  // Stroke use as the budget measures it: 0 at mid-stroke, 1 at the margin on that side.
+  const legUse = useMemo(
+    () =>
+      legs
+        ? Array.from(legs, (l) =>
+            l >= mid_m
+              ? (l - mid_m) / Math.max(highest_m - mid_m, 1e-9)
+              : (mid_m - l) / Math.max(mid_m - lowest_m, 1e-9),
+          )
+        : [],
+    [legs, lowest_m, highest_m, mid_m],
   );
 
+  const shownAt_s = series.time_s[at] ?? 0;
   useEffect(() => {
-    if (joints) scene.current?.show(joints, legOk);
-  }, [joints, legOk]);
+    if (joints) scene.current?.show(joints, legUse, { t_s: shownAt_s, pose });
+  }, [joints, legUse, shownAt_s, pose]);
 
   // Plays the run in real time from the current instant; stops at the end.
   useEffect(() => {
@@ -299,14 +394,14 @@ export function BasePreview({
   }, [time_s, video, playing]);
   return (
     <div className="flex flex-col gap-2" data-testid="base-preview">
-      <div ref={holder} className="min-h-20 rounded border border-ink-100" />
+      <div ref={holder} className="min-h-20 rounded border border-ink-100" data-testid="base-view" />
       {video ? (
         <video
           ref={film}
           src={video.url}
           muted
           playsInline
-          preload="metadata"
+          preload="auto"
           aria-label="Proxy of the ride film, in step with the motion"
           className="w-full max-w-xl rounded border border-ink-100 bg-ink-900"
         />
@@ -355,8 +450,9 @@ export function BasePreview({
           aria-label="Leg lengths at this instant"
         >
           {Array.from(legs, (l, i) => (
-            <li key={i} className={legOk[i] ? 'text-ink-800' : 'font-semibold text-stop-700'}>
-              leg{i + 1} {l.toFixed(3)} m
+            <li key={i} className={LEG_TONE_TEXT[ratioTone(legUse[i] ?? 0)]}>
+              leg{i + 1} {l.toFixed(3)} m{' '}
+              <span className="text-ink-600">use {(legUse[i] ?? 0).toFixed(2)}</span>
             </li>
           ))}
           <li className="text-ink-400">
@@ -365,8 +461,9 @@ export function BasePreview({
         </ul>
       ) : null}
       <p className="text-xs text-ink-400">
-        Pose from the middle of each chart bucket; drag, or use the arrow keys on the view, to turn it. Hover
-        a chart to move the time.
+        Base grey, platform dark, seats as violet dots; legs coloured by stroke use: teal within, amber from
+        0.8, red at or past a margin. Pose from the middle of each chart bucket; drag, or use the arrow keys
+        on the view, to turn it. Hover a chart to move the time.
       </p>
     </div>
   );

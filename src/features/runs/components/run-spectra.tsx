@@ -61,7 +61,7 @@ export function RunSpectra({ studioId, runId }: { studioId: string; runId: strin
         x={lines.f_hz}
         bands={lines.bands}
         spans={band}
-        height_px={200}
+        height_px={300}
       />
       <p className="text-xs text-ink-600">
         Shaded: {data.band.low_hz}–{data.band.high_hz} Hz. {data.band.note} Share of power in that band:{' '}

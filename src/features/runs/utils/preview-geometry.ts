@@ -40,7 +40,7 @@ export function previewJoints(
   three: ThreeModule,
   base: MotionBase,
   pose: PreviewPose,
-): { base: Float64Array; platform: Float64Array } {
+): { base: Float64Array; platform: Float64Array; seats: Float64Array } {
   const n = base.baseJoints_m.length;
   const baseOut = new Float64Array(3 * n);
   const platformOut = new Float64Array(3 * n);
@@ -63,7 +63,15 @@ export function previewJoints(
     platformOut[3 * i + 1] = v.y;
     platformOut[3 * i + 2] = v.z;
   }
-  return { base: baseOut, platform: platformOut };
+  // The seats ride on the platform: the same transform from the platform frame.
+  const seatsOut = new Float64Array(3 * base.seats_m.length);
+  base.seats_m.forEach((seat, k) => {
+    v.set(seat[0] ?? 0, seat[1] ?? 0, seat[2] ?? 0).applyMatrix4(transform);
+    seatsOut[3 * k] = v.x;
+    seatsOut[3 * k + 1] = v.y;
+    seatsOut[3 * k + 2] = v.z;
+  });
+  return { base: baseOut, platform: platformOut, seats: seatsOut };
 }
 
 /** Leg lengths (m) between matching base and platform joints from previewJoints. */

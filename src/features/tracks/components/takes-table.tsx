@@ -84,7 +84,7 @@ export function TakesTable({
           <Fragment key={take.id}>
             <tr>
               <Td className="text-right font-mono">{take.number}</Td>
-              <Td className="font-mono text-xs break-all">{take.fileName}</Td>
+              <Td className="font-mono text-xs break-words">{take.fileName}</Td>
               <Td>
                 {KIND_LABELS[take.kind]}
                 {take.kind !== 'vehicle' ? (

@@ -1,6 +1,6 @@
 import { useEffect, useId, useMemo, useState } from 'react';
 import type { FormEvent, ReactNode } from 'react';
-import type { MotionBaseIssue } from '../../../../shared/schemas/motion-base';
+import type { MotionBase, MotionBaseIssue } from '../../../../shared/schemas/motion-base';
 import type { VenueDetail } from '../../../../shared/schemas/pipeline';
 import { Button } from '../../../components/ui/button';
 import { FieldError } from '../../../components/ui/form';
@@ -82,7 +82,8 @@ function NumberField({
 
 function Group({ title, children, note }: { title: string; children: ReactNode; note?: ReactNode }) {
   return (
-    <fieldset className="flex flex-col gap-2 rounded border border-ink-100 p-3">
+    // min-w-0: a fieldset is as wide as its content by default and would spill into the view beside it.
+    <fieldset className="flex min-w-0 flex-col gap-2 rounded border border-ink-100 p-3">
       <legend className="px-1 text-xs font-semibold text-ink-800">{title}</legend>
       {note ? <p className="text-xs text-ink-400">{note}</p> : null}
       <div className="flex flex-wrap gap-x-4 gap-y-2">{children}</div>
@@ -113,7 +114,7 @@ function PointTable({
   const axes = ['x', 'y', 'z'].slice(0, dim);
   const whole = issues.get(path) ?? [];
   return (
-    <div className="flex flex-col gap-1">
+    <div className="flex max-w-full flex-col gap-1 overflow-x-auto">
       <table className="border-collapse text-sm" aria-label={caption}>
         <caption className="pb-1 text-left text-xs font-medium text-ink-600">{caption}</caption>
         <thead>
@@ -329,6 +330,12 @@ export function BaseForm({
     : NEUTRAL_POSE;
   const hexapod = draft.mode !== 'planar3';
   const pending = draft !== settledDraft;
+  // The 3-D view keeps the last base without problems while a field is being fixed, rather than
+  // going blank at the first stray keystroke.
+  const [lastValid, setLastValid] = useState<MotionBase | null>(check.base);
+  if (check.base && check.base !== lastValid) setLastValid(check.base);
+  const viewBase = check.base ?? lastValid;
+  const stale = !check.base && lastValid !== null;
 
   return (
     <form
@@ -524,7 +531,7 @@ export function BaseForm({
           </Group>
 
           <Group title="Seats (rider reference points, platform frame)">
-            <div className="flex flex-col gap-1">
+            <div className="flex w-full min-w-0 flex-col gap-1">
               <PointTable
                 caption="Seat positions"
                 rowLabel="Seat"
@@ -624,13 +631,16 @@ export function BaseForm({
         <div className="flex flex-col gap-3 xl:sticky xl:top-2 xl:self-start">
           <BaseWorkspaceTable base={check.base} picked={pick} onPick={setPick} />
           <BaseStaticView
-            base={check.base}
+            base={viewBase}
+            stale={stale}
             pose={pose}
             placeJoints={placeJoints}
             caption={
-              pick
-                ? `At the ${pick.axis} extreme shown in the table; legs past their stroke would be drawn red.`
-                : 'At neutral. Base joints grey, platform teal; a leg outside its stroke is drawn red.'
+              stale
+                ? 'The last base without problems, at neutral: the form has problems marked beside their fields, and the view follows again once they are fixed.'
+                : pick
+                  ? `At the ${pick.axis} extreme shown in the table; legs past their stroke would be drawn red.`
+                  : 'At neutral. Base joints grey, platform teal; a leg outside its stroke is drawn red.'
             }
           />
           {pending ? <p className="text-xs text-ink-400">Updating…</p> : null}

@@ -66,6 +66,7 @@ function buildScene(three: ThreeModule, el: HTMLElement, n: number, hexapod: boo
   const okColor = new three.Color(CHART_COLORS.axis);
   const badColor = new three.Color(CHART_COLORS.hard);
   type Attr = InstanceType<ThreeModule['BufferAttribute']>;
+  let frames = 0;
   return {
     show: (joints, legOk) => {
       const bp = baseLoop.getAttribute('position') as Attr;
@@ -93,6 +94,19 @@ function buildScene(three: ThreeModule, el: HTMLElement, n: number, hexapod: boo
       }
       for (const a of [bp, pp, lp, lc]) a.needsUpdate = true;
       renderer.render(scene, camera);
+      // What the frame drawn shows, on the holder: a count of frames and the platform's centroid as
+      // placed in the scene (mm, base frame), for readers of the markup and for tests.
+      let cx = 0;
+      let cy = 0;
+      let cz = 0;
+      for (let i = 0; i < n; i++) {
+        cx += pp.getX(i) / n;
+        cy += pp.getY(i) / n;
+        cz += pp.getZ(i) / n;
+      }
+      frames++;
+      el.dataset.frames = String(frames);
+      el.dataset.platformCentroidMm = [cx, cy, cz].map((v) => (v * 1000).toFixed(3)).join(' ');
     },
     dispose: () => {
       renderer.dispose();
@@ -116,8 +130,11 @@ export function BaseStaticView({
   pose = NEUTRAL_POSE,
   placeJoints,
   caption,
+  stale = false,
 }: {
   base: MotionBase | null;
+  /** The base shown is not the form's current one (it has problems): the view says so. */
+  stale?: boolean;
   pose?: ViewPose;
   placeJoints: PlaceJoints;
   caption: string;
@@ -177,8 +194,16 @@ export function BaseStaticView({
   }, [three, base, pose, placeJoints, n]);
 
   return (
-    <figure className="flex flex-col gap-1" data-testid="base-static-view">
-      <div ref={holder} className="min-h-20 rounded border border-ink-100" />
+    <figure
+      className="flex flex-col gap-1"
+      data-testid="base-static-view"
+      data-shows={!base ? 'nothing' : stale ? 'last-valid' : 'current'}
+    >
+      <div
+        ref={holder}
+        data-testid="base-static-canvas"
+        className={`min-h-20 rounded border ${stale ? 'border-dashed border-signal-400 opacity-70' : 'border-ink-100'}`}
+      />
       {!webgl ? (
         <p className="text-xs text-ink-600">
           This browser offers no WebGL, so the 3-D view is off; the fields hold the same geometry.
