@@ -6,7 +6,7 @@ import { acrossStudios, inStudioScope } from '../db/wall';
 import { and, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppDeps } from '../deps';
-import { apiTokens, memberships, studios } from '../db/schema';
+import { apiTokens } from '../db/schema';
 import { HttpError, notFound } from '../lib/http-error';
 import { TOKEN_ROLE } from '../auth/permissions';
 import { hashToken } from '../lib/tokens';
@@ -56,14 +56,28 @@ export function studioRouter(deps: AppDeps): Router {
     return inStudioScope(studioId, () => member(req, studioId, next));
   });
   const member = async (req: Request, studioId: string, next: NextFunction) => {
-    const [m] = await deps.db
-      .select({ roles: memberships.roles, venueIds: memberships.venueIds })
-      .from(memberships)
-      .innerJoin(studios, eq(studios.id, memberships.studioId))
-      .where(and(eq(memberships.studioId, studioId), eq(memberships.userId, req.user!.id)))
-      .limit(1);
+    // Read on every request, never cached: a removed member or a changed role applies at once, in
+    // every process. The studio's data version comes with it (one round trip), for cached answers.
+    // A named statement on the pool: every request runs it, so it is parsed once per connection.
+    // The studio condition is explicit here too, besides the row policies' own.
+    const found = await deps.pool.query<{ roles: string[]; venue_ids: string[]; version: string | null }>({
+      name: 'legwork_membership_and_data_version',
+      text: `SELECT m.roles, m.venue_ids, v.version
+        FROM memberships m JOIN studios s ON s.id = m.studio_id
+        LEFT JOIN studio_data_versions v ON v.studio_id = m.studio_id
+        WHERE m.studio_id = $1 AND m.user_id = $2 LIMIT 1`,
+      values: [studioId, req.user!.id],
+    });
+    const m = found.rows[0];
     if (!m) throw notFound('No such studio.');
-    req.member = { studioId, userId: req.user!.id, tokenId: null, roles: m.roles, venueIds: m.venueIds };
+    req.member = {
+      studioId,
+      userId: req.user!.id,
+      tokenId: null,
+      roles: m.roles,
+      venueIds: m.venue_ids,
+      dataVersion: m.version === null ? 0 : Number(m.version),
+    };
     next();
   };
   // One router per resource, each mounted once.

@@ -62,7 +62,7 @@ const section: BenchSection = {
   name: 'load',
   async run(log) {
     const seconds = Number(process.env.BENCH_LOAD_S ?? 10);
-    const services = await startBenchServices('5980');
+    const services = await startBenchServices(process.env.BENCH_PORT_BASE ?? '5980');
     Object.assign(process.env, services.env);
     const { startTestApp, Client } = await import('../../integration/support/app');
     const { startCueWorker } = await import('../../integration/support/cue-worker');
