@@ -10,6 +10,7 @@ import { apiTokens } from '../db/schema';
 import { HttpError, notFound } from '../lib/http-error';
 import { TOKEN_ROLE } from '../auth/permissions';
 import { hashToken } from '../lib/tokens';
+import { MembershipLoader } from '../auth/membership-loader';
 import { bearerToken } from '../auth/session';
 import { auditCsvRouter, auditRouter } from './audit';
 import { homesRouter } from './homes';
@@ -29,6 +30,7 @@ const uuid = z.string().uuid();
 
 export function studioRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
+  const memberships = new MembershipLoader(deps.pool);
   r.use(async (req, _res, next) => {
     const studioId = String((req.params as Record<string, string>).studioId ?? '');
     const bearer = bearerToken(req.headers.authorization);
@@ -56,27 +58,17 @@ export function studioRouter(deps: AppDeps): Router {
     return inStudioScope(studioId, () => member(req, studioId, next));
   });
   const member = async (req: Request, studioId: string, next: NextFunction) => {
-    // Read on every request, never cached: a removed member or a changed role applies at once, in
-    // every process. The studio's data version comes with it (one round trip), for cached answers.
-    // A named statement on the pool: every request runs it, so it is parsed once per connection.
-    // The studio condition is explicit here too, besides the row policies' own.
-    const found = await deps.pool.query<{ roles: string[]; venue_ids: string[]; version: string | null }>({
-      name: 'legwork_membership_and_data_version',
-      text: `SELECT m.roles, m.venue_ids, v.version
-        FROM memberships m JOIN studios s ON s.id = m.studio_id
-        LEFT JOIN studio_data_versions v ON v.studio_id = m.studio_id
-        WHERE m.studio_id = $1 AND m.user_id = $2 LIMIT 1`,
-      values: [studioId, req.user!.id],
-    });
-    const m = found.rows[0];
+    // Read on every request, never from memory; requests arriving together share one query
+    // (server/auth/membership-loader.ts). The studio's data version comes with it.
+    const m = await memberships.load(studioId, req.user!.id);
     if (!m) throw notFound('No such studio.');
     req.member = {
       studioId,
       userId: req.user!.id,
       tokenId: null,
       roles: m.roles,
-      venueIds: m.venue_ids,
-      dataVersion: m.version === null ? 0 : Number(m.version),
+      venueIds: m.venueIds,
+      dataVersion: m.dataVersion,
     };
     next();
   };

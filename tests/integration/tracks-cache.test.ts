@@ -309,6 +309,29 @@ describe('kept answers stay with their studio and role', () => {
     expect((await pia.get(tracksPath(t.seed.secondStudioId))).status).toBe(404);
   });
 
+  it('gives each of many members asking at the same moment their own roles (shared look-ups)', async () => {
+    const pia = await signedIn(t.app, PRODUCER);
+    const operator = await signedIn(t.app, 'otto.operator@lanternfish.example');
+    const admin = await signedIn(t.app, ADMIN);
+    // Expected from each one's roles as stored (shared/demo.ts): producer and admin may read the
+    // table, the operator may not; the admin also reads the second studio, the producer may not.
+    const asks = Array.from({ length: 12 }, (_, i) => {
+      const who = [pia, operator, admin][i % 3]!;
+      const studio = i % 2 ? t.seed.secondStudioId : t.seed.studioId;
+      const expected =
+        who === operator
+          ? studio === t.seed.studioId
+            ? 403
+            : 404
+          : who === pia && studio !== t.seed.studioId
+            ? 404
+            : 200;
+      return { who, studio, expected };
+    });
+    const got = await Promise.all(asks.map((a) => a.who.get(tracksPath(a.studio)).then((r) => r.status)));
+    expect(got).toEqual(asks.map((a) => a.expected));
+  });
+
   it('gives a venue operator and an API token no answer that a producer has just been given', async () => {
     const pia = await signedIn(t.app, PRODUCER);
     await page(pia, t.seed.studioId);
