@@ -51,16 +51,19 @@ export function tracksRouter(deps: AppDeps): Router {
   };
 
   r.get('/', requirePermission('tracks.read'), async (req, res) => {
-    const q = parseBody(tracksQuery, req.query, 'The track list query');
     const studioId = req.member!.studioId;
     // The answer depends on the studio, the query and (should the table ever be scoped by venue)
-    // the member's venue scope; it is kept per the data version read with the membership.
+    // the member's venue scope; it is kept per the data version read with the membership. Kept
+    // under the query string as sent, so a repeated query is answered before it is parsed again
+    // (only a query that parsed once has an answer kept).
     const version = req.member!.dataVersion;
-    const cacheKey = JSON.stringify([q, venueScope(req.member!)]);
+    const raw = req.originalUrl.indexOf('?');
+    const cacheKey = `${JSON.stringify(venueScope(req.member!))}?${raw < 0 ? '' : req.originalUrl.slice(raw + 1)}`;
     if (version !== undefined) {
       const hit = answers.get(studioId, version, cacheKey);
       if (hit) return sendAnswer(res, hit);
     }
+    const q = parseBody(tracksQuery, req.query, 'The track list query');
     // The filter looks at what each row shows: the latest run per venue (newest created_at, then the
     // greater id, the same order as listRuns), never an older run of the track.
     const later = alias(cueRuns, 'later_run');
