@@ -13,47 +13,37 @@ CREATE POLICY studio_wall ON "studio_data_versions"
   USING (studio_id = (SELECT legwork_scope_studio()) OR (SELECT legwork_scope_all()))
   WITH CHECK (studio_id = (SELECT legwork_scope_studio()) OR (SELECT legwork_scope_all()));
 --> statement-breakpoint
--- Raises the version of every studio whose rows a statement changed, once per statement (transition
--- tables), in the writer's own transaction: whoever sees the new version sees the change. A studio
--- being deleted (its rows going with it) gets no row.
-CREATE OR REPLACE FUNCTION legwork_bump_studio_data_version() RETURNS trigger
+-- Raises a studio's version once per transaction that changed its rows, as that transaction commits:
+-- whoever sees the new version sees the change. Deferred to the commit (constraint triggers), the
+-- counter's row lock is the last lock a writer takes, so two writers cannot deadlock over it; the
+-- first change of a transaction per studio counts, the rest of the transaction's changes skip at once
+-- (a transaction-local flag). A studio being deleted (its rows going with it) gets no row.
+CREATE OR REPLACE FUNCTION legwork_bump_studio(sid uuid) RETURNS void
   LANGUAGE plpgsql AS $$
+DECLARE
+  flag text := 'legwork.bumped_' || replace(sid::text, '-', '');
 BEGIN
-  IF TG_OP = 'INSERT' THEN
-    INSERT INTO studio_data_versions AS v (studio_id, version)
-      SELECT DISTINCT n.studio_id, 1 FROM new_rows n JOIN studios s ON s.id = n.studio_id ORDER BY 1
-      ON CONFLICT (studio_id) DO UPDATE SET version = v.version + 1;
-  ELSIF TG_OP = 'DELETE' THEN
-    INSERT INTO studio_data_versions AS v (studio_id, version)
-      SELECT DISTINCT o.studio_id, 1 FROM old_rows o JOIN studios s ON s.id = o.studio_id ORDER BY 1
-      ON CONFLICT (studio_id) DO UPDATE SET version = v.version + 1;
-  ELSE
-    INSERT INTO studio_data_versions AS v (studio_id, version)
-      SELECT c.studio_id, 1 FROM (
-        SELECT n.studio_id FROM new_rows n UNION SELECT o.studio_id FROM old_rows o
-      ) c JOIN studios s ON s.id = c.studio_id ORDER BY 1
-      ON CONFLICT (studio_id) DO UPDATE SET version = v.version + 1;
+  IF sid IS NULL OR current_setting(flag, true) = '1' THEN
+    RETURN;
   END IF;
-  RETURN NULL;
+  PERFORM set_config(flag, '1', true);
+  INSERT INTO studio_data_versions AS v (studio_id, version)
+    SELECT sid, 1 WHERE EXISTS (SELECT 1 FROM studios s WHERE s.id = sid)
+    ON CONFLICT (studio_id) DO UPDATE SET version = v.version + 1;
 END
 $$;
 --> statement-breakpoint
--- Runs change often in ways the tracks table does not show (progress, heartbeat, attempts): an update
--- counts only when a run's state, summary, venue, track or creation time changed.
-CREATE OR REPLACE FUNCTION legwork_bump_studio_data_version_runs() RETURNS trigger
+CREATE OR REPLACE FUNCTION legwork_bump_studio_data_version() RETURNS trigger
   LANGUAGE plpgsql AS $$
 BEGIN
-  INSERT INTO studio_data_versions AS v (studio_id, version)
-    SELECT c.studio_id, 1 FROM (
-      SELECT n.studio_id FROM new_rows n JOIN old_rows o ON o.id = n.id
-      WHERE (n.studio_id, n.track_id, n.venue_id, n.state, n.created_at)
-              IS DISTINCT FROM (o.studio_id, o.track_id, o.venue_id, o.state, o.created_at)
-         OR n.summary IS DISTINCT FROM o.summary
-      UNION
-      SELECT o.studio_id FROM new_rows n JOIN old_rows o ON o.id = n.id
-      WHERE n.studio_id IS DISTINCT FROM o.studio_id
-    ) c JOIN studios s ON s.id = c.studio_id ORDER BY 1
-    ON CONFLICT (studio_id) DO UPDATE SET version = v.version + 1;
+  IF TG_OP = 'DELETE' THEN
+    PERFORM legwork_bump_studio(OLD.studio_id);
+  ELSE
+    PERFORM legwork_bump_studio(NEW.studio_id);
+    IF TG_OP = 'UPDATE' AND OLD.studio_id IS DISTINCT FROM NEW.studio_id THEN
+      PERFORM legwork_bump_studio(OLD.studio_id);
+    END IF;
+  END IF;
   RETURN NULL;
 END
 $$;
@@ -62,18 +52,22 @@ DO $$
 DECLARE
   t text;
 BEGIN
-  FOREACH t IN ARRAY ARRAY['tracks', 'takes', 'venues', 'cue_runs'] LOOP
+  FOREACH t IN ARRAY ARRAY['tracks', 'takes', 'venues'] LOOP
     EXECUTE format(
-      'CREATE TRIGGER studio_data_version_ins AFTER INSERT ON %I REFERENCING NEW TABLE AS new_rows'
-      ' FOR EACH STATEMENT EXECUTE FUNCTION legwork_bump_studio_data_version()', t);
-    EXECUTE format(
-      'CREATE TRIGGER studio_data_version_del AFTER DELETE ON %I REFERENCING OLD TABLE AS old_rows'
-      ' FOR EACH STATEMENT EXECUTE FUNCTION legwork_bump_studio_data_version()', t);
-    EXECUTE format(
-      'CREATE TRIGGER studio_data_version_upd AFTER UPDATE ON %I'
-      ' REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows FOR EACH STATEMENT EXECUTE FUNCTION %I()',
-      t,
-      CASE WHEN t = 'cue_runs' THEN 'legwork_bump_studio_data_version_runs' ELSE 'legwork_bump_studio_data_version' END);
+      'CREATE CONSTRAINT TRIGGER studio_data_version AFTER INSERT OR UPDATE OR DELETE ON %I'
+      ' DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION legwork_bump_studio_data_version()', t);
   END LOOP;
 END
 $$;
+--> statement-breakpoint
+CREATE CONSTRAINT TRIGGER studio_data_version AFTER INSERT OR DELETE ON cue_runs
+  DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION legwork_bump_studio_data_version();
+--> statement-breakpoint
+-- Runs change often in ways the tracks table does not show (progress, heartbeat, attempts): an update
+-- counts only when a run's state, summary, venue, track, studio or creation time changed.
+CREATE CONSTRAINT TRIGGER studio_data_version_shown AFTER UPDATE ON cue_runs
+  DEFERRABLE INITIALLY DEFERRED FOR EACH ROW
+  WHEN (OLD.state IS DISTINCT FROM NEW.state OR OLD.summary IS DISTINCT FROM NEW.summary
+    OR OLD.venue_id IS DISTINCT FROM NEW.venue_id OR OLD.track_id IS DISTINCT FROM NEW.track_id
+    OR OLD.studio_id IS DISTINCT FROM NEW.studio_id OR OLD.created_at IS DISTINCT FROM NEW.created_at)
+  EXECUTE FUNCTION legwork_bump_studio_data_version();

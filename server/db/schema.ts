@@ -338,10 +338,10 @@ export const cueRuns = pgTable(
 export type CueRunRow = typeof cueRuns.$inferSelect;
 
 /**
- * One counter per studio, raised by triggers (drizzle/0011_studio_data_version.sql) in the same
- * transaction as any change to what the tracks table shows: its tracks, takes, venues, and the state,
+ * One counter per studio, raised by triggers (drizzle/0011_studio_data_version.sql) as a transaction
+ * that changed what the tracks table shows commits: its tracks, takes, venues, and the state,
  * summary, venue or track of its runs. A reader that sees a version sees every change counted in it,
- * whichever process made the change; cached answers are kept per version (server/pipeline/tracks-cache.ts).
+ * whichever process made it; kept answers are per version (server/pipeline/tracks-cache.ts).
  */
 export const studioDataVersions = pgTable('studio_data_versions', {
   studioId: uuid('studio_id')

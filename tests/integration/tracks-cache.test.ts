@@ -211,6 +211,45 @@ describe('the tracks table after a write', () => {
   });
 });
 
+describe('the data version', () => {
+  it('rises once for a transaction of many changes, and a studio deleted with its rows leaves none', async () => {
+    const version = async (id: string) =>
+      (
+        (await t.tdb.pool.query('SELECT version FROM studio_data_versions WHERE studio_id = $1', [id]))
+          .rows[0] as { version: string } | undefined
+      )?.version;
+    const studio = (
+      await t.tdb.pool.query(
+        `INSERT INTO studios (name, slug) VALUES ('Short-Lived Studio', 'short-lived') RETURNING id`,
+      )
+    ).rows[0] as { id: string };
+    expect(await version(studio.id)).toBeUndefined();
+    const c = await t.tdb.pool.connect();
+    try {
+      await c.query('BEGIN');
+      await c.query(
+        `INSERT INTO tracks (studio_id, title) SELECT $1, 'Short ' || g FROM generate_series(1, 50) g`,
+        [studio.id],
+      );
+      await c.query(`UPDATE tracks SET film = 'x' WHERE studio_id = $1`, [studio.id]);
+      await c.query('COMMIT');
+    } finally {
+      c.release();
+    }
+    expect(await version(studio.id)).toBe('1');
+    await t.tdb.pool.query('DELETE FROM studios WHERE id = $1', [studio.id]);
+    expect(await version(studio.id)).toBeUndefined();
+    expect(
+      (
+        (await t.tdb.pool.query('SELECT count(*)::int AS n FROM tracks WHERE studio_id = $1', [studio.id]))
+          .rows[0] as {
+          n: number;
+        }
+      ).n,
+    ).toBe(0);
+  });
+});
+
 describe('members and sessions', () => {
   it('refuses a removed member on their very next request, in this process and in another', async () => {
     const admin = await signedIn(t.app, ADMIN);
