@@ -6,7 +6,8 @@
 import { createHash } from 'node:crypto';
 
 export interface CachedAnswer {
-  body: string;
+  /** The JSON text, encoded once (a kept answer is sent as these bytes, not encoded again). */
+  body: Buffer;
   etag: string;
 }
 
@@ -38,9 +39,10 @@ export class VersionedAnswers {
     return e;
   }
 
-  /** Keeps `body` as the answer to this query under `version` (read before the answer was made). */
-  set(studioId: string, version: number, query: string, body: string): CachedAnswer {
+  /** Keeps `json` as the answer to this query under `version` (read before the answer was made). */
+  set(studioId: string, version: number, query: string, json: string): CachedAnswer {
     const k = VersionedAnswers.key(studioId, query);
+    const body = Buffer.from(json, 'utf8');
     const etag = `W/"${createHash('sha1').update(body).digest('base64url')}"`;
     const held = this.entries.get(k);
     // A slower request that read an older version must not replace a newer answer.

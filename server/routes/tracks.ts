@@ -25,7 +25,7 @@ export function tracksRouter(deps: AppDeps): Router {
   const now = deps.now ?? (() => new Date());
   const answers = new VersionedAnswers();
   const sendAnswer = (res: Response, a: CachedAnswer) => {
-    res.set('ETag', a.etag).type('application/json').send(a.body);
+    res.set({ ETag: a.etag, 'Content-Type': 'application/json; charset=utf-8' }).send(a.body);
   };
 
   const detail = async (studioId: string, trackId: string): Promise<TrackDetail> => {
