@@ -12,6 +12,7 @@ import { errorForLog } from './lib/error-text';
 import { clientErrorAnswer, jsonBody, refuseUnstorableText } from './lib/client-errors';
 import { chooseCredentials, createPassport, requireCsrf, sessionMiddleware } from './auth/session';
 import { createPasswordThrottle, trustProxySetting } from './auth/throttle';
+import { AuthCache } from './auth/auth-cache';
 import { healthRouter } from './routes/health';
 import { authRouter } from './routes/auth';
 import { invitationsRouter } from './routes/invitations';
@@ -63,8 +64,10 @@ export function createApp(deps: AppDeps): LegworkApp {
   );
   app.set('trust proxy', trustProxySetting(deps.env.TRUST_PROXY));
   const throttle = createPasswordThrottle(deps.env);
-  const sessions = sessionMiddleware(deps);
-  const pass = createPassport(deps);
+  // Sessions and signed-in users remembered for a moment (server/auth/auth-cache.ts).
+  const authCache = new AuthCache();
+  const sessions = sessionMiddleware(deps, authCache);
+  const pass = createPassport(deps, authCache);
 
   const api = express.Router();
   api.use(jsonBody('1mb'));
@@ -79,7 +82,7 @@ export function createApp(deps: AppDeps): LegworkApp {
   // memberships, an invitation found by its token): deliberately, and only on these routes. Every
   // route under /studios/:studioId sees that one studio's rows (studioRouter); anything else sees
   // none (server/db/wall.ts).
-  api.use('/auth', acrossStudiosHere, authRouter(deps, pass, throttle));
+  api.use('/auth', acrossStudiosHere, authRouter(deps, pass, throttle, authCache));
   api.use('/invitations', acrossStudiosHere, invitationsRouter(deps, throttle));
   api.use('/me', acrossStudiosHere, meRouter(deps));
   api.use('/studios/:studioId', studioRouter(deps));

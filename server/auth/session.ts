@@ -11,11 +11,15 @@ import { users } from '../db/schema';
 import { verifyPassword } from './passwords';
 import { newToken } from '../lib/tokens';
 import { HttpError } from '../lib/http-error';
+import type { AuthCache } from './auth-cache';
 
 export const SESSION_COOKIE = 'legwork.sid';
 
 /** Session middleware with the store in the `session` table (created by the migrations). */
-export function sessionMiddleware(deps: AppDeps): { handler: RequestHandler; close: () => void } {
+export function sessionMiddleware(
+  deps: AppDeps,
+  cache?: AuthCache,
+): { handler: RequestHandler; close: () => void } {
   const PgStore = connectPgSimple(session);
   const store = new PgStore({
     pool: deps.pool,
@@ -24,6 +28,7 @@ export function sessionMiddleware(deps: AppDeps): { handler: RequestHandler; clo
     pruneSessionInterval: 600,
   });
   throttleTouches(store);
+  cache?.wrapStore(store);
   const handler = session({
     name: SESSION_COOKIE,
     secret: deps.env.SESSION_SECRET,
@@ -69,7 +74,7 @@ function throttleTouches(store: session.Store): void {
 }
 
 /** A passport instance of our own (not the global one), so several apps can live in one test process. */
-export function createPassport(deps: AppDeps): passport.PassportStatic {
+export function createPassport(deps: AppDeps, cache?: AuthCache): passport.PassportStatic {
   const p = new passport.Passport() as unknown as passport.PassportStatic;
   p.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
@@ -84,13 +89,15 @@ export function createPassport(deps: AppDeps): passport.PassportStatic {
   );
   p.serializeUser((user, done) => done(null, user.id));
   p.deserializeUser((id: string, done) => {
-    deps.db
-      .select({ id: users.id, email: users.email, name: users.name })
-      .from(users)
-      .where(eq(users.id, id))
-      .limit(1)
-      .then(([u]) => done(null, u ?? false))
-      .catch(done);
+    const load = async () =>
+      (
+        await deps.db
+          .select({ id: users.id, email: users.email, name: users.name })
+          .from(users)
+          .where(eq(users.id, id))
+          .limit(1)
+      )[0];
+    (cache ? cache.user(id, load) : load()).then((u) => done(null, u ?? false)).catch(done);
   });
   return p;
 }

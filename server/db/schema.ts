@@ -337,6 +337,19 @@ export const cueRuns = pgTable(
 );
 export type CueRunRow = typeof cueRuns.$inferSelect;
 
+/**
+ * One counter per studio, raised by triggers (drizzle/0011_studio_data_version.sql) as a transaction
+ * that changed what the tracks table shows commits: its tracks, takes, venues, and the state,
+ * summary, venue or track of its runs. A reader that sees a version sees every change counted in it,
+ * whichever process made it; kept answers are per version (server/pipeline/tracks-cache.ts).
+ */
+export const studioDataVersions = pgTable('studio_data_versions', {
+  studioId: uuid('studio_id')
+    .primaryKey()
+    .references(() => studios.id, { onDelete: 'cascade' }),
+  version: bigint('version', { mode: 'number' }).notNull().default(0),
+});
+
 /** Per-studio tokens for pipelines that push takes; only the hash is kept. */
 export const apiTokens = pgTable(
   'api_tokens',

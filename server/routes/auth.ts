@@ -14,6 +14,7 @@ import { recordAudit } from '../audit';
 import { publicUrl } from '../env';
 import { loadMe } from './me';
 import type { PasswordThrottle } from '../auth/throttle';
+import type { AuthCache } from '../auth/auth-cache';
 
 const RESET_TTL_MS = 60 * 60 * 1000;
 
@@ -22,7 +23,12 @@ export const logIn = (req: Request, user: Express.User): Promise<void> =>
   new Promise((resolve, reject) => req.logIn(user, (e) => (e ? reject(e) : resolve())));
 
 /** /api/auth: CSRF token, sign-in, sign-out, the current user, password reset. */
-export function authRouter(deps: AppDeps, pass: passport.PassportStatic, throttle: PasswordThrottle): Router {
+export function authRouter(
+  deps: AppDeps,
+  pass: passport.PassportStatic,
+  throttle: PasswordThrottle,
+  authCache?: AuthCache,
+): Router {
   const r = Router();
   const now = deps.now ?? (() => new Date());
 
@@ -131,7 +137,7 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic, throttl
           ),
         )
         .returning();
-      if (!reset) return false;
+      if (!reset) return null;
       await tx.update(users).set({ passwordHash: hash }).where(eq(users.id, reset.userId));
       // Every other unused link of this user stops working.
       await tx
@@ -147,9 +153,11 @@ export function authRouter(deps: AppDeps, pass: passport.PassportStatic, throttl
         subjectType: 'user',
         subjectId: reset.userId,
       });
-      return true;
+      return reset.userId;
     });
     if (!done) throw new HttpError(400, 'This reset link is not valid any more. Ask for a new one.');
+    // This process forgets the user's sessions at once (others within AUTH_CACHE_MS).
+    authCache?.forgetUser(done);
     res.status(204).end();
   });
 

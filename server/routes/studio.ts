@@ -6,10 +6,11 @@ import { acrossStudios, inStudioScope } from '../db/wall';
 import { and, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppDeps } from '../deps';
-import { apiTokens, memberships, studios } from '../db/schema';
+import { apiTokens } from '../db/schema';
 import { HttpError, notFound } from '../lib/http-error';
 import { TOKEN_ROLE } from '../auth/permissions';
 import { hashToken } from '../lib/tokens';
+import { MembershipLoader } from '../auth/membership-loader';
 import { bearerToken } from '../auth/session';
 import { auditCsvRouter, auditRouter } from './audit';
 import { homesRouter } from './homes';
@@ -29,6 +30,7 @@ const uuid = z.string().uuid();
 
 export function studioRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
+  const memberships = new MembershipLoader(deps.pool);
   r.use(async (req, _res, next) => {
     const studioId = String((req.params as Record<string, string>).studioId ?? '');
     const bearer = bearerToken(req.headers.authorization);
@@ -56,14 +58,18 @@ export function studioRouter(deps: AppDeps): Router {
     return inStudioScope(studioId, () => member(req, studioId, next));
   });
   const member = async (req: Request, studioId: string, next: NextFunction) => {
-    const [m] = await deps.db
-      .select({ roles: memberships.roles, venueIds: memberships.venueIds })
-      .from(memberships)
-      .innerJoin(studios, eq(studios.id, memberships.studioId))
-      .where(and(eq(memberships.studioId, studioId), eq(memberships.userId, req.user!.id)))
-      .limit(1);
+    // Read on every request, never from memory; requests arriving together share one query
+    // (server/auth/membership-loader.ts). The studio's data version comes with it.
+    const m = await memberships.load(studioId, req.user!.id);
     if (!m) throw notFound('No such studio.');
-    req.member = { studioId, userId: req.user!.id, tokenId: null, roles: m.roles, venueIds: m.venueIds };
+    req.member = {
+      studioId,
+      userId: req.user!.id,
+      tokenId: null,
+      roles: m.roles,
+      venueIds: m.venueIds,
+      dataVersion: m.dataVersion,
+    };
     next();
   };
   // One router per resource, each mounted once.

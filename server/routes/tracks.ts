@@ -1,5 +1,6 @@
 // Tracks and takes: list, create, read, and the streamed take upload (browser session or API token).
 import { Router } from 'express';
+import type { Response } from 'express';
 import { randomUUID } from 'node:crypto';
 import { and, asc, count, desc, eq, exists, ilike, inArray, max, notExists, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
@@ -15,10 +16,17 @@ import { createTrackBody, tracksQuery, uploadQuery } from '../../shared/schemas/
 import type { TrackDetail, TrackPage, TrackSummary, UploadedTake } from '../../shared/schemas/pipeline';
 import { receiveTake } from '../pipeline/upload';
 import { latestRunsPerVenue, listRuns, toTake } from '../pipeline/views';
+import { VersionedAnswers } from '../pipeline/tracks-cache';
+import type { CachedAnswer } from '../pipeline/tracks-cache';
+import { venueScope } from '../auth/permissions';
 
 export function tracksRouter(deps: AppDeps): Router {
   const r = Router({ mergeParams: true });
   const now = deps.now ?? (() => new Date());
+  const answers = new VersionedAnswers();
+  const sendAnswer = (res: Response, a: CachedAnswer) => {
+    res.set({ ETag: a.etag, 'Content-Type': 'application/json; charset=utf-8' }).send(a.body);
+  };
 
   const detail = async (studioId: string, trackId: string): Promise<TrackDetail> => {
     if (!isUuid(trackId)) throw notFound('No such track.');
@@ -43,8 +51,19 @@ export function tracksRouter(deps: AppDeps): Router {
   };
 
   r.get('/', requirePermission('tracks.read'), async (req, res) => {
-    const q = parseBody(tracksQuery, req.query, 'The track list query');
     const studioId = req.member!.studioId;
+    // The answer depends on the studio, the query and (should the table ever be scoped by venue)
+    // the member's venue scope; it is kept per the data version read with the membership. Kept
+    // under the query string as sent, so a repeated query is answered before it is parsed again
+    // (only a query that parsed once has an answer kept).
+    const version = req.member!.dataVersion;
+    const raw = req.originalUrl.indexOf('?');
+    const cacheKey = `${JSON.stringify(venueScope(req.member!))}?${raw < 0 ? '' : req.originalUrl.slice(raw + 1)}`;
+    if (version !== undefined) {
+      const hit = answers.get(studioId, version, cacheKey);
+      if (hit) return sendAnswer(res, hit);
+    }
+    const q = parseBody(tracksQuery, req.query, 'The track list query');
     // The filter looks at what each row shows: the latest run per venue (newest created_at, then the
     // greater id, the same order as listRuns), never an older run of the track.
     const later = alias(cueRuns, 'later_run');
@@ -122,7 +141,9 @@ export function tracksRouter(deps: AppDeps): Router {
       };
     });
     const page: TrackPage = { items, total: total?.n ?? 0, page: q.page, pageSize: q.pageSize };
-    res.json(page);
+    const body = JSON.stringify(page);
+    if (version === undefined) res.type('application/json').send(body);
+    else sendAnswer(res, answers.set(studioId, version, cacheKey, body));
   });
 
   r.post('/', requirePermission('tracks.write'), async (req, res) => {

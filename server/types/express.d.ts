@@ -15,6 +15,11 @@ declare global {
         tokenId: string | null;
         roles: string[];
         venueIds: string[];
+        /**
+         * The studio's data version (server/db/schema.ts studioDataVersions), read with the
+         * membership at the start of the request; undefined on the API token path.
+         */
+        dataVersion?: number;
       };
     }
   }

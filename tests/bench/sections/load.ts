@@ -5,13 +5,18 @@
 // - the run page's data (GET /runs/:run), 50 connections;
 // - sign-in: a fresh visit (session and CSRF token) and POST /api/auth/login with the right password
 //   (argon2id is slow on purpose), 10 connections (tests/bench/sign-in-load.mjs).
-// Prints requests per second and the p50 / p99 latency of each, and every non-2xx count.
+// Prints requests per second and the p50 / p99 latency of each, every non-2xx count, the server's
+// CPU time while autocannon ran and the load average (the machine may be shared). The tracks table is
+// also timed one request at a time, kept and made anew after a write.
 // Then a burst: ten 600,000-sample (10 min at 1 kHz) takes queued at once, cued by one worker process;
 // prints the time until all are finished and the worker's peak resident memory (target < 1 GB).
-// `BENCH_LOAD_S` sets the seconds per endpoint (default 10); `BENCH_BURST=0` skips the burst.
+// `BENCH_LOAD_S` sets the seconds per endpoint (default 10); `BENCH_BURST=0` skips the burst;
+// `BENCH_PORT_BASE` moves the services' ports (default 5980).
 import { execFile, spawn } from 'node:child_process';
 import { readFileSync } from 'node:fs';
+import { loadavg } from 'node:os';
 import { promisify } from 'node:util';
+import pg from 'pg';
 import { createServer } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { join, resolve } from 'node:path';
@@ -26,12 +31,14 @@ const TRACKS = 10_000;
 const RUNS_PER_TRACK = 5;
 
 interface Cannon {
-  requests: { average: number };
+  requests: { average: number; total?: number };
   latency: { p50: number; p99: number; average: number; max: number };
   non2xx: number;
   statusCodeStats?: Record<string, { count: number }>;
   errors: number;
   timeouts: number;
+  /** CPU time of this process (the server under test) while autocannon ran. */
+  serverCpu_ms?: number;
 }
 
 const run = promisify(execFile);
@@ -51,18 +58,22 @@ async function cannon(
   for (const [k, v] of Object.entries(opts.headers)) args.push('-H', `${k}=${v}`);
   if (opts.method) args.push('-m', opts.method);
   if (opts.body) args.push('-b', opts.body);
+  const cpu0 = process.cpuUsage();
   const r = await run(join(root, 'node_modules/.bin/autocannon'), [...args, url], {
     encoding: 'utf8',
     maxBuffer: 64 * 1024 * 1024,
   });
-  return JSON.parse(r.stdout) as Cannon;
+  const cpu = process.cpuUsage(cpu0);
+  const out = JSON.parse(r.stdout) as Cannon;
+  out.serverCpu_ms = (cpu.user + cpu.system) / 1000;
+  return out;
 }
 
 const section: BenchSection = {
   name: 'load',
   async run(log) {
     const seconds = Number(process.env.BENCH_LOAD_S ?? 10);
-    const services = await startBenchServices('5980');
+    const services = await startBenchServices(process.env.BENCH_PORT_BASE ?? '5980');
     Object.assign(process.env, services.env);
     const { startTestApp, Client } = await import('../../integration/support/app');
     const { startCueWorker } = await import('../../integration/support/cue-worker');
@@ -131,7 +142,15 @@ const section: BenchSection = {
           done.id,
         ],
       );
-      await q('ANALYZE');
+      // Planner statistics for the new rows, as autovacuum would gather them soon after: by the
+      // tables' owner (the login role), since the application's role may not analyze them.
+      const owner = new pg.Client({ connectionString: t.tdb.url });
+      await owner.connect();
+      try {
+        await owner.query('VACUUM ANALYZE');
+      } finally {
+        await owner.end();
+      }
       const counts = (
         await q(
           `SELECT (SELECT count(*) FROM tracks WHERE studio_id = $1) AS tracks, (SELECT count(*) FROM cue_runs WHERE studio_id = $1) AS runs`,
@@ -164,7 +183,14 @@ const section: BenchSection = {
                     .join(', ')})`
                 : ''
             }` +
-            `${target ? ` (target ${target})` : ''}`,
+            `${target ? ` (target ${target})` : ''}` +
+            `${
+              c.serverCpu_ms !== undefined && c.requests.total
+                ? `; server CPU ${(c.serverCpu_ms / 1000).toFixed(1)} s over ${seconds} s wall, ${(c.serverCpu_ms / c.requests.total).toFixed(2)} ms a request`
+                : ''
+            }; load average ${loadavg()
+              .map((l) => l.toFixed(1))
+              .join(' ')}`,
         );
       const firstPage = await fetch(`${url}${base}/tracks?page=1&pageSize=25`, { headers: { cookie } });
       if (firstPage.status !== 200) throw new Error(`tracks table answered ${firstPage.status}`);
@@ -181,6 +207,19 @@ const section: BenchSection = {
       ).rows[0] as { bytes: number };
       log(
         `tracks table, one request at a time: median ${alone[20]!.toFixed(1)} ms, slowest ${alone[39]!.toFixed(1)} ms (stored run summary ${size.bytes} bytes on average)`,
+      );
+      // The same, with a change to the studio's tracks before each request: the answer is made anew
+      // every time (what the first read after a write costs).
+      const fresh: number[] = [];
+      for (let i = 0; i < 40; i++) {
+        await q(`UPDATE tracks SET updated_at = updated_at WHERE id = $1`, [track.id]);
+        const t0 = performance.now();
+        await (await fetch(`${url}${base}/tracks?page=1&pageSize=25`, { headers: { cookie } })).arrayBuffer();
+        fresh.push(performance.now() - t0);
+      }
+      fresh.sort((a, b) => a - b);
+      log(
+        `tracks table after a write each time (answer made anew), one request at a time: median ${fresh[20]!.toFixed(1)} ms, slowest ${fresh[39]!.toFixed(1)} ms`,
       );
       show(
         'tracks table, page 1 of 25 rows, 50 connections',
