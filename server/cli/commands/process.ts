@@ -148,8 +148,10 @@ async function runWith(
     io.stderr(`warning: ${values.profile}: a ${track.kind} track is not cued; the profile was not used\n`);
   }
 
-  // The reader's blocks, let go once the columns were joined.
-  collectGarbage();
+  // The reader's blocks, let go once the columns were joined. Only a long take holds enough of them
+  // to set the peak; on a shorter one the collection would cost time and save nothing that matters.
+  const long = track.length > THREADED_MAX_ROWS;
+  if (long) collectGarbage();
   // A long take stays on one thread: a second one would hold its own copies and scratch (hundreds
   // of megabytes on a two-hour take) for a gain that matters less there.
   const helper = worker && track.length <= THREADED_MAX_ROWS ? worker : null;
@@ -192,7 +194,7 @@ async function runWith(
   };
   // eslint-disable-next-line no-useless-assignment -- the columns go to the garbage collector
   track = undefined;
-  collectGarbage();
+  if (long) collectGarbage();
   // The CSV files as bytes in pieces (no string of each file): from the worker, or made here.
   const csv: CsvBytes = csvBytes ? await csvBytes : motionCsvParts(result);
   const outputs = buildRunOutputs(
