@@ -10,6 +10,8 @@ export const appPaths = {
   compareRuns: (studioId: string, trackId: string, runIds: readonly string[]) =>
     `/s/${studioId}/tracks/${trackId}/compare?runs=${runIds.map(encodeURIComponent).join(',')}`,
   home: (studioId: string) => `/s/${studioId}`,
+  /** A venue's page: its motion base form, controller output and profiles. */
+  venue: (studioId: string, venueId: string) => `/s/${studioId}/venues/${venueId}`,
   audit: (studioId: string) => `/s/${studioId}/audit`,
   account: () => '/account',
   /** The mail settings live on the account page. */

@@ -269,6 +269,10 @@ describe('new venue form', () => {
     fireEvent.click(within(form).getByRole('button', { name: 'Create' }));
 
     expect(await within(form).findByText('Venue Tidewater Arcade created.')).toBeInTheDocument();
+    // The next step is the base form on the venue's own page.
+    expect(
+      within(form).getByRole('link', { name: "Fit Tidewater Arcade's motion base in the form on its page" }),
+    ).toHaveAttribute('href', expect.stringMatching(new RegExp(`^/s/${STUDIO}/venues/[^/]+$`)));
     const post = calls.find((c) => c.method === 'POST')!;
     // The body is what JSON.parse makes of the text: the demo planar base after a JSON round trip.
     expect(post.body).toEqual({

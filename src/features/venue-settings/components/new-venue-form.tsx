@@ -1,10 +1,12 @@
 import { useId, useState } from 'react';
+import { Link } from 'react-router-dom';
 import type { FormEvent } from 'react';
 import { demoHexapodBase, demoHexapodInput, demoPlanar3Base } from '../../../../shared/schemas/motion-base';
 import { createVenueBody } from '../../../../shared/schemas/pipeline';
 import { Button } from '../../../components/ui/button';
 import { TextField, issuesByField } from '../../../components/ui/form';
 import { ErrorNotice, Notice } from '../../../components/ui/status';
+import { appPaths } from '../../../../shared/app-paths';
 import { ApiRequestError } from '../../../lib/api-client';
 import { useCreateVenue } from '../api/create-venue';
 import { BaseJsonField, locateBaseIssues, readBaseJson } from './base-json-field';
@@ -21,7 +23,10 @@ const exampleText = (key: ExampleKey) => JSON.stringify(EXAMPLES[key].base, null
 const VENUE_FIELDS = ['name', 'site', 'timeZone'] as const;
 const venueFieldsBody = createVenueBody.omit({ base: true });
 
-/** Creates a venue (studio admins): name, site, IANA time zone and a motion base as JSON (m, deg). */
+/**
+ * Creates a venue (studio admins): name, site, IANA time zone and a starting motion base (an example,
+ * or JSON pasted in, m and deg); the base is then fitted in the form on the venue's page.
+ */
 export function NewVenueForm({ studioId }: { studioId: string }) {
   const exampleId = useId();
   const [name, setName] = useState('');
@@ -32,7 +37,8 @@ export function NewVenueForm({ studioId }: { studioId: string }) {
   const [clientErrors, setClientErrors] = useState<Record<string, string>>({});
   const [clientBaseIssue, setClientBaseIssue] = useState<BaseIssue | null>(null);
   const [sent, setSent] = useState<{ text: string; baseHasName: boolean }>({ text: '', baseHasName: false });
-  const [created, setCreated] = useState<string | null>(null);
+  const [created, setCreated] = useState<{ id: string; name: string } | null>(null);
+  const [jsonOpen, setJsonOpen] = useState(false);
   const create = useCreateVenue(studioId);
 
   const submit = (event: FormEvent<HTMLFormElement>) => {
@@ -57,7 +63,7 @@ export function NewVenueForm({ studioId }: { studioId: string }) {
       { studioId, ...fields.data, base },
       {
         onSuccess: (venue) => {
-          setCreated(venue.name);
+          setCreated({ id: venue.id, name: venue.name });
           setName('');
           setSite('');
         },
@@ -85,7 +91,19 @@ export function NewVenueForm({ studioId }: { studioId: string }) {
 
   return (
     <form onSubmit={submit} noValidate aria-label="New venue" className="flex flex-col gap-3">
-      {created ? <Notice>Venue {created} created.</Notice> : null}
+      {created ? (
+        <div className="flex flex-col gap-1">
+          <Notice>Venue {created.name} created.</Notice>
+          <p className="text-sm">
+            <Link to={appPaths.venue(studioId, created.id)} className="text-tealdeep-600 underline">
+              Fit {created.name}&apos;s motion base in the form on its page
+            </Link>{' '}
+            <span className="text-xs text-ink-600">
+              (layout or joints, leg limits, seats, payload, with the 3-D view and the workspace).
+            </span>
+          </p>
+        </div>
+      ) : null}
       {create.error ? <ErrorNotice error={create.error} /> : null}
       <div className="flex flex-wrap gap-3">
         <TextField
@@ -133,12 +151,28 @@ export function NewVenueForm({ studioId }: { studioId: string }) {
           ))}
         </select>
       </div>
-      <BaseJsonField
-        label="Motion base (JSON)"
-        value={text}
-        onChange={setText}
-        issues={clientBaseIssue ? [clientBaseIssue] : baseIssues}
-      />
+      <p className="text-xs text-ink-600">
+        The venue starts with the chosen example base; after creating it, fit the base to the machine in the
+        form on the venue&apos;s page. A base written elsewhere can be pasted as JSON here instead.
+      </p>
+      <details
+        className="rounded border border-ink-200 bg-white px-3 py-2"
+        open={jsonOpen || clientBaseIssue !== null || baseIssues.length > 0}
+        onToggle={(event) => setJsonOpen(event.currentTarget.open)}
+      >
+        <summary className="cursor-pointer text-sm font-medium text-ink-800">
+          Motion base as JSON (import): {EXAMPLES[example].label}
+          {text !== exampleText(example) ? ', edited' : ''}
+        </summary>
+        <div className="pt-2">
+          <BaseJsonField
+            label="Motion base (JSON)"
+            value={text}
+            onChange={setText}
+            issues={clientBaseIssue ? [clientBaseIssue] : baseIssues}
+          />
+        </div>
+      </details>
       <div>
         <Button type="submit" variant="primary" busy={create.isPending}>
           Create
