@@ -50,6 +50,35 @@ describe('3-D preview geometry', () => {
     }
   });
 
+  it('stands each seat on a post along the platform normal, as high as the seat sits above the deck', () => {
+    // The platform joints of the demo base lie in the deck plane (z = 0 of the platform frame): the
+    // normal from the cross product of two joint-to-joint vectors (plain vector algebra) is the
+    // direction of every post, and the post's length is the seat's height in the platform frame.
+    for (const pose of POSES) {
+      const j = previewJoints(three, demoHexapodBase, pose);
+      const at = (a: Float64Array, i: number) => [a[3 * i]!, a[3 * i + 1]!, a[3 * i + 2]!] as const;
+      const [p0, p1, p2] = [at(j.platform, 0), at(j.platform, 2), at(j.platform, 4)];
+      const u = [p1[0] - p0[0], p1[1] - p0[1], p1[2] - p0[2]];
+      const w = [p2[0] - p0[0], p2[1] - p0[1], p2[2] - p0[2]];
+      const nrm = [
+        u[1]! * w[2]! - u[2]! * w[1]!,
+        u[2]! * w[0]! - u[0]! * w[2]!,
+        u[0]! * w[1]! - u[1]! * w[0]!,
+      ];
+      const len = Math.hypot(nrm[0]!, nrm[1]!, nrm[2]!);
+      const n = nrm.map((c) => (c / len) * Math.sign(nrm[2]!));
+      demoHexapodBase.seats_m.forEach((seat, k) => {
+        const top = at(j.seats, k);
+        const foot = at(j.seatFeet, k);
+        const post = [top[0] - foot[0], top[1] - foot[1], top[2] - foot[2]];
+        for (let a = 0; a < 3; a++) expect(post[a]).toBeCloseTo(seat[2]! * n[a]!, 9);
+        // The foot lies in the deck plane.
+        const d = (foot[0] - p0[0]) * n[0]! + (foot[1] - p0[1]) * n[1]! + (foot[2] - p0[2]) * n[2]!;
+        expect(d).toBeCloseTo(0, 9);
+      });
+    }
+  });
+
   it('puts a symmetric hexapod at neutral with all legs equal to the plane-geometry length', () => {
     // Plane geometry (law of cosines): L = sqrt(Rb^2 + Rp^2 - 2 Rb Rp cos d + h^2), with d the
     // angle between a leg's two joints; the demo base has Rb 1.5 m, Rp 1.0 m, h 1.6 m.

@@ -18,7 +18,7 @@ export interface ShownInstant {
 
 interface Scene {
   show: (
-    joints: { base: Float64Array; platform: Float64Array; seats: Float64Array },
+    joints: { base: Float64Array; platform: Float64Array; seats: Float64Array; seatFeet: Float64Array },
     /** Each leg's stroke use: 0 at mid-stroke, 1 at a margin (the budget's measure). */
     legUse: readonly number[],
     instant: ShownInstant,
@@ -95,6 +95,10 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
       new three.PointsMaterial({ color: CHART_COLORS.seat, size: 7, sizeAttenuation: false }),
     ),
   );
+  // A post from the deck up to each seat, so the seats read as carried by the platform.
+  const postGeometry = new three.BufferGeometry();
+  postGeometry.setAttribute('position', new three.Float32BufferAttribute(new Float32Array(6 * seatCount), 3));
+  scene.add(new three.LineSegments(postGeometry, new three.LineBasicMaterial({ color: CHART_COLORS.seat })));
 
   // Legs in the one use scale of the app: within, near (from 0.8) and over the limit.
   const toneColor = {
@@ -209,9 +213,24 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
         lc.setXYZ(2 * i + 1, c.r, c.g, c.b);
       }
       const sp = seatGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
-      for (let k = 0; k < seatCount; k++)
-        sp.setXYZ(k, joints.seats[3 * k] ?? 0, joints.seats[3 * k + 1] ?? 0, joints.seats[3 * k + 2] ?? 0);
+      const post = postGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
+      for (let k = 0; k < seatCount; k++) {
+        const seat = [
+          joints.seats[3 * k] ?? 0,
+          joints.seats[3 * k + 1] ?? 0,
+          joints.seats[3 * k + 2] ?? 0,
+        ] as const;
+        sp.setXYZ(k, seat[0], seat[1], seat[2]);
+        post.setXYZ(
+          2 * k,
+          joints.seatFeet[3 * k] ?? 0,
+          joints.seatFeet[3 * k + 1] ?? 0,
+          joints.seatFeet[3 * k + 2] ?? 0,
+        );
+        post.setXYZ(2 * k + 1, seat[0], seat[1], seat[2]);
+      }
       sp.needsUpdate = true;
+      post.needsUpdate = true;
       bp.needsUpdate = true;
       pp.needsUpdate = true;
       lp.needsUpdate = true;
@@ -461,9 +480,9 @@ export function BasePreview({
         </ul>
       ) : null}
       <p className="text-xs text-ink-400">
-        Base grey, platform dark, seats as violet dots; legs coloured by stroke use: teal within, amber from
-        0.8, red at or past a margin. Pose from the middle of each chart bucket; drag, or use the arrow keys
-        on the view, to turn it. Hover a chart to move the time.
+        Base grey, platform dark, seats as violet dots on posts from the deck; legs coloured by stroke use:
+        teal within, amber from 0.8, red at or past a margin. Pose from the middle of each chart bucket; drag,
+        or use the arrow keys on the view, to turn it. Hover a chart to move the time.
       </p>
     </div>
   );

@@ -40,7 +40,7 @@ export function previewJoints(
   three: ThreeModule,
   base: MotionBase,
   pose: PreviewPose,
-): { base: Float64Array; platform: Float64Array; seats: Float64Array } {
+): { base: Float64Array; platform: Float64Array; seats: Float64Array; seatFeet: Float64Array } {
   const n = base.baseJoints_m.length;
   const baseOut = new Float64Array(3 * n);
   const platformOut = new Float64Array(3 * n);
@@ -64,14 +64,21 @@ export function previewJoints(
     platformOut[3 * i + 2] = v.z;
   }
   // The seats ride on the platform: the same transform from the platform frame.
+  // Each seat's foot is the point of the platform plane (z = 0 of the platform frame) below it, so a
+  // post from foot to seat shows which way the deck carries the rider.
   const seatsOut = new Float64Array(3 * base.seats_m.length);
+  const feetOut = new Float64Array(3 * base.seats_m.length);
   base.seats_m.forEach((seat, k) => {
     v.set(seat[0] ?? 0, seat[1] ?? 0, seat[2] ?? 0).applyMatrix4(transform);
     seatsOut[3 * k] = v.x;
     seatsOut[3 * k + 1] = v.y;
     seatsOut[3 * k + 2] = v.z;
+    v.set(seat[0] ?? 0, seat[1] ?? 0, 0).applyMatrix4(transform);
+    feetOut[3 * k] = v.x;
+    feetOut[3 * k + 1] = v.y;
+    feetOut[3 * k + 2] = v.z;
   });
-  return { base: baseOut, platform: platformOut, seats: seatsOut };
+  return { base: baseOut, platform: platformOut, seats: seatsOut, seatFeet: feetOut };
 }
 
 /** Leg lengths (m) between matching base and platform joints from previewJoints. */
