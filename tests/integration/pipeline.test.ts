@@ -412,7 +412,7 @@ describe('venues', () => {
       .orderBy(desc(auditEvents.id))
       .limit(1);
     expect(event?.subjectId).toBe(t.seed.venueIds.arcade);
-    expect(event?.detail).toEqual({ from: before.body.controller, to: next });
+    expect(event?.detail).toEqual({ from: before.body.controller, to: next, venueName: 'Tidewater Arcade' });
     // Put back the seeded settings for the other tests.
     await eng.send('put', url, before.body.controller);
   });
