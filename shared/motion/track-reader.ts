@@ -271,6 +271,24 @@ const POW10 = [
 let scanStop = 0;
 
 /**
+ * mant x 10^scale with its sign, correctly rounded: both mant (at most 15 digits) and 10^|scale| (at
+ * most 10^22) are exact doubles, so one multiplication or division rounds once (IEEE 754); NaN
+ * beyond that, where only the slow way can tell.
+ */
+function decimalValue(mant: number, scale: number, neg: boolean): number {
+  let v: number;
+  if (mant === 0) v = 0;
+  else if (scale >= 0) {
+    if (scale > 22) return NaN;
+    v = mant * (POW10[scale] as number);
+  } else {
+    if (scale < -22) return NaN;
+    v = mant / (POW10[-scale] as number);
+  }
+  return neg ? -v : v;
+}
+
+/**
  * Reads the plain decimal at text[from, ...) (sign, digits, a point, digits, an exponent: a subset of
  * NUMBER_RE) up to the first character that cannot continue it or `to`, and sets scanStop there.
  * Returns its value when it has at most 15 significant digits and its scale is within 10^22, else
@@ -342,16 +360,7 @@ function scanDecimal(text: string, from: number, to: number): number {
     scale += eneg ? -e : e;
   }
   scanStop = i;
-  let v: number;
-  if (mant === 0) v = 0;
-  else if (scale >= 0) {
-    if (scale > 22) return NaN;
-    v = mant * (POW10[scale] as number);
-  } else {
-    if (scale < -22) return NaN;
-    v = mant / (POW10[-scale] as number);
-  }
-  return neg ? -v : v;
+  return decimalValue(mant, scale, neg);
 }
 
 /**
@@ -431,16 +440,7 @@ function scanDecimalBytes(bytes: Uint8Array, from: number, to: number): number {
     scale += eneg ? -e : e;
   }
   scanStop = i;
-  let v: number;
-  if (mant === 0) v = 0;
-  else if (scale >= 0) {
-    if (scale > 22) return NaN;
-    v = mant * (POW10[scale] as number);
-  } else {
-    if (scale < -22) return NaN;
-    v = mant / (POW10[-scale] as number);
-  }
-  return neg ? -v : v;
+  return decimalValue(mant, scale, neg);
 }
 
 /** parseDecimal on ASCII bytes: the value of bytes[from, to) when all of it is one plain decimal, else NaN. */

@@ -1,35 +1,22 @@
 // The audit log page in the real built client: a safety reviewer changes the budget a venue uses (to
 // none, then back) with a reason each time, through the API the venue page uses, and the audit page
 // says both changes in words, reason included, with no raw JSON. The venue ends as it started.
-import type { Browser, ConsoleMessage } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import { describe, expect, it } from 'vitest';
+import { browserForFile, openSignedIn, screenshotDir } from './support/chromium';
 import { DEMO_USERS } from '../../shared/demo';
 import { venueDetailSchema } from '../../shared/schemas/pipeline';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const reviewer = DEMO_USERS.find((u) => u.roles.includes('safety_reviewer'))!;
-let browser: Browser | undefined;
-
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForFile();
 
 describe('audit log', () => {
   it('says a venue’s budget change and its reason in words', async () => {
-    if (!browser || !baseUrl) throw new Error('The browser did not start; see the error of beforeAll.');
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-    const page = await context.newPage();
-    const errors: string[] = [];
-    page.on('console', (m: ConsoleMessage) => {
-      if (m.type() === 'error') errors.push(m.text());
+    const { page, errors, close } = await openSignedIn(browser(), reviewer.email, {
+      width: 1280,
+      height: 900,
     });
     try {
-      await signIn(page, reviewer.email);
       const [, studioId] = /\/s\/([^/?#]+)/.exec(page.url()) ?? [];
       const api = (path: string) => new URL(`/api/studios/${studioId}${path}`, baseUrl).href;
       const { csrfToken } = (await (
@@ -84,7 +71,7 @@ describe('audit log', () => {
       expect(after.budgetVersion?.id).toBe(before.budgetVersion!.id);
       expect(errors).toEqual([]);
     } finally {
-      await context.close();
+      await close();
     }
   }, 60_000);
 });

@@ -5,10 +5,10 @@
 // moves the marked instant across the charts; the arrow keys turn the camera on the focused canvas; a
 // take's proxy video (a WebM recorded from a canvas by Chromium's own MediaRecorder, uploaded through
 // the API) seeks to motion time + film offset when a chart is scrubbed, and plays in step.
-import type { Browser, ConsoleMessage, Locator, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Locator, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
-import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import { browserForFile, openSignedIn, screenshotDir } from './support/chromium';
 import { gentleVehicleCsv } from './support/takes';
 import { DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
 import { parseMotionBase } from '../../shared/schemas/motion-base';
@@ -26,30 +26,10 @@ import type { RunSeries } from '../../shared/schemas/run-series';
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const reviewer = DEMO_USERS.find((u) => u.roles.includes('safety_reviewer'))!;
 const producer = DEMO_USERS.find((u) => u.roles.includes('producer'))!;
-let browser: Browser | undefined;
+const browser = browserForFile();
 
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-afterAll(async () => {
-  await browser?.close();
-});
-
-async function openPage(
-  email: string,
-): Promise<{ page: Page; errors: string[]; close: () => Promise<void> }> {
-  if (!browser || !baseUrl) throw new Error('The browser did not start; see the error of beforeAll.');
-  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-  const page = await context.newPage();
-  const errors: string[] = [];
-  page.on('console', (message: ConsoleMessage) => {
-    if (message.type() === 'error') errors.push(`${message.text()} (${message.location().url})`);
-  });
-  page.on('pageerror', (error) => errors.push(`uncaught: ${error.message}`));
-  await signIn(page, email);
-  return { page, errors, close: () => context.close() };
-}
+/** A page signed in as `email` in a context of its own. */
+const openPage = (email: string) => openSignedIn(browser(), email);
 
 /** The middle of bucket `i` of a pose band, as the page computes the pose it draws. */
 const mid = (band: { min: (number | null)[]; max: (number | null)[] } | undefined, i: number) =>

@@ -3,6 +3,7 @@
 import { mkdirSync } from 'node:fs';
 import { chromium } from 'playwright-core';
 import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
 import { DEMO_PASSWORD } from '../../../shared/demo';
 
 export const screenshotDir = 'test-output/screenshots';
@@ -42,4 +43,43 @@ export async function signIn(page: Page, email: string): Promise<void> {
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in', exact: true }).click();
   await page.getByRole('navigation', { name: 'Studio pages' }).waitFor({ state: 'visible', timeout: 15_000 });
+}
+
+/**
+ * One Chromium for a test file: launched before its tests, closed after them. Call at the top of
+ * the file; the returned function gives the browser inside a test.
+ */
+export function browserForFile(): () => Browser {
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    requireBaseUrl();
+    browser = await launchChromium();
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+  return () => {
+    if (!browser) throw new Error('The browser did not start; see the error of beforeAll.');
+    return browser;
+  };
+}
+
+/**
+ * A new browser context signed in as `email`, collecting console errors and uncaught exceptions
+ * (with the script's address) so a test can require that there were none.
+ */
+export async function openSignedIn(
+  browser: Browser,
+  email: string,
+  viewport: { width: number; height: number } = { width: 1440, height: 900 },
+): Promise<{ page: Page; errors: string[]; close: () => Promise<void> }> {
+  const context = await browser.newContext({ viewport });
+  const page = await context.newPage();
+  const errors: string[] = [];
+  page.on('console', (message) => {
+    if (message.type() === 'error') errors.push(`${message.text()} (${message.location().url})`);
+  });
+  page.on('pageerror', (error) => errors.push(`uncaught: ${error.message}`));
+  await signIn(page, email);
+  return { page, errors, close: () => context.close() };
 }
