@@ -4,24 +4,16 @@
 // the new page's heading.
 import { mkdirSync, readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { browserForFile, screenshotDir, signIn } from './support/chromium';
 import { DEMO_PASSWORD, DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
 import { trackDetailSchema, trackPageSchema } from '../../shared/schemas/pipeline';
 import { appPaths } from '../../shared/app-paths';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
-let browser: Browser | undefined;
-
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForFile();
 
 interface Violation {
   id: string;
@@ -69,9 +61,9 @@ async function settle(page: Page) {
 
 describe('accessibility', () => {
   it('the main screens have no serious or critical axe-core violations, and focus follows navigation', async () => {
-    if (!browser || !baseUrl) throw new Error('The browser did not start; see the error of beforeAll.');
+    if (!baseUrl) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
     const producer = DEMO_USERS.find((u) => u.roles.includes('producer'))!;
-    const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const context = await browser().newContext({ viewport: { width: 1280, height: 800 } });
     const page = await context.newPage();
     try {
       await page.goto(new URL('/sign-in', baseUrl).href);
@@ -166,7 +158,7 @@ describe('accessibility', () => {
   });
 
   it('every screen, for the role that works it, has no serious or critical violation; each is kept as a screenshot', async () => {
-    if (!browser || !baseUrl) throw new Error('The browser did not start; see the error of beforeAll.');
+    if (!baseUrl) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
     const dir = `${screenshotDir}/screens`;
     mkdirSync(dir, { recursive: true });
     const found: string[] = [];
@@ -182,7 +174,7 @@ describe('accessibility', () => {
     };
     const as = async (role: string, walk: (page: Page, studioId: string) => Promise<void>) => {
       const user = DEMO_USERS.find((u) => (u.roles as readonly string[]).includes(role))!;
-      const context = await browser!.newContext({ viewport: { width: 1280, height: 800 } });
+      const context = await browser().newContext({ viewport: { width: 1280, height: 800 } });
       const page = await context.newPage();
       try {
         await signIn(page, user.email);
@@ -195,7 +187,7 @@ describe('accessibility', () => {
 
     // Before signing in.
     {
-      const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+      const context = await browser().newContext({ viewport: { width: 1280, height: 800 } });
       const page = await context.newPage();
       try {
         await check(page, 'sign-in', '/sign-in');

@@ -3,9 +3,9 @@
 // overlays both in every chart's read-out, sets both columns in the budget table and keeps the caution.
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import type { Browser, ConsoleMessage, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import type { ConsoleMessage, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { browserForFile, screenshotDir, signIn } from './support/chromium';
 import { DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
 import { z } from 'zod';
 import { appPaths } from '../../shared/app-paths';
@@ -14,7 +14,7 @@ import { CAUTION_TEXT } from '../../src/components/layout/caution-strip';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const producer = DEMO_USERS.find((u) => u.roles.includes('producer'));
-let browser: Browser | undefined;
+const browser = browserForFile();
 const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 
 /** axe-core's (Deque's WCAG 2.1 A/AA rules) serious and critical violations on the page as it is now. */
@@ -39,20 +39,10 @@ async function seriousViolations(page: Page): Promise<string[]> {
     );
 }
 
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
-
 describe('run comparison', () => {
   it('compares the first cut at both venues from the track page', async () => {
-    if (!browser || !baseUrl || !producer)
-      throw new Error('The browser did not start; see the error of beforeAll.');
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    if (!baseUrl || !producer) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
+    const context = await browser().newContext({ viewport: { width: 1440, height: 900 } });
     const page = await context.newPage();
     const consoleErrors: string[] = [];
     page.on('console', (message: ConsoleMessage) => {
@@ -162,9 +152,8 @@ describe('run comparison', () => {
   }, 120_000);
 
   it('overlays the legs of two runs at one venue: the first cut with and without a heave touch-up', async () => {
-    if (!browser || !baseUrl || !producer)
-      throw new Error('The browser did not start; see the error of beforeAll.');
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    if (!baseUrl || !producer) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
+    const context = await browser().newContext({ viewport: { width: 1440, height: 900 } });
     const page = await context.newPage();
     const consoleErrors: string[] = [];
     page.on('console', (message: ConsoleMessage) => {

@@ -5,30 +5,21 @@
 // is for the other walks. Screenshots of both editors go to test-output/screenshots.
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import type { Browser, ConsoleMessage, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
+import type { ConsoleMessage, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { browserForFile, screenshotDir } from './support/chromium';
 import { DEMO_PASSWORD } from '../../shared/demo';
 import { MotionBaseError, demoHexapodInput, parseMotionBase } from '../../shared/schemas/motion-base';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
-let browser: Browser | undefined;
-
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForFile();
 
 async function signedIn(
   email: string,
 ): Promise<{ page: Page; errors: string[]; close: () => Promise<void> }> {
-  if (!browser || !baseUrl) throw new Error('The browser did not start; see the error of beforeAll.');
-  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  if (!baseUrl) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
+  const context = await browser().newContext({ viewport: { width: 1440, height: 900 } });
   const page = await context.newPage();
   const errors: string[] = [];
   page.on('console', (message: ConsoleMessage) => {

@@ -1,9 +1,9 @@
 // A producer takes a track from nothing to a finished cue run through the real built client in
 // Chromium: create the track, upload a refused take and a good one, queue runs for both venues, wait
 // for the worker, and read the run page's charts and budget, with no error in the browser console.
-import type { Browser, ConsoleMessage } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import type { ConsoleMessage } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { browserForFile, screenshotDir, signIn } from './support/chromium';
 import { gentleVehicleCsv } from './support/takes';
 import { DEMO_USERS } from '../../shared/demo';
 import { runDetailSchema } from '../../shared/schemas/pipeline';
@@ -22,22 +22,12 @@ function badVehicleCsv(): string {
 }
 
 const producer = DEMO_USERS.find((u) => u.roles.includes('producer'));
-let browser: Browser | undefined;
-
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForFile();
 
 describe('pipeline screens', () => {
   it('a producer creates a track, uploads takes, queues runs and reads a finished run', async () => {
-    if (!browser || !baseUrl || !producer)
-      throw new Error('The browser did not start; see the error of beforeAll.');
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    if (!baseUrl || !producer) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
+    const context = await browser().newContext({ viewport: { width: 1440, height: 900 } });
     const page = await context.newPage();
     const consoleErrors: string[] = [];
     page.on('console', (message: ConsoleMessage) => {

@@ -2,25 +2,16 @@
 // (Web Workers running the shared motion code) computes on a demo take and venue, a changed tilt angle
 // limit changes the preview's peak pitch, a bad value is named beside its field, the take's own file
 // can be opened for the full take, and saving makes a new version of the profile.
-import type { Browser, ConsoleMessage, Locator, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import type { ConsoleMessage, Locator, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { browserForFile, screenshotDir, signIn } from './support/chromium';
 import { DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
 import { demoRideCsv } from '../../shared/demo-ride';
 import { profileSchema } from '../../shared/schemas/pipeline';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const engineer = DEMO_USERS.find((u) => u.roles.includes('motion_engineer'));
-let browser: Browser | undefined;
-
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForFile();
 
 /** The preview's state once its newest computation is shown (data attributes on the section). */
 async function readPreview(preview: Locator) {
@@ -44,9 +35,8 @@ async function cueingVersions(page: Page, studioId: string): Promise<number> {
 
 describe('cueing profile editor', () => {
   it('previews a change live and saves it as a new version', async () => {
-    if (!browser || !baseUrl || !engineer)
-      throw new Error('The browser did not start; see the error of beforeAll.');
-    const context = await browser.newContext({ viewport: { width: 1600, height: 1000 } });
+    if (!baseUrl || !engineer) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
+    const context = await browser().newContext({ viewport: { width: 1600, height: 1000 } });
     const page = await context.newPage();
     const consoleErrors: string[] = [];
     page.on('console', (message: ConsoleMessage) => {

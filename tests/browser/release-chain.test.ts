@@ -9,12 +9,12 @@
 // opens the release with the problem on it. No error in any browser console on the way.
 import { createHash } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
-import type { Browser, BrowserContext, ConsoleMessage, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { BrowserContext, ConsoleMessage, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import { mailMessageSchema } from '../../shared/schemas/api';
 import type { MailMessage } from '../../shared/schemas/api';
-import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
+import { browserForFile, screenshotDir } from './support/chromium';
 import { DEMO_PASSWORD, DEMO_USERS, DEMO_VENUES } from '../../shared/demo';
 import { gentleVehicleCsv } from './support/takes';
 
@@ -29,21 +29,12 @@ const reviewer = person('safety_reviewer');
 const operator = person('venue_operator');
 const operatorVenue = DEMO_VENUES[operator.venues?.[0] ?? 'dome'].name;
 
-let browser: Browser | undefined;
+const browser = browserForFile();
 const consoleErrors: string[] = [];
 
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
-
 async function signedIn(email: string): Promise<{ context: BrowserContext; page: Page }> {
-  if (!browser || !baseUrl) throw new Error('The browser did not start; see the error of beforeAll.');
-  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  if (!baseUrl) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
+  const context = await browser().newContext({ viewport: { width: 1440, height: 900 } });
   const page = await context.newPage();
   page.on('console', (message: ConsoleMessage) => {
     if (message.type() === 'error')

@@ -1,29 +1,20 @@
 // Every demo member signs in through the real built client in Chromium, lands on the home section of
 // their role, and signs out again, with no error in the browser console on the way.
-import type { Browser, ConsoleMessage } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir } from './support/chromium';
+import type { ConsoleMessage } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { browserForFile, screenshotDir } from './support/chromium';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../shared/demo';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 
-let browser: Browser | undefined;
-
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForFile();
 
 describe('each demo role signs in and sees its own home', () => {
   for (const user of DEMO_USERS) {
     const role = user.roles[0];
     it(`${user.email} (${role}) signs in, sees home-${role}, and signs out`, async () => {
-      if (!browser || !baseUrl) throw new Error('The browser did not start; see the error of beforeAll.');
-      const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+      if (!baseUrl) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
+      const context = await browser().newContext({ viewport: { width: 1280, height: 800 } });
       const page = await context.newPage();
       const consoleErrors: string[] = [];
       page.on('console', (message: ConsoleMessage) => {

@@ -3,9 +3,9 @@
 // every chart's time axis to that finding's span with a margin (read from the uPlot scale each chart
 // exposes), its numbers are read out as the API gives them, the shared cursor's legend reads every
 // band's value from the run's series, and "Show whole take" brings the whole take back.
-import type { Browser, ConsoleMessage, Locator } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, requireBaseUrl, screenshotDir, signIn } from './support/chromium';
+import type { ConsoleMessage, Locator } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { browserForFile, screenshotDir, signIn } from './support/chromium';
 import { DEMO_TRACK, DEMO_USERS } from '../../shared/demo';
 import type { Finding } from '../../shared/schemas/findings';
 import { runDetailSchema, trackDetailSchema, trackPageSchema } from '../../shared/schemas/pipeline';
@@ -13,16 +13,7 @@ import { runSeriesSchema } from '../../shared/schemas/run-series';
 
 const baseUrl = process.env.LEGWORK_BASE_URL;
 const reviewer = DEMO_USERS.find((u) => u.roles.includes('safety_reviewer'));
-let browser: Browser | undefined;
-
-beforeAll(async () => {
-  requireBaseUrl();
-  browser = await launchChromium();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForFile();
 
 /**
  * The window the page promises for a finding: its span with max(0.5 s, half the span) of context on
@@ -62,9 +53,8 @@ const four = (v: number) => String(Number(v.toPrecision(4)));
 
 describe('run page', () => {
   it('brings every chart to a selected finding, reads out its numbers and the cursor, and shows the whole take again', async () => {
-    if (!browser || !baseUrl || !reviewer)
-      throw new Error('The browser did not start; see the error of beforeAll.');
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    if (!baseUrl || !reviewer) throw new Error('LEGWORK_BASE_URL is not set; see the error of beforeAll.');
+    const context = await browser().newContext({ viewport: { width: 1440, height: 900 } });
     const page = await context.newPage();
     const consoleErrors: string[] = [];
     page.on('console', (message: ConsoleMessage) => {
