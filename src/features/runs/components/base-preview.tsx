@@ -7,6 +7,7 @@ import { CHART_COLORS } from '../../../components/charts/palette';
 import { Button } from '../../../components/ui/button';
 import { ratioTone } from '../../../components/charts/run-badges';
 import { poseAtBucket, previewJoints, previewLegLengths } from '../utils/preview-geometry';
+import { centroidOf, pointAt } from '../../../lib/scene-points';
 import type { PreviewPose, ThreeModule } from '../utils/preview-geometry';
 
 /** What a frame shows, stamped on the view's element as it is drawn (for readers of the markup and tests). */
@@ -194,16 +195,8 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
       const lp = legGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
       const lc = legGeometry.getAttribute('color') as InstanceType<ThreeModule['BufferAttribute']>;
       for (let i = 0; i < n; i++) {
-        const b = [
-          joints.base[3 * i] ?? 0,
-          joints.base[3 * i + 1] ?? 0,
-          joints.base[3 * i + 2] ?? 0,
-        ] as const;
-        const p = [
-          joints.platform[3 * i] ?? 0,
-          joints.platform[3 * i + 1] ?? 0,
-          joints.platform[3 * i + 2] ?? 0,
-        ] as const;
+        const b = pointAt(joints.base, i);
+        const p = pointAt(joints.platform, i);
         bp.setXYZ(i, b[0], b[1], b[2]);
         pp.setXYZ(i, p[0], p[1], p[2]);
         lp.setXYZ(2 * i, b[0], b[1], b[2]);
@@ -215,19 +208,10 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
       const sp = seatGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
       const post = postGeometry.getAttribute('position') as InstanceType<ThreeModule['BufferAttribute']>;
       for (let k = 0; k < seatCount; k++) {
-        const seat = [
-          joints.seats[3 * k] ?? 0,
-          joints.seats[3 * k + 1] ?? 0,
-          joints.seats[3 * k + 2] ?? 0,
-        ] as const;
-        sp.setXYZ(k, seat[0], seat[1], seat[2]);
-        post.setXYZ(
-          2 * k,
-          joints.seatFeet[3 * k] ?? 0,
-          joints.seatFeet[3 * k + 1] ?? 0,
-          joints.seatFeet[3 * k + 2] ?? 0,
-        );
-        post.setXYZ(2 * k + 1, seat[0], seat[1], seat[2]);
+        const seat = pointAt(joints.seats, k);
+        sp.setXYZ(k, ...seat);
+        post.setXYZ(2 * k, ...pointAt(joints.seatFeet, k));
+        post.setXYZ(2 * k + 1, ...seat);
       }
       sp.needsUpdate = true;
       post.needsUpdate = true;
@@ -238,15 +222,7 @@ async function buildScene(three: ThreeModule, el: HTMLElement, base: MotionBase)
       wideLegs.setPositions(lp.array as Float32Array);
       wideLegs.setColors(lc.array as Float32Array);
       // The centroid of the platform joints as they now stand in the scene's buffer.
-      let cx = 0;
-      let cy = 0;
-      let cz = 0;
-      for (let i = 0; i < n; i++) {
-        cx += pp.getX(i) / n;
-        cy += pp.getY(i) / n;
-        cz += pp.getZ(i) / n;
-      }
-      shown = { instant, platformCentroid_m: [cx, cy, cz] };
+      shown = { instant, platformCentroid_m: centroidOf(pp, n) };
       el.dataset.legUse = Array.from(legUse, (u) => u.toFixed(3)).join(' ');
       render();
     },

@@ -5,6 +5,7 @@ import { useEffect, useRef, useState } from 'react';
 import type * as Three from 'three';
 import type { MotionBase } from '../../../../shared/schemas/motion-base';
 import { CHART_COLORS } from '../../../components/charts/palette';
+import { centroidOf, pointAt } from '../../../lib/scene-points';
 
 type ThreeModule = typeof Three;
 
@@ -74,16 +75,8 @@ function buildScene(three: ThreeModule, el: HTMLElement, n: number, hexapod: boo
       const lp = legs.getAttribute('position') as Attr;
       const lc = legs.getAttribute('color') as Attr;
       for (let i = 0; i < n; i++) {
-        const b = [
-          joints.base[3 * i] ?? 0,
-          joints.base[3 * i + 1] ?? 0,
-          joints.base[3 * i + 2] ?? 0,
-        ] as const;
-        const p = [
-          joints.platform[3 * i] ?? 0,
-          joints.platform[3 * i + 1] ?? 0,
-          joints.platform[3 * i + 2] ?? 0,
-        ] as const;
+        const b = pointAt(joints.base, i);
+        const p = pointAt(joints.platform, i);
         bp.setXYZ(i, ...b);
         pp.setXYZ(i, ...p);
         lp.setXYZ(2 * i, ...b);
@@ -96,17 +89,11 @@ function buildScene(three: ThreeModule, el: HTMLElement, n: number, hexapod: boo
       renderer.render(scene, camera);
       // What the frame drawn shows, on the holder: a count of frames and the platform's centroid as
       // placed in the scene (mm, base frame), for readers of the markup and for tests.
-      let cx = 0;
-      let cy = 0;
-      let cz = 0;
-      for (let i = 0; i < n; i++) {
-        cx += pp.getX(i) / n;
-        cy += pp.getY(i) / n;
-        cz += pp.getZ(i) / n;
-      }
       frames++;
       el.dataset.frames = String(frames);
-      el.dataset.platformCentroidMm = [cx, cy, cz].map((v) => (v * 1000).toFixed(3)).join(' ');
+      el.dataset.platformCentroidMm = centroidOf(pp, n)
+        .map((v) => (v * 1000).toFixed(3))
+        .join(' ');
     },
     dispose: () => {
       renderer.dispose();
